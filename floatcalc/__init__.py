@@ -1,0 +1,49 @@
+"""floatcalc: load that small objects carry on a liquid surface by surface tension and meniscus pressure.
+
+The top-level names are loaded lazily so that ``import floatcalc`` stays light (no pint, SciPy,
+matplotlib or Streamlit until they are needed).
+
+>>> import floatcalc
+>>> r = floatcalc.rod("0.25 mm", "40 mm", "150 deg")
+>>> r.max_force.units
+<Unit('newton')>
+"""
+
+from __future__ import annotations
+
+import importlib
+from typing import Any
+
+__version__ = "0.1.0"
+
+_EXPORTS = {
+    # errors
+    "FloatcalcError": "errors", "InputError": "errors", "ConvergenceError": "errors",
+    "ModelRangeWarning": "errors",
+    # units
+    "registry": "units", "Q_": "units",
+    # liquids
+    "Liquid": "liquids", "liquid": "liquids", "water": "liquids", "seawater": "liquids",
+    "custom_liquid": "liquids", "contaminated": "liquids", "list_liquids": "liquids",
+    # dimensionless groups
+    "capillary_length": "groups", "bond_number": "groups", "baudoin_number": "groups",
+    "weber_number": "groups", "reynolds_number": "groups", "min_wave_speed": "groups",
+    # rods
+    "rod": "rod", "rod_limit": "rod", "RodResult": "rod",
+}
+
+__all__ = sorted(_EXPORTS) + ["__version__"]
+
+
+def __getattr__(name: str) -> Any:
+    try:
+        module = _EXPORTS[name]
+    except KeyError:
+        raise AttributeError(f"module 'floatcalc' has no attribute {name!r}") from None
+    value = getattr(importlib.import_module(f".{module}", __name__), name)
+    globals()[name] = value
+    return value
+
+
+def __dir__() -> list[str]:
+    return __all__

@@ -1,0 +1,88 @@
+"""Command-line front end. Holds no physics: parses, calls the API, formats.
+
+Each subcommand lives in its own module ``floatcalc/cli/cmd_<name>.py`` that defines
+``register(subparsers)``; :data:`COMMANDS` lists them. Every command accepts ``--json``.
+Bad input prints one line on stderr and exits with code 2.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+import warnings
+
+from ..errors import FloatcalcError
+
+#: Subcommand modules, in the order shown by ``floatcalc --help``.
+COMMANDS = ("demo", "liquid", "leg")
+
+EXIT_BAD_INPUT = 2
+EXIT_SOLVER = 3
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with one-line errors and exit code 2."""
+
+    def error(self, message: str):  # noqa: D401 - argparse API
+        self.exit(EXIT_BAD_INPUT, f"floatcalc: error: {message} (see '{self.prog} --help')\n")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(
+        prog="floatcalc",
+        description="Load that legs, pins, balls, pads and rings carry on a liquid surface "
+        "by surface tension and meniscus pressure (static estimate, clean liquid).",
+    )
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    for name in COMMANDS:
+        importlib.import_module(f"{__name__}.cmd_{name}").register(sub)
+    return parser
+
+
+def _join_negative_values(argv: list[str]) -> list[str]:
+    """Turn ``--radius -1mm`` into ``--radius=-1mm`` so argparse does not take it for a flag.
+
+    The value is then checked (and refused with a clear message) by the API.
+    """
+    out: list[str] = []
+    i = 0
+    while i < len(argv):
+        tok = argv[i]
+        nxt = argv[i + 1] if i + 1 < len(argv) else ""
+        if tok.startswith("--") and "=" not in tok and len(nxt) > 1 and nxt[0] == "-" and (
+            nxt[1].isdigit() or nxt[1] == "."
+        ):
+            out.append(f"{tok}={nxt}")
+            i += 2
+            continue
+        out.append(tok)
+        i += 1
+    return out
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Entry point of the ``floatcalc`` console script; returns the exit code."""
+    parser = build_parser()
+    args = parser.parse_args(_join_negative_values(sys.argv[1:] if argv is None else list(argv)))
+    if not getattr(args, "func", None):
+        parser.print_help()
+        return EXIT_BAD_INPUT
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")  # results carry their warnings; print those instead
+            return int(args.func(args) or 0)
+    except FloatcalcError as exc:
+        code = EXIT_BAD_INPUT if isinstance(exc, ValueError) else EXIT_SOLVER
+        print(f"floatcalc: error: {exc}", file=sys.stderr)
+        return code
+    except (OSError, UnicodeDecodeError) as exc:
+        print(f"floatcalc: error: {exc}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        print("floatcalc: interrupted", file=sys.stderr)
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())
