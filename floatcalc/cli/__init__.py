@@ -1,7 +1,8 @@
 """Command-line front end. Holds no physics: parses, calls the API, formats.
 
 Each subcommand lives in its own module ``floatcalc/cli/cmd_<name>.py`` that defines
-``register(subparsers)``; :data:`COMMANDS` lists them. Every command accepts ``--json``.
+``register(subparsers)`` and an integer ``ORDER`` (its place in ``--help``). Modules are found
+by name, so adding a command touches no shared file. Every command accepts ``--json``.
 Bad input prints one line on stderr and exits with code 2.
 """
 
@@ -9,13 +10,18 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import pkgutil
 import sys
 import warnings
 
 from ..errors import FloatcalcError
 
-#: Subcommand modules, in the order shown by ``floatcalc --help``.
-COMMANDS = ("demo", "liquid", "leg")
+
+def _command_modules():
+    """Import every ``cmd_*`` module of this package, sorted by their ``ORDER``."""
+    mods = [importlib.import_module(f"{__name__}.{m.name}")
+            for m in pkgutil.iter_modules(__path__) if m.name.startswith("cmd_")]
+    return sorted(mods, key=lambda m: (getattr(m, "ORDER", 100), m.__name__))
 
 EXIT_BAD_INPUT = 2
 EXIT_SOLVER = 3
@@ -35,8 +41,8 @@ def build_parser() -> argparse.ArgumentParser:
         "by surface tension and meniscus pressure (static estimate, clean liquid).",
     )
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
-    for name in COMMANDS:
-        importlib.import_module(f"{__name__}.cmd_{name}").register(sub)
+    for mod in _command_modules():
+        mod.register(sub)
     return parser
 
 

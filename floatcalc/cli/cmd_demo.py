@@ -16,6 +16,9 @@ DEMO = {
 }
 
 
+ORDER = 10
+
+
 def register(sub) -> None:
     p = sub.add_parser("demo", help="run the main calculation on a built-in invented example")
     add_json_flag(p)

@@ -8,6 +8,9 @@ from ._common import add_liquid_args, fmt, liquid_from_args
 from ._format import add_json_flag, print_json, print_table
 
 
+ORDER = 30
+
+
 def register(sub) -> None:
     p = sub.add_parser("leg", help="limit load of long horizontal legs (rods) lying in the surface")
     p.add_argument("--radius", required=True, help="leg radius, e.g. 0.15mm")

@@ -6,6 +6,9 @@ from ..liquids import contaminated, liquid, list_liquids
 from ._format import add_json_flag, print_json, print_table
 
 
+ORDER = 20
+
+
 def register(sub) -> None:
     p = sub.add_parser("liquid", help="surface tension, density and capillary length of a liquid")
     p.add_argument("name", nargs="?", default="water", help="liquid name, e.g. water, seawater, ethanol; 'list' lists them")
