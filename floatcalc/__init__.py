@@ -30,6 +30,8 @@ _EXPORTS = {
     "weber_number": "groups", "reynolds_number": "groups", "min_wave_speed": "groups",
     # rods
     "rod": "rod", "rod_limit": "rod", "RodResult": "rod",
+    # vertical wall
+    "wall_meniscus": "wall", "WallMeniscusResult": "wall",
 }
 
 __all__ = sorted(_EXPORTS) + ["__version__"]
