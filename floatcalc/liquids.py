@@ -132,7 +132,9 @@ def _temperature(value: Any, field_name: str = "temperature") -> float:
 
 
 def _check_T(T: float, lo: float, hi: float, what: str) -> None:
-    if not (lo <= T <= hi):
+    # 1 µK of slack: "0.01 degC" converts to 273.15999999999997 K, which must not be refused
+    # as lying below the 273.16 K limit that is stated as "0.01 °C".
+    if not (lo - 1e-6 <= T <= hi + 1e-6):
         raise input_error(
             "temperature",
             f"{what} allows {lo - _p.KELVIN:g} to {hi - _p.KELVIN:g} °C",
