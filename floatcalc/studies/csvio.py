@@ -1,0 +1,215 @@
+"""CSV tables with unit-bearing headers: ``depth [mm],force [mN]``.
+
+Reading: lines starting with ``#`` are comments and blank lines are ignored; the first other
+line is the header, each column named ``name [unit]``. Every data row is checked; rows that do
+not parse (wrong number of fields, not a number, not finite) are collected with their line
+numbers and reported together in one :class:`~floatcalc.errors.InputError`, or, with
+``skip_bad_rows=True``, dropped and reported as warnings. Nothing is skipped silently.
+
+Writing: optional ``#`` comment lines (model, references, cautions) then a header with units.
+
+>>> import io
+>>> text = "# invented example\\ndepth [mm],force [mN]\\n0.1,1.5\\n0.2,2.5\\n"
+>>> t = read_table(io.StringIO(text), {"depth": "length", "force": "force"})
+>>> t.columns["depth"].round(6).tolist(), t.columns["force"].round(6).tolist()
+([0.0001, 0.0002], [0.0015, 0.0025])
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+import re
+from dataclasses import dataclass
+from pathlib import Path
+from typing import IO, Any, Iterable, Sequence
+
+import numpy as np
+
+from ..errors import input_error
+from ..units import KINDS, to_si
+
+_HEADER = re.compile(r"^\s*([^\[\]]+?)\s*\[\s*([^\[\]]*?)\s*\]\s*$")
+_MAX_LISTED = 12  # bad rows named in one message; the count says how many more
+
+
+@dataclass(frozen=True)
+class Table:
+    """Columns in SI units (``columns[name]`` float arrays), source line numbers and warnings."""
+
+    columns: dict[str, np.ndarray]
+    units: dict[str, str]
+    lines: np.ndarray
+    warnings: tuple[str, ...]
+    comments: tuple[str, ...]
+
+
+def _open(src: Any) -> tuple[IO[str], bool]:
+    if hasattr(src, "read"):
+        return src, False
+    return open(Path(src), newline="", encoding="utf-8-sig"), True
+
+
+def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = False,
+               field: str = "data", min_rows: int = 1) -> Table:
+    """Read a unit-headed CSV and return the ``required`` columns converted to SI.
+
+    Parameters
+    ----------
+    src : path or text file
+    required : dict
+        Column name -> unit kind (see :data:`floatcalc.units.KINDS`), e.g.
+        ``{"depth": "length", "force": "force"}``. Names match case-insensitively; extra
+        columns are ignored.
+    skip_bad_rows : bool
+        Drop bad rows and report them as warnings instead of raising.
+    field : str
+        Name used in error messages.
+    min_rows : int
+        Fewest good rows accepted.
+
+    Raises
+    ------
+    InputError
+        Missing header or units, missing columns, units of the wrong dimension, bad rows
+        (all listed by line number), too few rows.
+    """
+    fh, close = _open(src)
+    try:
+        text = fh.read()
+    finally:
+        if close:
+            fh.close()
+    comments: list[str] = []
+    header: list[str] | None = None
+    header_line = 0
+    rows: list[tuple[int, list[str]]] = []
+    for lineno, raw in enumerate(text.splitlines(), start=1):
+        s = raw.strip()
+        if not s:
+            continue
+        if s.startswith("#"):
+            comments.append(s.lstrip("#").strip())
+            continue
+        fields = next(csv.reader([raw]))
+        if header is None:
+            header, header_line = fields, lineno
+        else:
+            rows.append((lineno, fields))
+    if header is None:
+        raise input_error(field, "needs a header line such as 'depth [mm],force [mN]'", "no header")
+    names: list[str] = []
+    units: list[str] = []
+    for col in header:
+        m = _HEADER.match(col)
+        if not m:
+            raise input_error(field, f"line {header_line}: each column header needs a unit in brackets, "
+                              "e.g. 'depth [mm]'", repr(col.strip()))
+        names.append(" ".join(m.group(1).lower().split()))
+        units.append(m.group(2))
+    index: dict[str, int] = {}
+    for want in required:
+        hits = [i for i, n in enumerate(names) if n == want.lower()]
+        if not hits:
+            raise input_error(field, f"needs a column '{want} [unit]'", f"columns {', '.join(header)}")
+        index[want] = hits[0]
+
+    bad: list[str] = []
+    good_lines: list[int] = []
+    values: dict[str, list[float]] = {k: [] for k in required}
+    for lineno, fields in rows:
+        if len(fields) != len(header):
+            bad.append(f"line {lineno}: {len(fields)} fields, header has {len(header)}")
+            continue
+        row: dict[str, float] = {}
+        problem = None
+        for name, i in index.items():
+            cell = fields[i].strip()
+            try:
+                x = float(cell)
+            except ValueError:
+                problem = f"line {lineno}: {name} is not a number ({cell!r})"
+                break
+            if not math.isfinite(x):
+                problem = f"line {lineno}: {name} is not finite ({cell!r})"
+                break
+            row[name] = x
+        if problem:
+            bad.append(problem)
+            continue
+        good_lines.append(lineno)
+        for name, x in row.items():
+            values[name].append(x)
+    warnings: list[str] = []
+    if bad:
+        listed = "; ".join(bad[:_MAX_LISTED]) + (f"; and {len(bad) - _MAX_LISTED} more" if len(bad) > _MAX_LISTED else "")
+        if not skip_bad_rows:
+            raise input_error(field, f"{len(bad)} bad row(s) ({listed}); fix them or use --skip-bad-rows",
+                              f"{len(rows)} data rows")
+        warnings.extend(f"skipped bad row, {b}" for b in bad)
+    if len(good_lines) < min_rows:
+        raise input_error(field, f"needs at least {min_rows} good data rows", len(good_lines))
+
+    out: dict[str, np.ndarray] = {}
+    unit_of: dict[str, str] = {}
+    for name, kind in required.items():
+        unit = units[index[name]]
+        mag = np.asarray(values[name], dtype=float)
+        if not unit:
+            raise input_error(field, f"column '{name}' needs a unit, e.g. '{KINDS[kind][2]}'", "[]")
+        from ..units import Q_
+
+        try:
+            q = Q_(mag, unit.replace("µ", "u").replace("μ", "u"))
+        except Exception:
+            raise input_error(field, f"column '{name}': unknown unit", repr(unit)) from None
+        out[name] = np.asarray(to_si(q, kind, f"{field} column '{name}'", array=True), dtype=float)
+        unit_of[name] = unit
+    return Table(columns=out, units=unit_of, lines=np.asarray(good_lines), warnings=tuple(warnings),
+                 comments=tuple(comments))
+
+
+def write_table(dst: Any, columns: Sequence[tuple[str, str, Any]], *, comments: Iterable[str] = (),
+                digits: int = 8) -> None:
+    """Write columns as CSV with ``name [unit]`` headers.
+
+    Parameters
+    ----------
+    dst : path or text file
+    columns : sequence of (name, unit, values)
+        ``values`` already in ``unit`` (plain numbers or strings).
+    comments : lines written first, each prefixed with ``# ``.
+    """
+    cols = [(n, u, np.asarray(v).ravel()) for n, u, v in columns]
+    nrows = {c[2].size for c in cols}
+    if len(nrows) > 1:  # programming error
+        raise ValueError(f"columns of unequal length: {sorted(nrows)}")
+    own = not hasattr(dst, "write")
+    fh = open(Path(dst), "w", newline="", encoding="utf-8") if own else dst
+    try:
+        for c in comments:
+            for line in str(c).splitlines():
+                fh.write(f"# {line}\n")
+        w = csv.writer(fh, lineterminator="\n")
+        w.writerow([f"{n} [{u}]" for n, u, _ in cols])
+        for i in range(cols[0][2].size if cols else 0):
+            w.writerow([_cell(c[2][i], digits) for c in cols])
+    finally:
+        if own:
+            fh.close()
+
+
+def _cell(x: Any, digits: int) -> str:
+    if isinstance(x, (bool, np.bool_)):
+        return "1" if x else "0"
+    if isinstance(x, (float, np.floating)):
+        return f"{float(x):.{digits}g}"
+    return str(x)
+
+
+def to_text(columns: Sequence[tuple[str, str, Any]], comments: Iterable[str] = ()) -> str:
+    """The CSV text :func:`write_table` would write."""
+    buf = io.StringIO()
+    write_table(buf, columns, comments=comments)
+    return buf.getvalue()
