@@ -1,0 +1,213 @@
+"""Matplotlib drawings of floatcalc results: cross-sections to scale, force–depth curves.
+
+Front-end module: no physics, only drawing of what the API returns. It is imported by the page
+and the report, never by ``import floatcalc``; matplotlib is imported inside the functions.
+Every function draws on ``ax`` if given, else on a new :class:`matplotlib.figure.Figure`
+(no pyplot state, so it is safe in a Streamlit server), and returns the axes.
+
+Cross-sections are drawn to scale (equal aspect); lengths in mm, forces in mN.
+
+>>> import floatcalc as fc
+>>> ax = meniscus_section(fc.rod("0.25 mm", "40 mm", "150 deg"))
+>>> ax.get_aspect(), ax.get_xlabel()
+(1.0, 'horizontal distance from the leg axis [mm]')
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import numpy as np
+
+#: The page's own palette.
+COLOURS = {
+    "liquid": "#d3ebf0",
+    "interface": "#176a85",
+    "solid": "#6b5444",
+    "solid_edge": "#3b2c22",
+    "contact": "#e4572e",
+    "depth": "#6d3f9c",
+    "surface": "#8aa1ad",
+    "total": "#13233f",
+    "surface_tension": "#2a9d8f",
+    "pressure": "#d99a26",
+    "load": "#b33c2e",
+}
+VERDICT_COLOURS = {"floats with margin": "#2d7a3a", "marginal": "#a86200", "sinks": "#b3261e"}
+_SERIES = ("#13233f", "#c44536", "#2a9d8f", "#8a5a9e", "#d99a26", "#4f6d7a")
+
+SECTION_XLABEL = "horizontal distance from the leg axis [mm]"
+SECTION_YLABEL = "height above the undisturbed surface [mm]"
+DEPTH_LABEL = "depth of the lowest point below the undisturbed surface [mm]"
+FORCE_LABEL = "upward force from the liquid [mN]"
+
+
+def _axes(ax, size=(7.0, 3.6)):
+    if ax is not None:
+        return ax
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=size, layout="constrained")
+    return fig.add_subplot()
+
+
+def _style(ax):
+    ax.grid(True, color="#e6e6e6", lw=0.6)
+    ax.set_axisbelow(True)
+    for side in ("top", "right"):
+        ax.spines[side].set_visible(False)
+
+
+def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = False):
+    """Cross-section of a long leg at its limit: liquid, meniscus, leg section, contact points.
+
+    Drawn to scale (equal aspect) in mm, from ``result.profile`` of a
+    :class:`~floatcalc.rod.RodResult`. The solid is the patch with gid ``"solid"``, the contact
+    points the collection with gid ``"contact points"``; the depth of the lowest point is marked.
+
+    Parameters
+    ----------
+    result : RodResult
+    extent_lc : float
+        How far to draw the meniscus beyond the contact points, in capillary lengths.
+    zoom : bool
+        Draw a close-up around the leg instead (still to scale), for legs much thinner than the
+        capillary length.
+    """
+    from matplotlib.patches import Circle, Polygon
+
+    ax = _axes(ax)
+    p = result.profile
+    mm = 1e3
+    R = p["radius_m"] * mm
+    zc_centre = p["centre_z_m"] * mm
+    xr, zr = (np.asarray(a) * mm for a in p["right_m"])
+    xl, zl = (np.asarray(a) * mm for a in p["left_m"])
+    cx, cz = p["contact_m"][0] * mm, p["contact_m"][1] * mm
+    depth = p["depth_m"] * mm
+    lc = result.liquid.lc * mm if result.liquid is not None else 2.7
+    X = abs(cx) + extent_lc * lc
+    keep_r, keep_l = xr <= X, xl >= -X
+    xr, zr, xl, zl = xr[keep_r], zr[keep_r], xl[keep_l], zl[keep_l]
+    bottom = -(depth + 0.6 * lc)
+
+    # Liquid: below the left meniscus, the wetted arc of the leg and the right meniscus.
+    phi = math.radians(result.contact_position_at_max.to("deg").magnitude)
+    a = np.linspace(-phi, phi, 120)
+    arc_x, arc_z = R * np.sin(a), zc_centre - R * np.cos(a)
+    outline = np.concatenate([
+        np.column_stack([xl[::-1], zl[::-1]]),
+        np.column_stack([arc_x, arc_z]),
+        np.column_stack([xr, zr]),
+        [[xr[-1] if xr.size else X, bottom], [xl[-1] if xl.size else -X, bottom]],
+    ])
+    ax.add_patch(Polygon(outline, closed=True, facecolor=COLOURS["liquid"], edgecolor="none",
+                         zorder=1, gid="liquid", label="liquid"))
+    ax.plot(xr, zr, color=COLOURS["interface"], lw=1.8, zorder=3, label="meniscus (liquid surface)")
+    ax.plot(xl, zl, color=COLOURS["interface"], lw=1.8, zorder=3)
+    ax.axhline(0.0, color=COLOURS["surface"], lw=0.9, ls=(0, (5, 4)), zorder=2,
+               label="undisturbed surface")
+    ax.add_patch(Circle((0.0, zc_centre), R, facecolor=COLOURS["solid"], edgecolor=COLOURS["solid_edge"],
+                        lw=1.0, zorder=4, gid="solid", label="leg section (solid)"))
+    pts = ax.scatter([-cx, cx], [cz, cz], s=36, color=COLOURS["contact"], edgecolor="white", lw=0.8,
+                     zorder=5, label="contact points")
+    pts.set_gid("contact points")
+    low = zc_centre - R
+    if not zoom:
+        xd = -X * 0.82
+        ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),
+                    arrowprops={"arrowstyle": "<->", "color": COLOURS["depth"], "lw": 1.2}, zorder=5)
+        ax.plot([xd, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(xd + 0.04 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
+                va="center", ha="left", zorder=6)
+    top = max(zc_centre + R, 0.0) + 0.35 * lc
+    if zoom:  # close-up around the leg, still to scale
+        X = max(3.0 * R, 1.6 * abs(cx), 0.2 * lc)
+        bottom, top = zc_centre - 0.75 * X, zc_centre + 0.75 * X
+        ax.plot([-X, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(-0.95 * X, low, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
+                fontsize=8.5, va="bottom", ha="left", zorder=6)
+    ax.set_xlim(-X, X)
+    ax.set_ylim(bottom, top)
+    ax.set_aspect("equal")
+    ax.set_xlabel(SECTION_XLABEL)
+    ax.set_ylabel(SECTION_YLABEL)
+    ax.set_title("Close-up of the leg at the limit (to scale)" if zoom else
+                 "Meniscus cross-section at the limit load (to scale)", fontsize=10, loc="left")
+    if not zoom:
+        ax.legend(loc="lower right", fontsize=7, framealpha=0.85, ncols=2)
+    _style(ax)
+    return ax
+
+
+def force_depth(result: Any, ax=None, load: Any = None, operating_depth: Any = None, parts: bool = True):
+    """Force–depth curve of one element group with its limit, parts and operating point.
+
+    Parameters
+    ----------
+    result : RodResult (or any result with ``curve``, ``max_force``, ``depth_at_max``)
+    load : quantity [force], optional
+        Load the group carries; drawn as a horizontal line, with the operating point at
+        ``operating_depth`` (quantity [length]) if it exists.
+    parts : bool
+        Also draw the surface-tension and pressure parts.
+    """
+    ax = _axes(ax)
+    c = result.curve
+    d = c.depth.to("mm").magnitude
+    ax.plot(d, c.force.to("mN").magnitude, color=COLOURS["total"], lw=2.0, label="total force")
+    if parts:
+        ax.plot(d, c.surface_tension.to("mN").magnitude, color=COLOURS["surface_tension"], lw=1.3,
+                ls="--", label="surface-tension part")
+        ax.plot(d, c.pressure.to("mN").magnitude, color=COLOURS["pressure"], lw=1.3, ls="-.",
+                label="pressure (buoyancy) part")
+    dm, fm = result.depth_at_max.to("mm").magnitude, result.max_force.to("mN").magnitude
+    lim = ax.scatter([dm], [fm], marker="v", s=70, color=COLOURS["total"], zorder=5,
+                     label=f"limit {fm:.3g} mN at {dm:.3g} mm")
+    lim.set_gid("limit")
+    if load is not None:
+        fl = load.to("mN").magnitude
+        ax.axhline(fl, color=COLOURS["load"], lw=1.0, ls=":", label=f"load carried {fl:.3g} mN")
+        if operating_depth is not None:
+            op = ax.scatter([operating_depth.to("mm").magnitude], [fl], s=60, color=COLOURS["load"],
+                            edgecolor="white", zorder=6, label="operating point")
+            op.set_gid("operating point")
+    ax.axhline(0.0, color="#999999", lw=0.6)
+    ax.set_xlabel(DEPTH_LABEL)
+    ax.set_ylabel(FORCE_LABEL)
+    ax.set_title("Force against depth, up to break-through", fontsize=10, loc="left")
+    ax.legend(fontsize=7.5, frameon=False, loc="upper left")
+    _style(ax)
+    return ax
+
+
+def compare_curves(items: list[tuple[str, Any]], ax=None):
+    """Overlaid force–depth curves of several assessed designs (:class:`~floatcalc.report.Assessment`).
+
+    Each element group gets a line ending in its limit marker; the design's total weight is a
+    dotted line in the same colour.
+    """
+    ax = _axes(ax)
+    for k, (name, a) in enumerate(items):
+        col = _SERIES[k % len(_SERIES)]
+        for j, o in enumerate(a.elements):
+            c = o.result.curve
+            lab = name if len(a.elements) == 1 else f"{name}, group {j + 1}"
+            ax.plot(c.depth.to("mm").magnitude, c.force.to("mN").magnitude, color=col,
+                    lw=1.8, ls=("-", "--", "-.")[j % 3], label=lab)
+            ax.scatter([o.depth_at_max.to("mm").magnitude], [o.max_force.to("mN").magnitude],
+                       marker="v", color=col, s=50, zorder=5)
+        ax.axhline(a.total_load.to("mN").magnitude, color=col, lw=0.9, ls=":")
+    ax.axhline(0.0, color="#999999", lw=0.6)
+    ax.set_xlabel(DEPTH_LABEL)
+    ax.set_ylabel(FORCE_LABEL)
+    ax.set_title("Designs compared: force against depth (▼ limit, dotted: weight carried)",
+                 fontsize=10, loc="left")
+    ax.legend(fontsize=7.5, frameon=False, loc="upper left")
+    _style(ax)
+    return ax
+
+
+__all__ = ["COLOURS", "VERDICT_COLOURS", "meniscus_section", "force_depth", "compare_curves",
+           "SECTION_XLABEL", "SECTION_YLABEL", "DEPTH_LABEL", "FORCE_LABEL"]

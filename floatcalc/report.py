@@ -1,0 +1,595 @@
+"""Assess a whole design (scenario), and write it up as a PDF report and CSV curves.
+
+This module holds no meniscus physics: it calls the public API (:func:`floatcalc.liquid`,
+:func:`floatcalc.rod`, :mod:`floatcalc.groups`) for each element group of a scenario (see
+:mod:`floatcalc.examples` for the scenario format) and adds up the results.
+
+Verdict (a design rule, stated here once and used by the page, the CLI and the report):
+
+.. math:: m = \\frac{F_{limit}}{W_{body} + W_{payload} + W_{elements}}
+
+with F_limit the sum of the limit forces of all element groups [N] and W the weights [N].
+With safety factor SF: m ≥ SF → "floats with margin"; 1 ≤ m < SF → "marginal"; m < 1 →
+"sinks". The shortfall is the extra limit force needed to reach SF (marginal) or to float at
+all (sinks) [N].
+
+Load sharing: with one element group the whole load acts on it. With several groups and no
+device equilibrium model the load is shared in proportion to each group's limit force (all
+reach their limit together); a warning says so.
+
+The operating point of a group is the first point of its force–depth curve (from the API) where
+the force reaches the group's share, found by linear interpolation along the curve.
+
+>>> from floatcalc.examples import example
+>>> a = assess(example("robot"))
+>>> a.verdict in VERDICTS
+True
+>>> a.margin > 1
+True
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+import textwrap
+import zipfile
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from . import _validate as v
+from .errors import input_error
+from .results import Result, field, qfield
+from .units import Q_, to_si
+
+VERDICTS = ("floats with margin", "marginal", "sinks")
+
+#: Lab cautions shown with every result, beside the liquid's own cautions.
+LAB_CAUTIONS = (
+    "Electronics near water: keep batteries, chargers and mains-powered instruments away from "
+    "the bath, and dry a robot's electronics before powering it after it has been in the liquid.",
+)
+HOT_CAUTION = "Hot liquid: risk of scalds and of vapour; handle the bath with care."
+
+BAUDOIN_REFERENCE = ("Bush & Hu, Annu. Rev. Fluid Mech. 38, 339 (2006): Baudoin number "
+                     "(weight over the largest surface-tension force)")
+VERDICT_RULE = ("margin = limit force / (body + payload + element weight); floats with margin if "
+                "margin ≥ safety factor, marginal if 1 ≤ margin < safety factor, sinks if margin < 1")
+
+
+def verdict(margin: float, safety_factor: float) -> str:
+    """Verdict word for a load margin and safety factor (thresholds in the module docstring).
+
+    >>> verdict(2.5, 2.0), verdict(1.2, 2.0), verdict(0.7, 2.0)
+    ('floats with margin', 'marginal', 'sinks')
+    """
+    if not (math.isfinite(margin) or margin == math.inf):
+        raise input_error("margin", "must be a number", margin)
+    if margin >= safety_factor:
+        return VERDICTS[0]
+    if margin >= 1.0:
+        return VERDICTS[1]
+    return VERDICTS[2]
+
+
+# ------------------------------------------------------------------------------------------------
+# Input checks for single fields (the page shows the message beside the field)
+
+def _mass(value: Any, name: str) -> float:
+    m = to_si(value, "mass", name)
+    if not (0.0 <= m <= 10.0):
+        raise input_error(name, "must be from 0 to 10 kg", f"{m * 1e3:.4g} g")
+    return m
+
+
+def safety_factor(value: Any) -> float:
+    """Safety factor, a number from 1 to 100."""
+    try:
+        sf = float(value)
+    except (TypeError, ValueError):
+        raise input_error("safety_factor", "must be a number from 1 to 100", repr(value)) from None
+    if not (math.isfinite(sf) and 1.0 <= sf <= 100.0):
+        raise input_error("safety_factor", "must be a number from 1 to 100", repr(value))
+    return sf
+
+
+def material_density(value: Any) -> str:
+    """Density text for a material name of :data:`~floatcalc.examples.MATERIALS` or a density."""
+    from .examples import MATERIALS
+
+    if isinstance(value, str) and value.strip() in MATERIALS:
+        return MATERIALS[value.strip()]
+    v.density(value, "material")
+    return value
+
+
+_FIELD_CHECKS = {
+    "radius": lambda x: v.length(x, "radius"),
+    "length": lambda x: v.length(x, "length"),
+    "count": lambda x: v.count(x, "count"),
+    "advancing_angle": lambda x: v.angle(x, "advancing_angle"),
+    "receding_angle": lambda x: v.angle(x, "receding_angle"),
+    "material": material_density,
+    "body_mass": lambda x: _mass(x, "body_mass"),
+    "payload": lambda x: _mass(x, "payload"),
+    "safety_factor": safety_factor,
+    "temperature": lambda x: to_si(x, "temperature", "temperature"),
+    "salinity": lambda x: to_si(x, "salinity", "salinity"),
+    "surface_tension": lambda x: to_si(x, "surface_tension", "surface_tension"),
+}
+
+
+def check_field(name: str, value: Any) -> str | None:
+    """The one-line problem with a single input value, or None if the API accepts it.
+
+    >>> check_field("radius", "0.2 mm") is None
+    True
+    >>> check_field("radius", "-1 mm")
+    'radius: must be positive, got -1 mm'
+    """
+    from .errors import InputError
+
+    if name not in _FIELD_CHECKS:
+        raise KeyError(name)
+    try:
+        _FIELD_CHECKS[name](value)
+    except InputError as exc:
+        return str(exc)
+    return None
+
+
+# ------------------------------------------------------------------------------------------------
+# Evaluation
+
+@dataclass(frozen=True, kw_only=True)
+class ElementOutcome(Result):
+    """One element group of a design: the API result, its load share and operating point."""
+
+    label: str = field(default="")
+    kind: str = field(default="rod")
+    spec: dict = field(default_factory=dict, json=False)
+    result: Any = field(default=None, json=False)
+    max_force: Any = qfield("N")
+    own_weight: Any = qfield("N")
+    load_share: Any = qfield("N")
+    operating_depth: Any = qfield("m", default=None)
+    depth_at_max: Any = qfield("m")
+    contact_perimeter: Any = qfield("m")
+    bond_number: float = field(default=0.0)
+    bond_reading: str = field(default="")
+    warnings: tuple[str, ...] = field(default=())
+
+
+@dataclass(frozen=True, kw_only=True)
+class Assessment(Result):
+    """A whole design: totals, margin, verdict, groups, warnings, cautions and references."""
+
+    title: str = field(default="")
+    invented: bool = field(default=False)
+    scenario: dict = field(default_factory=dict, json=False)
+    liquid: Any = field(default=None, json=False)
+    elements: tuple[ElementOutcome, ...] = field(default=())
+    limit_force: Any = qfield("N")
+    element_weight: Any = qfield("N")
+    body_weight: Any = qfield("N")
+    payload_weight: Any = qfield("N")
+    total_load: Any = qfield("N")
+    spare_payload: Any = qfield("N")
+    margin: float = field(default=0.0)
+    safety_factor: float = field(default=1.5)
+    verdict: str = field(default="")
+    shortfall: Any = qfield("N", default=None)
+    baudoin_number: float = field(default=0.0)
+    baudoin_reading: str = field(default="")
+    warnings: tuple[str, ...] = field(default=())
+    cautions: tuple[str, ...] = field(default=())
+    references: tuple[str, ...] = field(default=())
+
+    def to_dict(self) -> dict[str, Any]:
+        d = super().to_dict()
+        if self.liquid is not None:
+            d["liquid"] = self.liquid.summary()
+        d["verdict_rule"] = VERDICT_RULE
+        return d
+
+
+def make_liquid(spec: dict[str, Any]):
+    """The :class:`~floatcalc.liquids.Liquid` described by a scenario's ``liquid`` table."""
+    from .liquids import contaminated, liquid
+
+    sal = spec.get("salinity") or None
+    liq = liquid(spec.get("name", "water"), spec.get("temperature", "20 degC"), sal)
+    if spec.get("surface_tension"):
+        liq = contaminated(liq, surface_tension=spec["surface_tension"])
+    return liq
+
+
+def element_label(spec: dict[str, Any]) -> str:
+    """Short description of an element group in words, from its inputs."""
+    if spec.get("kind", "rod") == "rod":
+        n = int(spec.get("count", 1))
+        legs = "leg" if n == 1 else "legs"
+        return (f"{n} {legs}, radius {spec.get('radius')}, length {spec.get('length')}, "
+                f"{spec.get('material', 'steel')}, {spec.get('coating', 'custom')} "
+                f"({spec.get('advancing_angle')} advancing)")
+    return str(spec.get("kind"))
+
+
+def evaluate_element(spec: dict[str, Any], liq) -> tuple[Any, float]:
+    """API result of one element group, and its contact-line length [m] (for the Baudoin number)."""
+    kind = spec.get("kind", "rod")
+    if kind == "rod":
+        from .rod import rod
+
+        rec = spec.get("receding_angle") or None
+        r = rod(spec["radius"], spec["length"], spec["advancing_angle"], receding_angle=rec,
+                liquid=liq, material_density=material_density(spec.get("material", "steel")),
+                count=spec.get("count", 1))
+        # Two contact lines along each leg.
+        return r, 2.0 * r.length.to("m").magnitude * r.count
+    raise input_error("kind", "must be one of rod", repr(kind))
+
+
+def _operating_depth(curve, share: float) -> float | None:
+    depth = curve.depth.to("m").magnitude
+    force = curve.force.to("N").magnitude
+    above = np.flatnonzero(force >= share)
+    if above.size == 0:
+        return None
+    k = int(above[0])
+    if k == 0:
+        return float(depth[0])
+    f0, f1 = force[k - 1], force[k]
+    t = (share - f0) / (f1 - f0) if f1 != f0 else 1.0
+    return float(depth[k - 1] + t * (depth[k] - depth[k - 1]))
+
+
+def assess(scenario: dict[str, Any]) -> Assessment:
+    """Evaluate every element group of ``scenario`` and the design's margin and verdict.
+
+    Raises :class:`~floatcalc.errors.InputError` with the field named for any bad value.
+    """
+    from .groups import baudoin_number, bond_number
+
+    liq = make_liquid(scenario.get("liquid", {}))
+    load = scenario.get("load", {})
+    g = liq.g
+    W_body = _mass(load.get("body_mass", "0 g"), "body_mass") * g
+    W_pay = _mass(load.get("payload", "0 g"), "payload") * g
+    sf = safety_factor(load.get("safety_factor", 1.5))
+    specs = scenario.get("elements") or []
+    if not specs:
+        raise input_error("elements", "a design needs at least one support element", "none")
+
+    raw = [evaluate_element(s, liq) for s in specs]
+    F = np.array([r.max_force.to("N").magnitude for r, _ in raw])
+    W_el = float(sum(r.own_weight.to("N").magnitude for r, _ in raw))
+    F_lim = float(F.sum())
+    W_tot = W_body + W_pay + W_el
+    margin = F_lim / W_tot if W_tot > 0 else math.inf
+    word = verdict(margin, sf)
+    short = None
+    if word == "marginal":
+        short = Q_(sf * W_tot - F_lim, "N")
+    elif word == "sinks":
+        short = Q_(W_tot - F_lim, "N")
+
+    warnings: list[str] = []
+    if len(raw) > 1:
+        warnings.append("several element groups: the load is shared in proportion to each group's "
+                        "limit force (no device equilibrium or shared meniscus)")
+    outcomes = []
+    for spec, (r, perim) in zip(specs, raw):
+        fi = r.max_force.to("N").magnitude
+        share = W_tot * fi / F_lim if F_lim > 0 else 0.0
+        op = _operating_depth(r.curve, share) if r.curve is not None else None
+        radius = r.radius.to("m").magnitude
+        bo = bond_number(liq, radius, "leg radius")
+        label = element_label(spec)
+        outcomes.append(ElementOutcome(
+            label=label, kind=spec.get("kind", "rod"), spec=dict(spec), result=r,
+            max_force=r.max_force, own_weight=r.own_weight, load_share=Q_(share, "N"),
+            operating_depth=None if op is None else Q_(op, "m"), depth_at_max=r.depth_at_max,
+            contact_perimeter=Q_(perim, "m"), bond_number=bo.value, bond_reading=bo.reading,
+            warnings=tuple(r.warnings),
+        ))
+        warnings += [f"{label}: {w}" for w in r.warnings]
+    perimeter = sum(o.contact_perimeter.to("m").magnitude for o in outcomes)
+    ba = baudoin_number(liq, W_tot, perimeter)
+
+    cautions = list(liq.cautions)
+    if liq.T - 273.15 > 50.0 and not any(c.lower().startswith("hot") for c in cautions):
+        cautions.append(HOT_CAUTION)
+    cautions += [c for c in LAB_CAUTIONS if c not in cautions]
+    refs: list[str] = []
+    for r, _ in raw:
+        refs += [x for x in getattr(r, "references", ()) if x not in refs]
+    refs += [f"surface tension: {liq.sigma_source}", f"density: {liq.rho_source}", BAUDOIN_REFERENCE]
+
+    return Assessment(
+        title=scenario.get("title", "Design"), invented=bool(scenario.get("invented", False)),
+        scenario=scenario, liquid=liq, elements=tuple(outcomes),
+        limit_force=Q_(F_lim, "N"), element_weight=Q_(W_el, "N"), body_weight=Q_(W_body, "N"),
+        payload_weight=Q_(W_pay, "N"), total_load=Q_(W_tot, "N"),
+        spare_payload=Q_(F_lim / sf - W_tot, "N"),
+        margin=margin, safety_factor=sf, verdict=word, shortfall=short,
+        baudoin_number=ba.value, baudoin_reading=ba.reading,
+        warnings=tuple(warnings), cautions=tuple(cautions), references=tuple(refs),
+    )
+
+
+# ------------------------------------------------------------------------------------------------
+# Text summaries shared by the report and the CLI
+
+def _mN(q) -> str:
+    return f"{q.to('mN').magnitude:.4g} mN"
+
+
+def input_rows(a: Assessment) -> list[tuple[str, str]]:
+    """(label, value) rows describing the inputs of an assessment."""
+    liq = a.liquid
+    s = a.scenario
+    lspec = s.get("liquid", {})
+    rows = [("liquid", f"{liq.name} at {liq.T - 273.15:.1f} °C"
+                       + (f", salinity {lspec['salinity']}" if lspec.get("salinity") else "")),
+            ("surface tension", f"{liq.sigma * 1e3:.2f} mN/m ({liq.sigma_source})"),
+            ("density", f"{liq.rho:.1f} kg/m³ ({liq.rho_source})"),
+            ("capillary length", f"{liq.lc * 1e3:.3f} mm")]
+    load = s.get("load", {})
+    rows += [("body mass", str(load.get("body_mass", "0 g"))), ("payload", str(load.get("payload", "0 g"))),
+             ("safety factor", f"{a.safety_factor:g}")]
+    for i, o in enumerate(a.elements, 1):
+        sp = o.spec
+        rows.append((f"element group {i}", o.label))
+        if sp.get("receding_angle"):
+            rows.append(("", f"receding angle {sp['receding_angle']}"))
+    return rows
+
+
+def result_rows(a: Assessment) -> list[tuple[str, str]]:
+    """(label, value) rows of the results of an assessment."""
+    rows = [("verdict", a.verdict + (f" (short by {_mN(a.shortfall)})" if a.shortfall is not None else "")),
+            ("margin", f"{a.margin:.3g} (limit force / total weight; safety factor {a.safety_factor:g})"),
+            ("limit force, all elements", _mN(a.limit_force)),
+            ("total weight carried", f"{_mN(a.total_load)} (body {_mN(a.body_weight)}, payload "
+                                     f"{_mN(a.payload_weight)}, elements {_mN(a.element_weight)})"),
+            ("payload still allowed at the safety factor",
+             f"{_mN(a.spare_payload)} = {a.spare_payload.to('N').magnitude / a.liquid.g * 1e3:.4g} g")]
+    for i, o in enumerate(a.elements, 1):
+        r = o.result
+        rows.append((f"group {i} limit force", f"{_mN(o.max_force)} (surface tension "
+                     f"{_mN(r.surface_tension_part)}, pressure {_mN(r.pressure_part)})"))
+        rows.append((f"group {i} depth at limit", f"{o.depth_at_max.to('mm').magnitude:.3g} mm"))
+        od = "beyond the limit (sinks)" if o.operating_depth is None else f"{o.operating_depth.to('mm').magnitude:.3g} mm"
+        rows.append((f"group {i} load and depth", f"{_mN(o.load_share)} at depth {od}"))
+        rows.append((f"group {i} Bond number", f"{o.bond_number:.3g}: {o.bond_reading} (L = leg radius)"))
+    rows.append(("Baudoin number", f"{a.baudoin_number:.3g}: {a.baudoin_reading}"))
+    return rows
+
+
+def comparison_rows(items: list[tuple[str, Assessment]]) -> list[dict[str, str]]:
+    """One row per design: name, limit force, load, margin, verdict, depth at limit."""
+    out = []
+    for name, a in items:
+        out.append({
+            "design": name,
+            "limit force [mN]": f"{a.limit_force.to('mN').magnitude:.4g}",
+            "total weight [mN]": f"{a.total_load.to('mN').magnitude:.4g}",
+            "margin [-]": f"{a.margin:.3g}",
+            "verdict": a.verdict,
+            "deepest limit depth [mm]": f"{max(o.depth_at_max.to('mm').magnitude for o in a.elements):.3g}",
+            "Baudoin number [-]": f"{a.baudoin_number:.3g}",
+        })
+    return out
+
+
+# ------------------------------------------------------------------------------------------------
+# CSV
+
+def _slug(text: str) -> str:
+    keep = "".join(c.lower() if c.isalnum() else "-" for c in text)
+    return "-".join(p for p in keep.split("-") if p)[:40] or "design"
+
+
+def curve_tables(a: Assessment, prefix: str = "") -> dict[str, str]:
+    """CSV text of every curve of an assessment, keyed by a file name.
+
+    Force–depth curves: depth_m, force_N, surface_tension_part_N, pressure_part_N.
+    Meniscus profiles: x_m, z_m (left branch, then right; the solid section is listed as
+    solid_x_m, solid_z_m in its own file).
+    """
+    out: dict[str, str] = {}
+    p = prefix or ""
+    for i, o in enumerate(a.elements, 1):
+        r = o.result
+        buf = io.StringIO()
+        w = csv.writer(buf, lineterminator="\n")
+        w.writerow(["depth_m", "force_N", "surface_tension_part_N", "pressure_part_N"])
+        for row in r.curve.rows():
+            w.writerow([f"{x:.9g}" for x in row])
+        out[f"{p}group{i}_force_depth.csv"] = buf.getvalue()
+        prof = getattr(r, "profile", None)
+        if prof:
+            buf = io.StringIO()
+            w = csv.writer(buf, lineterminator="\n")
+            w.writerow(["side", "x_m", "z_m"])
+            for side in ("left_m", "right_m"):
+                xs, zs = prof[side]
+                for x, z in zip(xs, zs):
+                    w.writerow([side[:-2], f"{x:.9g}", f"{z:.9g}"])
+            out[f"{p}group{i}_meniscus.csv"] = buf.getvalue()
+    return out
+
+
+def csv_zip(tables: dict[str, str]) -> bytes:
+    """A zip archive (bytes) of CSV tables."""
+    buf = io.BytesIO()
+    with zipfile.ZipFile(buf, "w", zipfile.ZIP_DEFLATED) as z:
+        for name, text in tables.items():
+            z.writestr(name, text)
+    return buf.getvalue()
+
+
+def write_csv_dir(a: Assessment, directory: str, others: list[tuple[str, Assessment]] = ()) -> list[str]:
+    """Write every curve as CSV into ``directory`` (created if needed); returns the paths."""
+    import os
+
+    os.makedirs(directory, exist_ok=True)
+    paths = []
+    tables = dict(curve_tables(a))
+    for k, (name, b) in enumerate(others, 2):
+        tables.update(curve_tables(b, prefix=f"design{k}_"))
+    for name, text in tables.items():
+        path = os.path.join(directory, name)
+        with open(path, "w", encoding="utf-8", newline="") as f:
+            f.write(text)
+        paths.append(path)
+    return paths
+
+
+# ------------------------------------------------------------------------------------------------
+# PDF
+
+_PAGE = (8.27, 11.69)  # A4 portrait [inch]
+
+
+class _TextPage:
+    """Flowing text on A4 pages (matplotlib only)."""
+
+    def __init__(self, pdf, heading: str):
+        self.pdf, self.heading = pdf, heading
+        self.fig = None
+        self.y = 0.0
+        self._new()
+
+    def _new(self, cont: bool = False):
+        from matplotlib.figure import Figure
+
+        if self.fig is not None:
+            self.pdf.savefig(self.fig)
+        self.fig = Figure(figsize=_PAGE)
+        self.fig.text(0.07, 0.955, self.heading + (" (continued)" if cont else ""), fontsize=15,
+                      weight="bold", color="#1f3b4d")
+        self.fig.text(0.07, 0.03, "floatcalc report: static estimate on a clean liquid surface",
+                      fontsize=7, color="#666666")
+        self.y = 0.92
+
+    def line(self, text: str, size: float = 9.0, bold: bool = False, indent: float = 0.0,
+             color: str = "#222222", width: int = 100):
+        for k, part in enumerate(textwrap.wrap(text, width=width) or [""]):
+            if self.y < 0.06:
+                self._new(cont=True)
+            self.fig.text(0.07 + indent + (0.02 if k else 0.0), self.y, part, fontsize=size,
+                          weight="bold" if bold else "normal", color=color, va="top")
+            self.y -= 0.0165 * size / 9.0
+        return self
+
+    def rows(self, rows, width: int = 70):
+        for label, value in rows:
+            lines = textwrap.wrap(value, width=width) or [""]
+            for k, part in enumerate(lines):
+                if self.y < 0.06:
+                    self._new(cont=True)
+                if k == 0 and label:
+                    self.fig.text(0.07, self.y, label, fontsize=8.5, color="#1f3b4d", va="top")
+                self.fig.text(0.40, self.y, part, fontsize=8.5, color="#222222", va="top")
+                self.y -= 0.0155
+        return self
+
+    def gap(self, h: float = 0.012):
+        self.y -= h
+        return self
+
+    def close(self):
+        self.pdf.savefig(self.fig)
+        self.fig = None
+
+
+HEADINGS = ("Design summary", "Drawings", "Comparison of designs", "Warnings, cautions and models")
+
+
+def write_pdf(a: Assessment, target: Any, others: list[tuple[str, Assessment]] = ()) -> None:
+    """Write the PDF report of ``a`` (and a comparison with ``others``) to a path or file object.
+
+    Pages: "Design summary" (inputs, results, verdict), "Drawings" (meniscus cross-section and
+    force–depth curve of each element group), "Comparison of designs" (only with ``others``),
+    "Warnings, cautions and models".
+    """
+    from matplotlib.backends.backend_pdf import PdfPages
+    from matplotlib.figure import Figure
+
+    from . import plotting
+
+    with PdfPages(target, metadata={"Title": f"floatcalc report: {a.title}", "Creator": "floatcalc"}) as pdf:
+        page = _TextPage(pdf, HEADINGS[0])
+        page.line(a.title, size=11, bold=True)
+        if a.invented:
+            page.line("This is an invented example scenario, not a measured design.", color="#8a4b08")
+        page.gap()
+        page.line(f"Verdict: {a.verdict.upper()}", size=13, bold=True,
+                  color=plotting.VERDICT_COLOURS[a.verdict])
+        page.line(f"margin {a.margin:.3g} against safety factor {a.safety_factor:g}"
+                  + (f"; short by {_mN(a.shortfall)}" if a.shortfall is not None else ""))
+        page.gap()
+        page.line("Inputs", size=11, bold=True).rows(input_rows(a)).gap()
+        page.line("Results", size=11, bold=True).rows(result_rows(a)).gap()
+        page.line("Verdict rule: " + VERDICT_RULE, size=8, color="#444444")
+        page.close()
+
+        for i, o in enumerate(a.elements, 1):
+            fig = Figure(figsize=_PAGE)
+            fig.text(0.07, 0.955, HEADINGS[1] + (f" (element group {i})" if len(a.elements) > 1 else ""),
+                     fontsize=15, weight="bold", color="#1f3b4d")
+            fig.text(0.07, 0.93, o.label, fontsize=8.5)
+            ax1 = fig.add_axes([0.12, 0.64, 0.8, 0.26])
+            plotting.meniscus_section(o.result, ax=ax1)
+            ax3 = fig.add_axes([0.12, 0.40, 0.8, 0.2])
+            plotting.meniscus_section(o.result, ax=ax3, zoom=True)
+            ax2 = fig.add_axes([0.12, 0.07, 0.8, 0.28])
+            plotting.force_depth(o.result, ax=ax2, load=o.load_share, operating_depth=o.operating_depth)
+            pdf.savefig(fig)
+
+        if others:
+            items = [("design 1: " + a.title, a)] + [(f"design {k}: {n}", b) for k, (n, b) in enumerate(others, 2)]
+            fig = Figure(figsize=_PAGE)
+            fig.text(0.07, 0.955, HEADINGS[2], fontsize=15, weight="bold", color="#1f3b4d")
+            y = 0.92
+            for row in comparison_rows(items):
+                for part in textwrap.wrap(row["design"], 95):
+                    fig.text(0.07, y, part, fontsize=8.5, weight="bold", va="top")
+                    y -= 0.016
+                text = "; ".join(f"{k} {val}" for k, val in row.items() if k != "design")
+                for part in textwrap.wrap(text, 105):
+                    fig.text(0.09, y, part, fontsize=8, va="top")
+                    y -= 0.015
+                y -= 0.012
+            ax = fig.add_axes([0.12, 0.08, 0.8, max(0.25, min(0.55, y - 0.16))])
+            plotting.compare_curves([(f"design {k}", b) for k, (_, b) in enumerate(items, 1)], ax=ax)
+            pdf.savefig(fig)
+
+        page = _TextPage(pdf, HEADINGS[3])
+        page.line("Warnings from the models", size=11, bold=True)
+        for w in a.warnings or ("none: every input lies inside the models' stated validity ranges",):
+            page.line("• " + w, indent=0.01)
+        page.gap().line("Cautions", size=11, bold=True)
+        for c in a.cautions:
+            page.line("• " + c, indent=0.01)
+        page.gap().line("Models and references", size=11, bold=True)
+        for r in a.references:
+            page.line("• " + r, indent=0.01)
+        page.close()
+
+
+def pdf_bytes(a: Assessment, others: list[tuple[str, Assessment]] = ()) -> bytes:
+    """The PDF report as bytes (for a download button)."""
+    buf = io.BytesIO()
+    write_pdf(a, buf, others)
+    return buf.getvalue()
+
+
+__all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "assess", "Assessment",
+           "ElementOutcome", "make_liquid", "curve_tables", "csv_zip", "write_csv_dir", "write_pdf",
+           "pdf_bytes", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]
