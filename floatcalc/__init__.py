@@ -30,6 +30,10 @@ _EXPORTS = {
     "weber_number": "groups", "reynolds_number": "groups", "min_wave_speed": "groups",
     # rods
     "rod": "rod", "rod_limit": "rod", "RodResult": "rod",
+    # flexible wire legs and leg materials
+    "flexible_leg": "flexleg", "flexible_leg_curve": "flexleg", "FlexLegResult": "flexleg",
+    "leg_material": "materials", "custom_leg_material": "materials", "list_leg_materials": "materials",
+    "LegMaterial": "materials",
     # vertical wall
     "wall_meniscus": "wall", "WallMeniscusResult": "wall",
 }
