@@ -1,0 +1,468 @@
+"""floatcalc page: how much load small objects carry on a liquid surface.
+
+Run with ``streamlit run app.py``. The page holds no physics: it collects inputs (text with
+units, parsed by floatcalc), calls the floatcalc API (``floatcalc.report.assess`` and the
+element functions behind it), and draws with ``floatcalc.plotting``.
+
+Element kinds are small plug-in panels: ``PANELS`` maps a kind (as in
+``floatcalc.examples.ELEMENT_KINDS``) to a function that draws its input fields and returns the
+element's inputs. Results are cached by the inputs (``st.cache_resource`` keyed by the scenario
+text: results are frozen records holding pint quantities of floatcalc's own registry, which a
+pickle round trip through ``st.cache_data`` would move to another registry).
+"""
+
+from __future__ import annotations
+
+import json
+import time
+
+import streamlit as st
+
+from floatcalc import examples as ex
+from floatcalc import report as rp
+from floatcalc.errors import InputError
+
+st.set_page_config(page_title="floatcalc: load on a liquid surface", page_icon="💧", layout="wide")
+
+OPENING_EXAMPLE = "robot"
+VERDICT_STYLE = {"floats with margin": st.success, "marginal": st.warning, "sinks": st.error}
+
+
+# ------------------------------------------------------------------------------------------------
+# Cached API calls (keyed by the scenario as canonical JSON text)
+
+def _key(scenario: dict) -> str:
+    return json.dumps(scenario, sort_keys=True)
+
+
+@st.cache_resource(max_entries=512, show_spinner=False)
+def assess_cached(key: str) -> rp.Assessment:
+    return rp.assess(json.loads(key))
+
+
+@st.cache_data(max_entries=256, show_spinner=False)
+def figure_png(kind: str, key: str, group: int = 0, others: str = "") -> bytes:
+    """PNG bytes of one drawing of an assessed scenario."""
+    import io
+
+    from matplotlib.figure import Figure
+
+    from floatcalc import plotting
+
+    a = assess_cached(key)
+    if kind == "section":
+        fig = Figure(figsize=(10.5, 3.4), layout="constrained")
+        ax1, ax2 = fig.subplots(1, 2, width_ratios=[2.3, 1.0])
+        plotting.meniscus_section(a.elements[group].result, ax=ax1)
+        plotting.meniscus_section(a.elements[group].result, ax=ax2, zoom=True)
+    elif kind == "force":
+        o = a.elements[group]
+        fig = Figure(figsize=(8.0, 4.2), layout="constrained")
+        plotting.force_depth(o.result, ax=fig.add_subplot(), load=o.load_share, operating_depth=o.operating_depth)
+    elif kind == "compare":
+        items = [(name, assess_cached(k)) for name, k in json.loads(others)]
+        fig = Figure(figsize=(8.0, 4.2), layout="constrained")
+        plotting.compare_curves(items, ax=fig.add_subplot())
+    else:  # pragma: no cover - programming error
+        raise KeyError(kind)
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=110)
+    return buf.getvalue()
+
+
+@st.cache_data(max_entries=64, show_spinner=False)
+def csv_zip_cached(key: str) -> bytes:
+    return rp.csv_zip(rp.curve_tables(assess_cached(key)))
+
+
+def load_design_bytes(data: bytes) -> dict:
+    """Scenario from an uploaded design file (size-limited, TOML only; raises InputError)."""
+    return ex.loads_toml(data)
+
+
+# ------------------------------------------------------------------------------------------------
+# Session state: the loaded scenario gives the fields their starting values; ``ver`` renews
+# every widget key when a new scenario is loaded.
+
+def _init_state() -> None:
+    ss = st.session_state
+    if "base" not in ss:
+        ss.base = ex.example(OPENING_EXAMPLE)
+        ss.ver = 0
+        ss.compare = [(a["title"], _key(a)) for a in ex.alternatives(ss.base)[1:]]
+        ss.upload_id = None
+
+
+def _load(scenario: dict) -> None:
+    ss = st.session_state
+    ss.base = scenario
+    ss.ver += 1
+    main = {k: v for k, v in scenario.items() if k != "alternatives"}
+    ss.compare = [(a["title"], _key(a)) for a in ex.alternatives(scenario)[1:]]
+    ss.current = main
+    ss.pop("pdf", None)
+
+
+def k(name: str) -> str:
+    return f"{name}@{st.session_state.ver}"
+
+
+def field_error(box, name: str, value, errors: dict) -> None:
+    """Check one field with floatcalc's own parser; show the problem beside it."""
+    msg = rp.check_field(name, value)
+    if msg:
+        errors[name] = msg
+        box.error(msg, icon="⚠️")
+
+
+# ------------------------------------------------------------------------------------------------
+# Panels
+
+def liquid_panel(spec: dict, errors: dict) -> dict:
+    import floatcalc as fc
+
+    names = [d["name"] for d in fc.list_liquids()]
+    name = spec.get("name", "water")
+    c1, c2 = st.columns(2)
+    with c1:
+        name = st.selectbox("Liquid", names, index=names.index(name) if name in names else 0, key=k("liq"),
+                            help="Named liquids with published property correlations")
+        temp = st.text_input("Temperature", spec.get("temperature", "20 degC"), key=k("temp"),
+                             help="e.g. 20 degC; the range depends on the liquid")
+        field_error(st, "temperature", temp, errors)
+    with c2:
+        sal = ""
+        if name in ("water", "seawater"):
+            sal = st.text_input("Salinity (blank for fresh water)", spec.get("salinity", ""), key=k("sal"),
+                                help="absolute salinity, e.g. 35 g/kg (seawater correlations, 0–42 g/kg)")
+            if sal.strip():
+                field_error(st, "salinity", sal, errors)
+        sig = st.text_input("Measured surface tension of a dirty surface (blank = clean)",
+                            spec.get("surface_tension", ""), key=k("sig"),
+                            help="e.g. 55 mN/m; surfactants, oils and skin grease lower it")
+        if sig.strip():
+            field_error(st, "surface_tension", sig, errors)
+    out = {"name": name, "temperature": temp}
+    if sal.strip():
+        out["salinity"] = sal
+    if sig.strip():
+        out["surface_tension"] = sig
+    if not errors:
+        try:
+            liq = rp.make_liquid(out)
+            st.caption(f"σ = {liq.sigma * 1e3:.2f} mN/m ({liq.sigma_source}); ρ = {liq.rho:.1f} kg/m³ "
+                       f"({liq.rho_source}); capillary length {liq.lc * 1e3:.3f} mm; valid {liq.valid_range}")
+        except InputError as exc:
+            errors["liquid"] = str(exc)
+            st.error(str(exc), icon="⚠️")
+    return out
+
+
+def _coating_changed(i: int) -> None:
+    ss = st.session_state
+    adv, rec = ex.COATINGS.get(ss[k(f"coat{i}")], ("", ""))
+    if adv:
+        ss[k(f"adv{i}")] = adv
+        ss[k(f"rec{i}")] = rec
+
+
+def rod_panel(i: int, spec: dict, errors: dict) -> dict:
+    """Inputs of a group of long horizontal legs."""
+    e = {"kind": "rod"}
+    c1, c2, c3 = st.columns(3)
+    with c1:
+        e["radius"] = st.text_input("Leg radius", spec.get("radius", "0.2 mm"), key=k(f"rad{i}"),
+                                    help="radius of the wire or rod, e.g. 0.2 mm")
+        field_error(st, "radius", e["radius"], errors)
+        e["length"] = st.text_input("Wetted length of each leg", spec.get("length", "30 mm"), key=k(f"len{i}"),
+                                    help="length lying in the surface, e.g. 30 mm")
+        field_error(st, "length", e["length"], errors)
+    with c2:
+        e["count"] = int(st.number_input("Number of legs", min_value=1, max_value=1000, step=1,
+                                         value=int(spec.get("count", 1)), key=k(f"cnt{i}")))
+        mats = list(ex.MATERIALS) + ["other (enter density)"]
+        m = spec.get("material", "steel")
+        choice = st.selectbox("Material", mats, index=mats.index(m) if m in mats else len(mats) - 1,
+                              key=k(f"mat{i}"), help="for the legs' own weight; typical densities")
+        if choice == mats[-1]:
+            e["material"] = st.text_input("Material density", m if m not in mats else "7850 kg/m^3",
+                                          key=k(f"dens{i}"))
+            field_error(st, "material", e["material"], errors)
+        else:
+            e["material"] = choice
+    with c3:
+        coats = list(ex.COATINGS)
+        cdef = spec.get("coating", "custom")
+        e["coating"] = st.selectbox("Coating", coats, index=coats.index(cdef) if cdef in coats else len(coats) - 1,
+                                    key=k(f"coat{i}"), on_change=_coating_changed, args=(i,),
+                                    help="sets typical angles (from memory); enter measured ones")
+        e["advancing_angle"] = st.text_input("Advancing contact angle", spec.get("advancing_angle", "110 deg"),
+                                             key=k(f"adv{i}"), help="sets the load limit, e.g. 115 deg")
+        field_error(st, "advancing_angle", e["advancing_angle"], errors)
+        e["receding_angle"] = st.text_input("Receding contact angle (optional)", spec.get("receding_angle", ""),
+                                            key=k(f"rec{i}"), help="for pull-off; at most the advancing angle")
+        if e["receding_angle"].strip():
+            field_error(st, "receding_angle", e["receding_angle"], errors)
+        else:
+            e.pop("receding_angle")
+    return e
+
+
+#: Element kind -> panel function (i, spec, errors) -> element inputs.
+PANELS = {"rod": rod_panel}
+
+
+def load_panel(spec: dict, errors: dict) -> dict:
+    c1, c2, c3 = st.columns(3)
+    with c1:
+        body = st.text_input("Body mass (without the legs)", spec.get("body_mass", "0 g"), key=k("body"),
+                             help="e.g. 1.2 g")
+        field_error(st, "body_mass", body, errors)
+    with c2:
+        pay = st.text_input("Payload", spec.get("payload", "0 g"), key=k("pay"), help="e.g. 0.3 g")
+        field_error(st, "payload", pay, errors)
+    with c3:
+        sf = st.number_input("Safety factor", min_value=1.0, max_value=10.0, step=0.1,
+                             value=float(spec.get("safety_factor", 1.5)), key=k("sf"),
+                             help="required ratio of limit force to weight for 'floats with margin'")
+    return {"body_mass": body, "payload": pay, "safety_factor": float(sf)}
+
+
+def _add_group() -> None:
+    ss = st.session_state
+    cur = dict(ss.get("current", ss.base))
+    cur["elements"] = [*cur["elements"], dict(ss.base["elements"][0]) if ss.base.get("elements") else
+                       {"kind": "rod", "radius": "0.2 mm", "length": "30 mm", "count": 1}]
+    cur["alternatives"] = ss.base.get("alternatives", [])
+    compare = ss.compare
+    _load(cur)
+    ss.compare = compare
+
+
+def _remove_group(i: int) -> None:
+    ss = st.session_state
+    cur = dict(ss.get("current", ss.base))
+    cur["elements"] = [e for j, e in enumerate(cur["elements"]) if j != i]
+    cur["alternatives"] = ss.base.get("alternatives", [])
+    compare = ss.compare
+    _load(cur)
+    ss.compare = compare
+
+
+def results_panel(a: rp.Assessment) -> None:
+    VERDICT_STYLE[a.verdict](
+        f"**{a.verdict.upper()}**: margin {a.margin:.3g} against safety factor {a.safety_factor:g}"
+        + (f"; short by {a.shortfall.to('mN').magnitude:.3g} mN of limit force" if a.shortfall is not None else ""))
+    c1, c2, c3, c4 = st.columns(4)
+    c1.metric("Limit force, all elements", f"{a.limit_force.to('mN').magnitude:.3g} mN")
+    c2.metric("Weight carried", f"{a.total_load.to('mN').magnitude:.3g} mN",
+              help="body + payload + the elements' own weight")
+    c3.metric("Margin", f"{a.margin:.3g}", help=rp.VERDICT_RULE)
+    spare_g = a.spare_payload.to("N").magnitude / a.liquid.g * 1e3
+    c4.metric("Payload still allowed", f"{spare_g:.3g} g", help="extra payload before the margin falls to the safety factor")
+    rows = []
+    for i, o in enumerate(a.elements, 1):
+        r = o.result
+        od = "sinks" if o.operating_depth is None else f"{o.operating_depth.to('mm').magnitude:.3g}"
+        rows.append({"group": i, "elements": o.label,
+                     "limit force [mN]": f"{o.max_force.to('mN').magnitude:.4g}",
+                     "surface-tension part [mN]": f"{r.surface_tension_part.to('mN').magnitude:.4g}",
+                     "pressure part [mN]": f"{r.pressure_part.to('mN').magnitude:.4g}",
+                     "load carried [mN]": f"{o.load_share.to('mN').magnitude:.4g}",
+                     "depth under load [mm]": od,
+                     "depth at limit [mm]": f"{o.depth_at_max.to('mm').magnitude:.3g}",
+                     "own weight [mN]": f"{o.own_weight.to('mN').magnitude:.3g}"})
+    st.dataframe(rows, hide_index=True, width="stretch")
+    st.markdown("**Dimensionless groups**")
+    for i, o in enumerate(a.elements, 1):
+        st.markdown(f"- Bond number (group {i}, L = leg radius): **{o.bond_number:.3g}**: {o.bond_reading}")
+    st.markdown(f"- Baudoin number (whole design, weight / (σ × contact-line length)): "
+                f"**{a.baudoin_number:.3g}**: {a.baudoin_reading}")
+
+
+def notes_panel(a: rp.Assessment) -> None:
+    st.markdown("**Warnings from the models**")
+    if a.warnings:
+        for w in a.warnings:
+            st.warning(w, icon="⚠️")
+    else:
+        st.caption("none: every input lies inside the models' stated validity ranges")
+    st.markdown("**Cautions**")
+    for c in a.cautions:
+        st.info(c, icon="ℹ️")
+    with st.expander("Models and references"):
+        for r in a.references:
+            st.markdown(f"- {r}")
+        st.markdown(f"- Verdict rule: {rp.VERDICT_RULE}")
+
+
+def drawings_panel(a: rp.Assessment, key: str) -> None:
+    tabs = st.tabs(["Meniscus cross-section", "Force against depth"])
+    with tabs[0]:
+        for i, o in enumerate(a.elements):
+            if len(a.elements) > 1:
+                st.caption(f"group {i + 1}: {o.label}")
+            st.image(figure_png("section", key, i), width="stretch")
+    with tabs[1]:
+        for i, o in enumerate(a.elements):
+            if len(a.elements) > 1:
+                st.caption(f"group {i + 1}: {o.label}")
+            st.image(figure_png("force", key, i), width="stretch")
+
+
+def compare_panel(current: dict | None) -> None:
+    ss = st.session_state
+    st.caption("Put two or more designs side by side: the current design against the saved ones.")
+    b1, b2 = st.columns(2)
+    if current is not None and b1.button("Add the current design to the comparison", key="cmp_add"):
+        ss.compare = [*ss.compare, (f"saved {len(ss.compare) + 1}: {current.get('title', 'design')}", _key(current))]
+    if ss.compare and b2.button("Clear the comparison", key="cmp_clear"):
+        ss.compare = []
+    items = ([("current design", _key(current))] if current is not None else []) + list(ss.compare)
+    if len(items) < 2:
+        st.caption("Add a design to compare it with the current one.")
+        return
+    assessed = []
+    for name, kk in items:
+        try:
+            assessed.append((name, kk, assess_cached(kk)))
+        except InputError as exc:
+            st.error(f"{name}: {exc}", icon="⚠️")
+    st.dataframe(rp.comparison_rows([(n, a) for n, _, a in assessed]), hide_index=True,
+                 width="stretch")
+    st.image(figure_png("compare", "", 0, json.dumps([(n, kk) for n, kk, _ in assessed])),
+             width="stretch")
+
+
+def reports_panel(a: rp.Assessment, key: str, current: dict) -> None:
+    ss = st.session_state
+    c1, c2, c3 = st.columns(3)
+    c1.download_button("Save this design (TOML)", ex.dumps_toml(current), file_name="design.toml",
+                       mime="application/toml", key="dl_toml")
+    c2.download_button("Curves as CSV (zip)", csv_zip_cached(key), file_name="floatcalc_curves.zip",
+                       mime="application/zip", key="dl_csv")
+    if c3.button("Prepare the PDF report", key="pdf_make"):
+        with st.spinner("Writing the PDF report..."):
+            others = [(n, assess_cached(kk)) for n, kk in ss.compare]
+            ss.pdf = (key, rp.pdf_bytes(a, others))
+    if ss.get("pdf") and ss.pdf[0] == key:
+        c3.download_button("Download the PDF report", ss.pdf[1], file_name="floatcalc_report.pdf",
+                           mime="application/pdf", key="dl_pdf")
+
+
+def _guard(title: str, fn, *args) -> None:
+    """Run a panel; any failure is shown in words inside the panel, never as a traceback."""
+    try:
+        fn(*args)
+    except InputError as exc:
+        st.error(str(exc), icon="⚠️")
+    except Exception as exc:  # noqa: BLE001 - the page must keep working
+        st.error(f"{title} could not be shown: {type(exc).__name__}: {exc}", icon="⚠️")
+
+
+# ------------------------------------------------------------------------------------------------
+# Page
+
+def main() -> None:
+    t0 = time.perf_counter()
+    _init_state()
+    ss = st.session_state
+    base = ss.base
+
+    with st.sidebar:
+        st.header("Designs")
+        labels = {n: ex.example(n)["title"] for n in ex.EXAMPLE_NAMES}
+        pick = st.selectbox("Built-in examples (all invented)", list(labels), format_func=lambda n: labels[n],
+                            index=None, placeholder="choose an example...", key="pick")
+        if pick and st.button("Load this example", key="load_example"):
+            _load(ex.example(pick))
+            st.rerun()
+        up = st.file_uploader(f"Open a design file (TOML, at most {ex.MAX_FILE_BYTES // 1024} kB)",
+                              type=["toml"], key="upload")
+        if up is not None and up.file_id != ss.upload_id:
+            ss.upload_id = up.file_id
+            try:
+                if up.size > ex.MAX_FILE_BYTES:
+                    raise InputError(f"design file: must be at most {ex.MAX_FILE_BYTES // 1024} kB, got {up.size} bytes")
+                _load(load_design_bytes(up.read(ex.MAX_FILE_BYTES + 1)))
+                st.rerun()
+            except InputError as exc:
+                ss.upload_error = str(exc)
+        if ss.get("upload_error") and up is not None:
+            st.error(ss.upload_error, icon="⚠️")
+        st.divider()
+        st.caption("Static estimates on a clean liquid surface. Surfactants, oils and heat lower the "
+                   "surface tension and every force here.")
+
+    st.title("floatcalc: what can it carry on the surface?")
+    st.caption(base.get("title", "") + ("  ·  invented example" if base.get("invented") else ""))
+
+    errors: dict[str, str] = {}
+    left, right = st.columns([1.0, 1.25], gap="large")
+    with left:
+        st.subheader("Liquid")
+        liq = {}
+        try:
+            liq = liquid_panel(base.get("liquid", {}), errors)
+        except Exception as exc:  # noqa: BLE001
+            st.error(f"liquid inputs could not be read: {exc}", icon="⚠️")
+            errors["liquid"] = str(exc)
+        st.subheader("Support elements")
+        elements = []
+        for i, spec in enumerate(base.get("elements", [])):
+            kind = spec.get("kind", "rod")
+            with st.container(border=True):
+                h1, h2 = st.columns([4, 1])
+                h1.markdown(f"**Group {i + 1}: {ex.ELEMENT_KINDS.get(kind, {}).get('label', kind)}**")
+                if len(base["elements"]) > 1:
+                    h2.button("Remove", key=k(f"rm{i}"), on_click=_remove_group, args=(i,))
+                panel = PANELS.get(kind)
+                if panel is None:
+                    st.error(f"kind: this page has no panel for '{kind}'", icon="⚠️")
+                    errors[f"kind{i}"] = kind
+                    continue
+                try:
+                    elements.append(panel(i, spec, errors))
+                except Exception as exc:  # noqa: BLE001
+                    st.error(f"group {i + 1} inputs could not be read: {exc}", icon="⚠️")
+                    errors[f"group{i}"] = str(exc)
+        st.button("Add an element group", key=k("addgrp"), on_click=_add_group)
+        st.subheader("Load")
+        load = load_panel(base.get("load", {}), errors)
+
+    current = {"title": base.get("title", "Design"), "invented": bool(base.get("invented", False)),
+               "liquid": liq, "load": load, "elements": elements}
+    if base.get("audience"):
+        current["audience"] = base["audience"]
+
+    a = None
+    with right:
+        st.subheader("Results")
+        if errors:
+            st.info("Results wait for valid inputs: correct the field marked in red on the left.", icon="✋")
+        else:
+            try:
+                a = assess_cached(_key(current))
+                ss.current = current
+            except InputError as exc:
+                st.error(str(exc), icon="⚠️")
+            except Exception as exc:  # noqa: BLE001
+                st.error(f"the calculation failed: {type(exc).__name__}: {exc}", icon="⚠️")
+        if a is not None:
+            _guard("Results", results_panel, a)
+            st.subheader("Drawings")
+            _guard("Drawings", drawings_panel, a, _key(current))
+    if a is not None:
+        with right:
+            _guard("Warnings and cautions", notes_panel, a)
+    st.subheader("Compare designs")
+    _guard("Comparison", compare_panel, current if a is not None else None)
+    st.subheader("Reports")
+    if a is not None:
+        _guard("Reports", reports_panel, a, _key(current), current)
+    else:
+        st.caption("Reports are available once every input is valid.")
+    st.caption(f"page computed in {1e3 * (time.perf_counter() - t0):.0f} ms · floatcalc")
+
+
+main()
