@@ -53,3 +53,17 @@ def __getattr__(name: str) -> Any:
 
 def __dir__() -> list[str]:
     return __all__
+
+
+class _Package(__import__("types").ModuleType):
+    """Keep an exported name (``floatcalc.rod``, the function) from being replaced by the submodule
+    of the same name, which the import system assigns on the package when ``floatcalc.rod`` the
+    module is first imported (for example by ``from floatcalc.rod import RodResult``)."""
+
+    def __setattr__(self, name: str, value: Any) -> None:
+        if _EXPORTS.get(name) == name and type(value).__name__ == "module":
+            return  # the submodule stays reachable as sys.modules["floatcalc.<name>"]
+        super().__setattr__(name, value)
+
+
+__import__("sys").modules[__name__].__class__ = _Package
