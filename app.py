@@ -180,10 +180,10 @@ def rod_panel(i: int, spec: dict, errors: dict) -> dict:
     with c2:
         e["count"] = int(st.number_input("Number of legs", min_value=1, max_value=1000, step=1,
                                          value=int(spec.get("count", 1)), key=k(f"cnt{i}")))
-        mats = list(ex.MATERIALS) + ["other (enter density)"]
+        mats = ex.material_names() + ["other (enter density)"]
         m = spec.get("material", "steel")
         choice = st.selectbox("Material", mats, index=mats.index(m) if m in mats else len(mats) - 1,
-                              key=k(f"mat{i}"), help="for the legs' own weight; typical densities")
+                              key=k(f"mat{i}"), help="for the legs' own weight; handbook densities from floatcalc.materials")
         if choice == mats[-1]:
             e["material"] = st.text_input("Material density", m if m not in mats else "7850 kg/m^3",
                                           key=k(f"dens{i}"))

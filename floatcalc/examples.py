@@ -27,7 +27,7 @@ value, and written to and read from a TOML design file::
     radius = "0.25 mm"
     length = "35 mm"
     count = 6
-    material = "steel"          # a name in MATERIALS or a density such as "7850 kg/m^3"
+    material = "steel"          # a name in floatcalc.materials or a density such as "7850 kg/m^3"
     coating = "PTFE film"       # a name in COATINGS (sets the angles) or "custom"
     advancing_angle = "115 deg"
     receding_angle = "95 deg"
@@ -63,17 +63,16 @@ ELEMENT_KINDS: dict[str, dict[str, Any]] = {
     },
 }
 
-#: Typical densities of leg materials [kg/m³]: handbook values recalled from memory
-#: (common practice); enter a measured density such as "7900 kg/m^3" when it matters.
-MATERIALS: dict[str, str] = {
-    "steel": "7850 kg/m^3",
-    "stainless steel": "8000 kg/m^3",
-    "nickel-titanium (nitinol)": "6450 kg/m^3",
-    "copper": "8960 kg/m^3",
-    "aluminium": "2700 kg/m^3",
-    "carbon fibre composite": "1600 kg/m^3",
-    "PLA plastic": "1240 kg/m^3",
-}
+def material_names() -> list[str]:
+    """Names of the leg materials of :mod:`floatcalc.materials` (densities with their sources).
+
+    >>> "steel" in material_names()
+    True
+    """
+    from .materials import list_leg_materials
+
+    return [m["name"] for m in list_leg_materials()]
+
 
 #: Typical advancing / receding angles on water of common coatings: values recalled from
 #: memory (common practice), spread widely with preparation; measure your own coating.
@@ -106,14 +105,14 @@ _EXAMPLES: dict[str, dict[str, Any]] = {
         "load": {"body_mass": "0.8 g", "payload": "0 g", "safety_factor": 1.5},
         "elements": [
             {"kind": "rod", "radius": "0.1 mm", "length": "30 mm", "count": 8,
-             "material": "nickel-titanium (nitinol)", "coating": "PTFE film",
+             "material": "nickel-titanium", "coating": "PTFE film",
              "advancing_angle": "115 deg", "receding_angle": "95 deg"},
         ],
         "alternatives": [
             {"title": "Design B (invented): four thicker carbon-fibre legs, superhydrophobic",
              "elements": [
                  {"kind": "rod", "radius": "0.35 mm", "length": "30 mm", "count": 4,
-                  "material": "carbon fibre composite", "coating": "superhydrophobic spray",
+                  "material": "carbon fibre", "coating": "superhydrophobic spray",
                   "advancing_angle": "160 deg", "receding_angle": "150 deg"},
              ]},
         ],
@@ -353,5 +352,5 @@ def dumps_toml(scenario: dict[str, Any]) -> str:
     return "\n".join(lines).rstrip() + "\n"
 
 
-__all__ = ["EXAMPLE_NAMES", "ELEMENT_KINDS", "MATERIALS", "COATINGS", "MAX_FILE_BYTES", "example",
+__all__ = ["EXAMPLE_NAMES", "ELEMENT_KINDS", "material_names", "COATINGS", "MAX_FILE_BYTES", "example",
            "alternatives", "loads_toml", "dumps_toml"]

@@ -96,12 +96,12 @@ def safety_factor(value: Any) -> float:
     return sf
 
 
-def material_density(value: Any) -> str:
-    """Density text for a material name of :data:`~floatcalc.examples.MATERIALS` or a density."""
-    from .examples import MATERIALS
+def material_density(value: Any) -> Any:
+    """Density [kg/m³] of a leg material named in :mod:`floatcalc.materials`, or the density given."""
+    from .materials import leg_material
 
-    if isinstance(value, str) and value.strip() in MATERIALS:
-        return MATERIALS[value.strip()]
+    if isinstance(value, str) and not any(ch.isdigit() for ch in value):
+        return leg_material(value).rho
     v.density(value, "material")
     return value
 
