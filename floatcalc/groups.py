@@ -152,9 +152,18 @@ def wave_reading(liq: Liquid, speed: Any | None = None) -> str:
 
 def _weight(weight: Any, g: float) -> float:
     if isinstance(weight, str) or hasattr(weight, "units"):
+        # Decide force or mass by the dimension first, so that a bad value of the right
+        # dimension (e.g. "-5 mN") is reported as such, not as "must be a mass".
         try:
-            return v.positive(weight, "force", "weight", show="mN")
-        except ValueError:
+            to_si(weight, "force", "weight")
+        except ValueError as as_force:
+            try:
+                to_si(weight, "mass", "weight")
+            except ValueError:
+                if "must be a force" not in str(as_force):
+                    raise as_force from None
+                raise input_error("weight", "must be a force or a mass (e.g. '5 mN' or '0.5 g')",
+                                  repr(weight)) from None
             return v.positive(weight, "mass", "weight", show="g") * g
     return v.positive(weight, "force", "weight", show="mN")
 
