@@ -65,3 +65,14 @@ def test_all_groups_and_errors(water20):
         fc.bond_number(water20, "0 mm")
     with pytest.raises(InputError, match="viscosity: is not known"):
         fc.reynolds_number(fc.custom_liquid("x", "50 mN/m", "900 kg/m^3"), "1 m/s", "1 mm")
+
+
+@pytest.mark.parametrize("weight, fragment", [
+    ("-5 mN", "weight: must be positive, got -5 mN"),
+    ("0 g", "weight: must be positive, got 0 g"),
+    ("5 m", "weight: must be a force or a mass"),
+])
+def test_baudoin_weight_errors_name_the_real_problem(water20, weight, fragment):
+    with pytest.raises(InputError) as info:
+        fc.baudoin_number(water20, weight, "40 mm")
+    assert fragment in str(info.value)
