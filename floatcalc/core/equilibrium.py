@@ -1,0 +1,299 @@
+"""Static equilibrium of a floating device in heave, pitch and roll, on bare numbers.
+
+Scaled variables: lengths in l_c, forces in σ l_c, moments in σ l_c².
+
+Model
+-----
+The device is rigid. Its support is represented by m force points j at plan positions
+(x_j, y_j), each with a tabulated force–depth law F_j(e) from first contact to its own limit
+(precomputed once by the element adapters, interpolated here). With heave z (depth at the
+origin), pitch slope p = tan(pitch) and roll slope q = tan(roll), the depth of point j below the
+undisturbed surface is
+
+.. math:: d_j = z + p\\,x_j + q\\,y_j + o_j,
+
+with o_j a fixed offset (mounting height, tilt of a rod along its axis). Neighbouring elements
+share the surface: far from each element the meniscus obeys the linearised equation
+∇²h = h, so the depressions of separate elements superpose. Point j therefore feels the
+local surface lowered by s_j = Σ_e C_je h_e, where h_e is the contact-line depth of element e
+(mean over its points) and C_je the element's outer field at point j per unit contact depth
+(zero for the element's own points). The force is taken at the effective depth e_j = d_j − s_j;
+the fixed point s = C h(e) is found by a few iterations (the coupling is a contraction for
+elements that do not overlap).
+
+Equilibrium: Σ F_j = W, Σ F_j x_j = W x_G, Σ F_j y_j = W y_G (small-angle moment arms), solved
+by Newton's method on (z, p, q) with a forward-difference Jacobian and step halving.
+
+Validity: rigid device, small tilts (|p|, |q| ≪ 1), static, forces vertical; each element's
+own nonlinear law near it, linear superposition between elements (approximate for elements
+closer than about one l_c).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import ConvergenceError
+
+
+@dataclass
+class Support:
+    """Force points of a device (scaled arrays). See module docstring."""
+
+    x: np.ndarray            # (m,) plan position [l_c]
+    y: np.ndarray            # (m,)
+    offset: np.ndarray       # (m,) depth offset [l_c]
+    depth: np.ndarray        # (m, n) table depths (increasing) [l_c]
+    force: np.ndarray        # (m, n) table forces [σ l_c]
+    contact: np.ndarray      # (m, n) contact-line depth on the same grid [l_c]
+    owner: np.ndarray        # (m,) element index of each point
+    coupling: np.ndarray     # (m, E) field of element e at point j per unit contact depth
+    coupling_iters: int = 4
+
+    def __post_init__(self):
+        # Resample every table on a uniform depth grid of its own (same number of points), so
+        # that interpolation needs no search: index = (e − d0) / step.
+        m, n = self.depth.shape
+        self._d0 = self.depth[:, 0].copy()
+        self._step = (self.depth[:, -1] - self._d0) / (n - 1)
+        grid = self._d0[:, None] + self._step[:, None] * np.arange(n)
+        self._F = np.array([np.interp(grid[j], self.depth[j], self.force[j]) for j in range(m)])
+        self._H = np.array([np.interp(grid[j], self.depth[j], self.contact[j]) for j in range(m)])
+        self._rows = np.arange(m)
+        self._n = n
+
+    def lookup(self, e):
+        """Force and contact depth of every point at effective depths e (linear, clamped at the
+        limit, zero before first contact)."""
+        u = (e - self._d0) / self._step
+        k = np.clip(np.floor(u).astype(int), 0, self._n - 2)
+        t = np.clip(u - k, 0.0, 1.0)
+        r = self._rows
+        F = self._F[r, k] * (1.0 - t) + self._F[r, k + 1] * t
+        H = self._H[r, k] * (1.0 - t) + self._H[r, k + 1] * t
+        before = u < 0.0
+        return np.where(before, 0.0, F), np.where(before, 0.0, H)
+
+    @property
+    def limit_depth(self) -> np.ndarray:
+        return self.depth[:, -1]
+
+    @property
+    def limit_force(self) -> np.ndarray:
+        return self.force[:, -1]
+
+
+def _interp_rows(xq, X, Y, left):
+    """Row-wise linear interpolation of Y(X) at xq (one query per row), clamped at the right."""
+    m, n = X.shape
+    rows = np.arange(m)
+    k = np.clip(np.count_nonzero(X < xq[:, None], axis=1), 1, n - 1)
+    x0, x1 = X[rows, k - 1], X[rows, k]
+    y0, y1 = Y[rows, k - 1], Y[rows, k]
+    t = np.clip((xq - x0) / np.where(x1 > x0, x1 - x0, 1.0), 0.0, 1.0)
+    out = y0 + t * (y1 - y0)
+    return np.where(xq < X[:, 0], left, out)
+
+
+def point_state(sup: Support, z: float, p: float, q: float):
+    """Depths d, effective depths e, forces F and contact depths h of every point."""
+    d = z + p * sup.x + q * sup.y + sup.offset
+    n_el = sup.coupling.shape[1]
+    counts = np.bincount(sup.owner, minlength=n_el).astype(float)
+    s = np.zeros_like(d)
+    if sup.coupling.any():
+        for _ in range(sup.coupling_iters):
+            _, h = sup.lookup(d - s)
+            h_el = np.bincount(sup.owner, weights=h, minlength=n_el) / np.maximum(counts, 1.0)
+            s = sup.coupling @ h_el
+    e = d - s
+    F, h = sup.lookup(e)
+    return d, e, F, h
+
+
+def _residual(sup, u, W, xg, yg):
+    _, e, F, _ = point_state(sup, *u)
+    return np.array([F.sum() - W, F @ sup.x - W * xg, F @ sup.y - W * yg]) / W, e
+
+
+def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, max_iter: int = 40,
+          start=None):
+    """Heave, pitch and roll slopes (z, p, q) that carry weight W [σ l_c] at (x_G, y_G) [l_c].
+
+    Points past their own limit are held at their limit force, so the solve still converges;
+    the caller decides from the returned effective depths whether an element has given way.
+
+    Returns
+    -------
+    u : ndarray (3,)
+        (z, p, q).
+    e : ndarray (m,)
+        Effective depths of the points at equilibrium.
+
+    Raises
+    ------
+    ConvergenceError
+        If no balance is reached (for example W beyond what the points can carry at any depth).
+
+    >>> import numpy as np
+    >>> D = np.tile(np.linspace(0.0, 1.0, 11), (4, 1)); F = 2.0 * D   # linear springs
+    >>> sup = Support(x=np.array([1., -1, 1, -1]), y=np.array([1., 1, -1, -1]), offset=np.zeros(4),
+    ...               depth=D, force=F, contact=D, owner=np.arange(4), coupling=np.zeros((4, 4)))
+    >>> u, e = solve(sup, 4.0, 0.0, 0.0)
+    >>> [round(float(v), 9) for v in u]
+    [0.5, 0.0, 0.0]
+    """
+    if W >= float(sup.limit_force.sum()):
+        raise ConvergenceError("the load exceeds the sum of all element limits")
+    if start is None:
+        # level start: bisection on heave until the level device carries W
+        lo, hi = float(np.min(sup.depth[:, 0] - sup.offset)) - 1.0, float(np.max(sup.limit_depth - sup.offset)) + 1.0
+        for _ in range(48):
+            mid = 0.5 * (lo + hi)
+            _, _, F, _ = point_state(sup, mid, 0.0, 0.0)
+            lo, hi = (mid, hi) if F.sum() < W else (lo, mid)
+        u = np.array([0.5 * (lo + hi), 0.0, 0.0])
+    else:
+        u = np.asarray(start, dtype=float).copy()
+    r, e = _residual(sup, u, W, xg, yg)
+    scale = np.array([1.0, 1.0 / max(np.ptp(sup.x), 1e-3), 1.0 / max(np.ptp(sup.y), 1e-3)])
+    for _ in range(max_iter):
+        nr = np.linalg.norm(r)
+        if nr < tol:
+            return u, e
+        J = np.empty((3, 3))
+        for k in range(3):
+            du = np.zeros(3)
+            du[k] = 1e-7 * scale[k] * 10.0
+            J[:, k] = (_residual(sup, u + du, W, xg, yg)[0] - r) / du[k]
+        try:
+            step = np.linalg.solve(J, -r)
+        except np.linalg.LinAlgError:
+            step = np.linalg.lstsq(J, -r, rcond=None)[0]
+        lam = 1.0
+        for _ in range(12):
+            un = u + lam * step
+            rn, en = _residual(sup, un, W, xg, yg)
+            if np.linalg.norm(rn) < nr * (1.0 - 1e-4 * lam):
+                break
+            lam *= 0.5
+        else:
+            break
+        u, r, e = un, rn, en
+    if np.linalg.norm(r) < 1e-7:
+        return u, e
+    raise ConvergenceError(
+        f"device equilibrium did not converge (force/moment residual {np.linalg.norm(r):.2g} of the weight)"
+    )
+
+
+def utilisation(sup: Support, e) -> np.ndarray:
+    """Depth of each point as a fraction of its limit depth, measured from first contact."""
+    d0 = sup.depth[:, 0]
+    return (e - d0) / (sup.limit_depth - d0)
+
+
+def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float, *, rtol: float = 1e-9):
+    """Largest extra load P [σ l_c] at (px, py) before the first point reaches its limit.
+
+    The margin g(P) = max_j (e_j − e_lim,j) rises with P; Brent's method on g finds its root.
+
+    Returns
+    -------
+    P, u, e, j : float, ndarray, ndarray, int
+        Load, equilibrium at that load, effective depths, index of the first point to give way.
+        P < 0 means the device already fails under its own weight (then the shortfall is −P).
+    """
+    from scipy.optimize import brentq
+
+    last = [None]
+
+    def g(P):
+        Wt = W + P
+        xt = (W * xg + P * px) / Wt
+        yt = (W * yg + P * py) / Wt
+        try:
+            u, e = solve(sup, Wt, xt, yt, start=last[0])
+        except ConvergenceError:
+            try:
+                u, e = solve(sup, Wt, xt, yt)
+            except ConvergenceError:
+                return 1.0, None, None
+        last[0] = u
+        return float(np.max(e - sup.limit_depth)), u, e
+
+    g0, u0, e0 = g(0.0)
+    if u0 is None:
+        raise ConvergenceError("device equilibrium did not converge under its own weight")
+    if g0 >= 0.0:  # fails under its own weight: how much lighter would it have to be
+        P = brentq(lambda P: g(P)[0], -W * (1.0 - 1e-9), 0.0, rtol=rtol, xtol=1e-12 * W)
+    else:
+        # Step out with a stiffness-based prediction until the margin changes sign, then Brent.
+        kz = max(float(np.sum((sup._F[:, 1:] - sup._F[:, :-1]).max(axis=1) / sup._step)), 1e-12)
+        a, ga = 0.0, g0
+        total = float(sup.limit_force.sum()) - W
+        for _ in range(60):
+            b = min(a + max(-ga * kz * 1.5, 1e-6 * max(total, 1e-12)), total)
+            gb = g(b)[0]
+            if gb >= 0.0 or b >= total:
+                break
+            a, ga = b, gb
+        if gb < 0.0:
+            P = b
+        else:
+            P = brentq(lambda P: g(P)[0], a, b, rtol=rtol, xtol=1e-12 * max(total, 1.0))
+    _, u, e = g(P)
+    if u is None:
+        raise ConvergenceError("device equilibrium did not converge near its capacity")
+    j = int(np.argmax(e - sup.limit_depth))
+    return P, u, e, j
+
+
+def best_capacity(sup: Support, W: float, xg: float, yg: float):
+    """Largest total load over all heave/pitch/roll with every point within its limit.
+
+    Maximises Σ F_j(e_j) subject to e_j ≤ e_lim,j (SLSQP on z, p, q). The payload that can be
+    added is P = ΣF − W, and it must sit at x = (Σ F_j x_j − W x_G)/P (likewise y).
+
+    Returns
+    -------
+    P, px, py : float
+    """
+    from scipy.optimize import minimize
+
+    P0, u0, _, _ = capacity(sup, W, xg, yg, xg, yg)
+
+    def neg(u):
+        return -point_state(sup, *u)[2].sum()
+
+    def cons(u):
+        return sup.limit_depth - point_state(sup, *u)[1]
+
+    res = minimize(neg, u0, method="SLSQP", constraints=[{"type": "ineq", "fun": cons}],
+                   options={"ftol": 1e-12, "maxiter": 200})
+    u = res.x if res.success and np.all(cons(res.x) >= -1e-9) and -res.fun >= P0 + W else u0
+    _, _, F, _ = point_state(sup, *u)
+    P = float(F.sum() - W)
+    if P <= 0:
+        return P, xg, yg
+    return P, float((F @ sup.x - W * xg) / P), float((F @ sup.y - W * yg) / P)
+
+
+def stiffness(sup: Support, u, xg: float, yg: float, *, step: float = 1e-6):
+    """Restoring stiffness in heave [σ], pitch and roll [σ l_c² per rad] at equilibrium u.
+
+    Central differences of the force and of the moments about (x_G, y_G) with respect to heave,
+    pitch and roll, with the tilt slopes taken as angles (small tilts).
+    """
+    z, p, q = u
+
+    def fm(zz, pp, qq):
+        _, _, F, _ = point_state(sup, zz, pp, qq)
+        return F.sum(), F @ (sup.x - xg), F @ (sup.y - yg)
+
+    kz = (fm(z + step, p, q)[0] - fm(z - step, p, q)[0]) / (2 * step)
+    kp = (fm(z, p + step, q)[1] - fm(z, p - step, q)[1]) / (2 * step)
+    kq = (fm(z, p, q + step)[2] - fm(z, p, q - step)[2]) / (2 * step)
+    return float(kz), float(kp), float(kq)

@@ -1,0 +1,377 @@
+"""Whole devices: static equilibrium, capacity, first element to give way, tilt stiffness.
+
+:func:`solve_device` takes a :class:`~floatcalc.device.design.Design` (or a path to a design
+file) and an optional payload, builds each element's force–depth law once (vectorised, through
+the element adapters of :mod:`floatcalc.device.elements`), and solves heave, pitch and roll with
+:mod:`floatcalc.core.equilibrium` in scaled variables.
+
+.. math::
+
+    \\sum_j F_j(e_j) = W,\\quad \\sum_j F_j x_j = W x_G,\\quad \\sum_j F_j y_j = W y_G,\\qquad
+    e_j = z + x_j\\tan\\vartheta + y_j\\tan\\varphi + o_j - s_j
+
+with s_j the depression of the surface at point j by its neighbours' linearised menisci
+(superposed, ∇²h = h/l_c²). Pitch ϑ is positive when the +x side goes down, roll φ when the +y
+side goes down.
+
+Validity: rigid device, small tilts (a warning above 10°), static loads, clean liquid; near each
+element its own nonlinear law, between elements superposition of linearised menisci
+(approximate where elements come within about one capillary length; a warning says so).
+
+References
+----------
+.. [1] D. Vella, D.-G. Lee, H.-Y. Kim, Langmuir 22, 5979 (2006) (rod law, pairs of rods).
+.. [2] J. B. Keller, Phys. Fluids 10, 3009 (1998) (meniscus force = displaced liquid weight).
+.. [3] J. W. M. Bush, D. L. Hu, Annu. Rev. Fluid Mech. 38, 339 (2006) (Baudoin number).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from ..errors import ConvergenceError, input_error
+from ..results import Result, field, qfield
+from ..units import Q_
+from .design import Design, example, load_design
+from .elements import ElementModel, get_kind
+from .geometry import convex_hull, inside_convex, polygons_overlap
+
+REFERENCES = (
+    "Vella, Lee & Kim, Langmuir 22, 5979 (2006): 2D rod law and pairs of rods",
+    "Keller, Phys. Fluids 10, 3009 (1998): meniscus force equals displaced liquid weight",
+    "Bush & Hu, Annu. Rev. Fluid Mech. 38, 339 (2006): Baudoin number",
+)
+TILT_WARN_DEG = 10.0
+
+
+@dataclass(frozen=True)
+class Device:
+    """A design with its element models built for its liquid (SI arrays)."""
+
+    design: Design
+    models: tuple
+    names: tuple
+
+    @property
+    def liquid(self):
+        return self.design.liquid
+
+    @classmethod
+    def from_design(cls, design: Design | str | Path) -> "Device":
+        if not isinstance(design, Design):
+            design = load_design(design)
+        liq = design.liquid
+        models = []
+        names = []
+        for i, p in enumerate(design.legs):
+            kind = get_kind(p["kind"])
+            models.append(kind.model(p, liq))
+            names.append(p["name"] or f"legs[{i}] ({p['kind']})")
+        for i in range(len(models)):
+            for j in range(i + 1, len(models)):
+                if polygons_overlap(models[i].footprint, models[j].footprint):
+                    raise input_error(f"legs[{i}] and legs[{j}]", "footprints overlap; move or turn one of them",
+                                      f"'{names[i]}' and '{names[j]}'")
+        hull = convex_hull(np.vstack([m.footprint for m in models]))
+        xg, yg = design.body["centre_of_mass"]
+        if not inside_convex(hull, (xg, yg)):
+            raise input_error("body.centre_of_mass", "must lie inside the support polygon (the convex "
+                              "outline of all legs)", f"[{xg * 1e3:.4g} mm, {yg * 1e3:.4g} mm]")
+        return cls(design=design, models=tuple(models), names=tuple(names))
+
+    # -- numeric core input -------------------------------------------------------------
+    def support(self):
+        """Scaled :class:`~floatcalc.core.equilibrium.Support` of all force points."""
+        from ..core.equilibrium import Support
+
+        lc, s = self.liquid.lc, self.liquid.sigma
+        pts = np.vstack([m.points for m in self.models]) / lc
+        owner = np.concatenate([np.full(len(m.points), i) for i, m in enumerate(self.models)])
+        C = np.zeros((len(pts), len(self.models)))
+        for e, m in enumerate(self.models):
+            f = m.field(pts[:, 0] * lc, pts[:, 1] * lc)
+            f = np.where(owner == e, 0.0, f)
+            C[:, e] = f
+        return Support(
+            x=pts[:, 0], y=pts[:, 1],
+            offset=np.concatenate([m.offsets for m in self.models]) / lc,
+            depth=np.vstack([m.depth for m in self.models]) / lc,
+            force=np.vstack([m.force for m in self.models]) / (s * lc),
+            contact=np.vstack([m.contact for m in self.models]) / lc,
+            owner=owner, coupling=C,
+        )
+
+    @property
+    def weight(self) -> float:
+        """Weight of body and legs [N]."""
+        return self.design.body["mass"] * self.liquid.g + sum(m.own_weight for m in self.models)
+
+    @property
+    def centre_of_mass(self) -> tuple[float, float]:
+        """Plan centre of mass of body and legs together [m]."""
+        g = self.liquid.g
+        wb = self.design.body["mass"] * g
+        xb, yb = self.design.body["centre_of_mass"]
+        wx, wy, w = wb * xb, wb * yb, wb
+        for m in self.models:
+            c = m.points.mean(axis=0)
+            wx += m.own_weight * c[0]
+            wy += m.own_weight * c[1]
+            w += m.own_weight
+        return wx / w, wy / w
+
+    def meniscus_depth(self, x, y, contact_depths) -> np.ndarray:
+        """Superposed linearised meniscus depth [m] at plan points, given each element's contact depth [m]."""
+        out = np.zeros(np.broadcast(np.asarray(x), np.asarray(y)).shape)
+        for m, h in zip(self.models, contact_depths):
+            out = out + h * m.field(x, y)
+        return out
+
+
+@dataclass(frozen=True, kw_only=True)
+class ElementState(Result):
+    """One element at equilibrium."""
+
+    name: str = field()
+    kind: str = field()
+    force: Any = qfield("N")
+    depth: Any = qfield("m")
+    share: float = field(default=0.0)
+    margin: float = field(default=0.0)
+    limit_force: Any = qfield("N")
+    limit_depth: Any = qfield("m")
+    depth_margin: Any = qfield("m")
+    own_weight: Any = qfield("N")
+    warnings: tuple[str, ...] = field(default=())
+
+
+@dataclass(frozen=True, kw_only=True)
+class DeviceResult(Result):
+    """Result of :func:`solve_device` (see :meth:`to_dict` for the JSON layout)."""
+
+    description: str = field(default="")
+    verdict: str = field(default="floats")
+    weight: Any = qfield("N")
+    payload: Any = qfield("N")
+    shortfall: Any = qfield("N", default=None)
+    heave: Any = qfield("m")
+    pitch: Any = qfield("deg")
+    roll: Any = qfield("deg")
+    elements: tuple = field(default=())
+    max_payload: Any = qfield("N")
+    max_payload_mass: Any = qfield("kg")
+    first_to_fail: str = field(default="")
+    best_payload: Any = qfield("N")
+    best_payload_position: Any = qfield("m")
+    stiffness_heave: Any = qfield("N/m")
+    stiffness_pitch: Any = qfield("N*m/rad")
+    stiffness_roll: Any = qfield("N*m/rad")
+    tipping: tuple = field(default=())
+    tipping_payload: Any = qfield("N")
+    baudoin_number: float = field(default=0.0)
+    device: Device | None = field(default=None, json=False)
+    contact_depths: Any = field(default=None, json=False)
+    warnings: tuple[str, ...] = field(default=())
+    cautions: tuple[str, ...] = field(default=())
+    references: tuple[str, ...] = field(default=REFERENCES)
+
+    def to_dict(self) -> dict[str, Any]:
+        d = super().to_dict()
+        d["equilibrium"] = {"heave_m": d.pop("heave_m"), "pitch_deg": d.pop("pitch_deg"),
+                            "roll_deg": d.pop("roll_deg")}
+        d["tipping"] = [dict(t) for t in self.tipping]
+        if self.device is not None:
+            d["liquid"] = self.device.liquid.summary()
+        return d
+
+
+def _as_device(design) -> Device:
+    if isinstance(design, Device):
+        return design
+    return Device.from_design(design)
+
+
+def solve_device(design, payload: Any | None = None, payload_position: Any | None = None) -> DeviceResult:
+    """Equilibrium and margins of a device, optionally with a payload.
+
+    Parameters
+    ----------
+    design : Design, Device, or path of a design file
+    payload : [kg], optional
+        Extra mass (e.g. ``"0.5 g"``) placed at ``payload_position`` (default the centre of mass).
+    payload_position : pair of [m], optional
+        Plan position of the payload, e.g. ``("3 mm", "0 mm")``.
+
+    Returns
+    -------
+    DeviceResult
+        ``verdict`` is ``"floats"`` or ``"sinks"`` (a payload beyond capacity is not an error:
+        the shortfall is reported and the equilibrium shown is the one at capacity).
+
+    Examples
+    --------
+    >>> r = solve_device(example("skimmer"))
+    >>> r.verdict, r.max_payload.to("mN").magnitude > 0
+    ('floats', True)
+    """
+    from .. import _validate as v
+    from ..core import equilibrium as eq
+    from ..units import to_si
+
+    dev = _as_device(design)
+    liq = dev.liquid
+    lc, s, g = liq.lc, liq.sigma, liq.g
+    fs = s * lc  # force scale
+    sup = dev.support()
+    W = dev.weight
+    xg, yg = dev.centre_of_mass
+    mp = 0.0 if payload is None else to_si(payload, "mass", "payload")
+    if mp < 0:
+        raise input_error("payload", "must be zero or positive", f"{mp * 1e3:g} g")
+    if payload_position is None:
+        px, py = xg, yg
+    else:
+        try:
+            px, py = (to_si(c, "length", "payload_position") for c in payload_position)
+        except TypeError:
+            raise input_error("payload_position", "must be two lengths (x, y)", repr(payload_position)) from None
+    P = mp * g
+    Ws, xs, ys, pxs, pys = W / fs, xg / lc, yg / lc, px / lc, py / lc
+
+    Pcap, u_cap, e_cap, j_first = eq.capacity(sup, Ws, xs, ys, pxs, pys)
+    first = dev.names[int(sup.owner[j_first])]
+    warnings: list[str] = []
+    if Pcap < 0:
+        verdict = "sinks"
+        u, e = u_cap, e_cap
+        load = 0.0
+        shortfall = -Pcap * fs + P
+    elif P > Pcap * fs:
+        verdict = "sinks"
+        u, e = u_cap, e_cap
+        load = Pcap * fs
+        shortfall = P - Pcap * fs
+        warnings.append("the payload is beyond capacity: the equilibrium shown is at capacity, just before "
+                        f"'{first}' gives way")
+    else:
+        verdict = "floats"
+        Wt = Ws + P / fs
+        u, e = eq.solve(sup, Wt, (Ws * xs + P / fs * pxs) / Wt, (Ws * ys + P / fs * pys) / Wt)
+        load = P
+        shortfall = None
+    Wt = Ws + load / fs
+    xt = (Ws * xs + load / fs * pxs) / Wt
+    yt = (Ws * ys + load / fs * pys) / Wt
+    _, e, F, h = eq.point_state(sup, *u)
+
+    # per element
+    states = []
+    n_el = len(dev.models)
+    Fe = np.bincount(sup.owner, weights=F, minlength=n_el)
+    contact_depths = np.bincount(sup.owner, weights=h, minlength=n_el) / np.bincount(sup.owner, minlength=n_el)
+    for i, m in enumerate(dev.models):
+        sel = sup.owner == i
+        dmax = float(np.max(e[sel])) * lc
+        dm = float(np.min(sup.limit_depth[sel] - e[sel])) * lc
+        flim = m.limit_force
+        states.append(ElementState(
+            name=dev.names[i], kind=dev.design.legs[i]["kind"],
+            force=Q_(Fe[i] * fs, "N"), depth=Q_(dmax, "m"),
+            share=float(Fe[i] / max(F.sum(), 1e-300)),
+            margin=float(1.0 - Fe[i] * fs / flim), limit_force=Q_(flim, "N"),
+            limit_depth=Q_(m.limit_depth, "m"), depth_margin=Q_(dm, "m"),
+            own_weight=Q_(m.own_weight, "N"), warnings=tuple(m.warnings),
+        ))
+        for w in m.warnings:
+            warnings.append(f"{dev.names[i]}: {w}")
+
+    # best place for a payload, stiffness, tipping
+    Pbest, bx, by = eq.best_capacity(sup, Ws, xs, ys)
+    kz, kp, kq = eq.stiffness(sup, u, xt, yt)
+    zg = dev.design.body.get("centre_of_mass_height", 0.0) / lc
+    kp -= Wt * zg
+    kq -= Wt * zg
+    if kp <= 0 or kq <= 0:
+        warnings.append("negative restoring stiffness in tilt: the centre of mass is too high, the device "
+                        "would capsize")
+    P_ref = P / fs if (verdict == "floats" and P > 0) else 0.5 * max(Pcap, 0.0)
+    tipping = []
+    if P_ref > 0:
+        span = float(np.max(np.hypot(sup.x - xs, sup.y - ys))) * 2.0
+        for label, (dx, dy) in (("+x", (1, 0)), ("-x", (-1, 0)), ("+y", (0, 1)), ("-y", (0, -1))):
+            t = _tip_offset(eq, sup, Ws, xs, ys, P_ref, dx, dy, span)
+            tipping.append({"direction": label,
+                            "offset_m": None if t is None else t * lc,
+                            "position_m": None if t is None else [(xs + t * dx) * lc, (ys + t * dy) * lc]})
+    pitch = math.degrees(math.atan(u[1]))
+    roll = math.degrees(math.atan(u[2]))
+    if max(abs(pitch), abs(roll)) > TILT_WARN_DEG:
+        warnings.append(f"tilt above {TILT_WARN_DEG:g}°: small-angle moment arms lose accuracy")
+    close = _close_pairs(dev, lc)
+    if close:
+        warnings.append("elements closer than one capillary length (" + ", ".join(close[:4]) +
+                        ("…" if len(close) > 4 else "") + "): the superposed linear meniscus between them is "
+                        "approximate; for long parallel rods see 'floatcalc leg --count N --spacing S'")
+    perim = sum(m.perimeter for m in dev.models)
+    return DeviceResult(
+        description=dev.design.description, verdict=verdict,
+        weight=Q_(W, "N"), payload=Q_(P, "N"),
+        shortfall=None if shortfall is None else Q_(shortfall, "N"),
+        heave=Q_(u[0] * lc, "m"), pitch=Q_(pitch, "deg"), roll=Q_(roll, "deg"),
+        elements=tuple(states),
+        max_payload=Q_(max(Pcap, 0.0) * fs, "N"), max_payload_mass=Q_(max(Pcap, 0.0) * fs / g, "kg"),
+        first_to_fail=first,
+        best_payload=Q_(max(Pbest, 0.0) * fs, "N"), best_payload_position=Q_(np.array([bx, by]) * lc, "m"),
+        stiffness_heave=Q_(kz * s, "N/m"), stiffness_pitch=Q_(kp * s * lc * lc, "N*m/rad"),
+        stiffness_roll=Q_(kq * s * lc * lc, "N*m/rad"),
+        tipping=tuple(tipping), tipping_payload=Q_(P_ref * fs, "N"),
+        baudoin_number=W / (s * perim),
+        device=dev, contact_depths=contact_depths * lc,
+        warnings=tuple(warnings), cautions=liq.cautions,
+    )
+
+
+def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span):
+    """Offset [l_c] along (dx, dy) from the centre of mass where payload P first fails an element."""
+    from scipy.optimize import brentq
+
+    last = [None]
+
+    def g(t):
+        Wt = Ws + P
+        args = (sup, Wt, (Ws * xs + P * (xs + t * dx)) / Wt, (Ws * ys + P * (ys + t * dy)) / Wt)
+        try:
+            u, e = eq.solve(*args, start=last[0])
+        except ConvergenceError:
+            try:
+                u, e = eq.solve(*args)
+            except ConvergenceError:
+                return 1.0
+        last[0] = u
+        return float(np.max(e - sup.limit_depth))
+
+    if g(0.0) >= 0:
+        return 0.0
+    a = 0.0
+    for k in range(1, 17):  # step out in sixteenths of the span, then Brent
+        b = span * k / 16.0
+        if g(b) >= 0:
+            return brentq(g, a, b, xtol=1e-6)
+        a = b
+    return None
+
+
+def _close_pairs(dev: Device, lc: float) -> list[str]:
+    from .geometry import polygon_distance
+
+    out = []
+    for i in range(len(dev.models)):
+        for j in range(i + 1, len(dev.models)):
+            if polygon_distance(dev.models[i].footprint, dev.models[j].footprint) < lc:
+                out.append(f"{dev.names[i]} – {dev.names[j]}")
+    return out
