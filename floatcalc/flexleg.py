@@ -9,9 +9,11 @@ rod law's limit depth), the deflected shape, the load distribution, the same leg
 rigid, and the curve of limit force against leg length with its saturation length.
 
 Length scales (derived in the docstring of :func:`flexible_leg`): elasto-capillary length
-``L_ec = sqrt(E I / σ)``; foundation stiffness ``k = df/dD`` of the rod law at the floating
-depth (about ``2σ / l_c`` for a thin non-wetting rod); Winkler length ``ℓ_W = (4 E I / k)^{1/4}``
-(Hetényi 1946), which for ``k = 2σ/l_c`` is ``2^{1/4} sqrt(L_ec l_c)``.
+of a wire ``L_ec = (E I / σ)^{1/3}`` (E I / σ is a volume for a rod; the square-root form
+belongs to sheets, whose bending stiffness is per unit width); foundation stiffness
+``k = df/dD`` of the rod law at the floating depth (about ``2σ / l_c`` for a thin non-wetting
+rod); Winkler length ``ℓ_W = (4 E I / k)^{1/4}`` (Hetényi 1946), which for ``k = 2σ/l_c`` is
+``(2 E I l_c / σ)^{1/4} = 2^{1/4} (L_ec³ l_c)^{1/4}``.
 
 Validity: elastic slender leg, static, clean surface, nearly flat wetted part (slopes below
 about 20°), bending gentle on the scale of l_c, tip end effects not included.
@@ -41,7 +43,8 @@ REFERENCES = (
 SLOPE_LIMIT_DEG = 20.0      # local 2D law: wetted part should be nearly flat (common practice)
 STRAIN_WARN = 0.005         # bending strain above which many metal wires yield (common practice)
 END_EFFECT_LIMIT = 20.0     # as floatcalc.rod: legs shorter than this many l_c get a warning
-SATURATION_FRACTION = 0.95  # saturation length: where the limit reaches 95 % of the long-leg value
+SATURATION_FRACTION = 0.95  # saturation length: where the limit first reaches 95 % of the largest
+#                             value on the length curve (0.2–12 Winkler lengths); common practice
 DEFAULT_MATERIAL = "steel"
 
 
@@ -73,6 +76,8 @@ class FlexLegResult(Result):
     max_force: Any = qfield("N")
     max_force_per_length: Any = qfield("N/m")
     depth_at_max: Any = qfield("m")
+    contact_position_at_max: Any = qfield("deg")
+    inclination_at_max: Any = qfield("deg")
     surface_tension_part: Any = qfield("N")
     pressure_part: Any = qfield("N")
     own_weight: Any = qfield("N")
@@ -94,6 +99,9 @@ class FlexLegResult(Result):
     saturation_length: Any = qfield("m", default=None)
     saturation_to_winkler: float | None = field(default=None)
     long_leg_payload: Any = qfield("N", default=None)
+    receding_angle: Any = qfield("deg", default=None)
+    receding_max_force: Any = qfield("N", default=None)
+    pull_off_force: Any = qfield("N", default=None)
     nodes: int = field(default=0)
     shape: dict | None = field(default=None, json=False)
     length_curve: LengthCurve | None = field(default=None, json=False)
@@ -177,7 +185,7 @@ def _prepare(radius, length, contact_angle, youngs_modulus, material, clamp_angl
     s, lc = liq.sigma, liq.lc
     Rs, Ls = R / lc, L / lc
     inertia = math.pi * R**4 / 4.0
-    B = E * inertia / (s * lc * lc)
+    B = E * inertia / (s * lc**3)
     w = rho_s * liq.g * math.pi * R * R / s
     found = beam.Foundation(Rs, th, weight=w)
     if w >= found.f_lim:
@@ -214,8 +222,8 @@ def flexible_leg(radius: Any, length: Any, contact_angle: Any, *, youngs_modulus
     Length scales: linearising f about the floating depth (f = w) gives a Winkler foundation of
     stiffness ``k = df/dy``; the decay length of a beam on it is ``ℓ_W = 1/β = (4EI/k)^{1/4}``
     (Hetényi 1946). For a thin non-wetting rod, f ≈ 2σ sin ψ and y ≈ 2 l_c sin(ψ/2), so
-    ``k ≈ 2σ/l_c`` and ``ℓ_W ≈ 2^{1/4} (L_ec l_c)^{1/2}`` with the elasto-capillary length
-    ``L_ec = (EI/σ)^{1/2}``. Legs much longer than ℓ_W bend so that the far part floats with
+    ``k ≈ 2σ/l_c`` and ``ℓ_W ≈ (2 EI l_c / σ)^{1/4} = 2^{1/4} (L_ec³ l_c)^{1/4}`` with the
+    elasto-capillary length of a wire ``L_ec = (EI/σ)^{1/3}``. Legs much longer than ℓ_W bend so that the far part floats with
     almost no load; the saturation length (where the limit reaches 95 % of the long-leg
     value) is reported with its ratio to ℓ_W.
 
@@ -299,6 +307,10 @@ def flexible_leg(radius: Any, length: Any, contact_angle: Any, *, youngs_modulus
     if max_slope > SLOPE_LIMIT_DEG:
         warnings.append(f"wetted part slopes up to {max_slope:.3g}° (> {SLOPE_LIMIT_DEG:g}°): the local "
                         "2D rod law assumes a nearly flat leg")
+    if np.any(y < fd.d0):
+        warnings.append("part of the leg is out of the liquid at the limit: near where it leaves the "
+                        "surface (about a capillary length) the 2D law does not hold; expect a few "
+                        "per cent uncertainty")
     if strain > STRAIN_WARN:
         warnings.append(f"bending strain {strain * 100:.3g} % exceeds 0.5 %: many metal wires yield "
                         "before this (superelastic NiTi tolerates a few per cent)")
@@ -319,9 +331,10 @@ def flexible_leg(radius: Any, length: Any, contact_angle: Any, *, youngs_modulus
         curve, sat, long_pay = _length_curve(leg, npts, scale, lc)
         ratio = sat / (leg.lw * lc) if sat is not None else None
         if sat is None:
-            warnings.append("saturation length not found on the length curve")
+            warnings.append(f"saturation length not found between {0.2 * leg.lw * lc * 1e3:.3g} and "
+                            f"{12 * leg.lw * lc * 1e3:.3g} mm (0.2–12 Winkler lengths)")
 
-    lec = math.sqrt(E * math.pi * R**4 / 4.0 / s)
+    lec = (E * math.pi * R**4 / 4.0 / s) ** (1.0 / 3.0)
     weight = fd.weight * leg.L * scale
     return FlexLegResult(
         radius=Q_(R, "m"), length=Q_(L, "m"), count=ncount, contact_angle=Q_(math.degrees(th), "deg"),
@@ -330,6 +343,8 @@ def flexible_leg(radius: Any, length: Any, contact_angle: Any, *, youngs_modulus
         toe_length=Q_(leg.toe_len * lc if leg.toe else 0.0, "m"),
         max_force=Q_(liquid_force * scale, "N"), max_force_per_length=Q_(liquid_force * s * lc / L, "N/m"),
         depth_at_max=Q_(fd.d_lim * lc, "m"),
+        contact_position_at_max=Q_(math.degrees(fd.phi_lim), "deg"),
+        inclination_at_max=Q_(math.degrees(fd.phi_lim + th - math.pi), "deg"),
         surface_tension_part=Q_(float(np.trapezoid(f_st, ss)) * scale, "N"),
         pressure_part=Q_(float(np.trapezoid(f_p, ss)) * scale, "N"),
         own_weight=Q_(weight, "N"), payload=Q_(support * scale, "N"),
@@ -367,10 +382,10 @@ def _length_curve(leg: _Leg, npts: int, scale: float, lc: float):
         rig.append(beam.rigid_limit(Lj, fd, th0)["force"])
     pay = np.array(pay)
     long_val = pay[-1]
-    target = SATURATION_FRACTION * long_val
+    target = SATURATION_FRACTION * float(np.max(pay))
     sat = None
     above = np.flatnonzero(pay >= target)
-    if above.size and above[0] > 0 and long_val > 0:
+    if above.size and above[0] > 0 and target > 0:
         j = above[0]
         # interpolate in log length between the bracketing points
         t = (target - pay[j - 1]) / (pay[j] - pay[j - 1])

@@ -134,19 +134,26 @@ def test_limit_converges_under_grid_refinement():
     assert d2 / abs(F[2]) < 1e-4
 
 
-def test_dry_ramp_is_immaterial():
+def test_dry_ramp_sensitivity_is_small():
     # Numerical choice, not physics: the width of the ramp that brings the load to zero above
-    # first contact. A leg entering the liquid from above at 20° crosses the surface; halving
-    # the ramp must barely change its limit (bound 1e-3 relative; observed about 1e-5).
+    # first contact. A stiff leg entering the liquid from above at 30° still crosses the surface
+    # at its limit; halving the ramp changes its limit by less than 2 % (observed 0.9 %, the
+    # uncertainty the API warns about for such legs). A leg lying wholly in the liquid is not
+    # affected at all.
     fd = beam.Foundation(R, THETA, weight=0.03)
-    base = beam.limit(12.0, 30.0, math.radians(20.0), fd, n=300)["V"][0]
+    alpha = math.radians(30.0)
     old = beam.DRY_RAMP
     try:
+        crossing = beam.limit(12.0, 3000.0, alpha, fd, n=300)
+        wet = beam.limit(12.0, 30.0, alpha, fd, n=300)
         beam.DRY_RAMP = old / 2
-        half = beam.limit(12.0, 30.0, math.radians(20.0), fd, n=300)["V"][0]
+        crossing_half = beam.limit(12.0, 3000.0, alpha, fd, n=300)
+        wet_half = beam.limit(12.0, 30.0, alpha, fd, n=300)
     finally:
         beam.DRY_RAMP = old
-    assert half == pytest.approx(base, rel=1e-3)
+    assert crossing["y"][0] < fd.d0 - old   # the clamp is out of the liquid: the leg crosses
+    assert crossing_half["V"][0] == pytest.approx(crossing["V"][0], rel=2e-2)
+    assert wet_half["V"][0] == pytest.approx(wet["V"][0], rel=1e-12)
 
 
 def test_limit_state_touches_limit_depth_and_is_finite():

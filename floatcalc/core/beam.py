@@ -1,7 +1,7 @@
 """Flexible wire leg: elastica on a nonlinear capillary foundation, in scaled variables.
 
 Lengths are in capillary lengths l_c, forces per unit length in σ, forces in σ l_c, bending
-stiffness in σ l_c² (so ``B = E I / (σ l_c²)`` with ``I = π R⁴ / 4``).
+stiffness in σ l_c³ (so ``B = E I / (σ l_c³)`` with ``I = π R⁴ / 4``).
 
 Model
 -----
@@ -32,9 +32,9 @@ first-contact depth ``D₀ = −2 cos(θ/2)`` (φ = 0 of the rod law) the leg is
 and ``f = 0``. The jump from ``f(D₀) = −2 sin θ`` to 0 is spread over a depth ``0.05 l_c`` above
 ``D₀`` so that Newton's method sees a continuous load. Where a leg leaves the liquid the real
 meniscus is three-dimensional over about a capillary length and the 2D law does not hold
-there anyway; the ramp lies well inside that region, and halving it changes the limit of a leg
-that crosses the surface by about 1e-5 (see the tests). States inside the liquid are
-unchanged. The leg reaches its limit when its deepest point reaches the depth of the rod law's
+there anyway; the ramp lies well inside that region. Halving it changes the limit of a stiff
+leg that enters the liquid from above by about 1 % (see the tests) and leaves legs that lie
+wholly in the liquid unchanged; the public API warns when a leg crosses the surface. The leg reaches its limit when its deepest point reaches the depth of the rod law's
 limit, ``D_lim``: deeper than that the local meniscus cannot hold.
 
 Validity: slender leg (R ≪ L), elastic, static, clean surface; the 2D law is applied locally,
@@ -227,8 +227,8 @@ def solve(L: float, B: float, alpha: float, D_c: float, foundation, *, n: int = 
     ----------
     L : float [l_c]
         Leg length.
-    B : float [σ l_c²]
-        Bending stiffness E I / (σ l_c²).
+    B : float [σ l_c³]
+        Bending stiffness E I / (σ l_c³).
     alpha : float [rad]
         Clamp slope below the horizontal (ignored, except in the natural shape, for a hinge).
     D_c : float [l_c]
