@@ -203,7 +203,8 @@ class _RodValidity:
     def __call__(self, x):
         out = []
         lc = np.sqrt(x["surface_tension"] / (x["liquid_density"] * self.g))
-        short = np.broadcast_to(x["length"] < 20.0 * lc, np.broadcast_shapes(np.shape(x["length"]), np.shape(lc)))
+        shape = np.broadcast_shapes(*(np.shape(a) for a in x.values()))
+        short = np.broadcast_to(x["length"] < 20.0 * lc, shape)
         if np.any(short):
             out.append(f"{int(np.count_nonzero(short))} of {short.size} design(s) have legs shorter than 20 capillary "
                        "lengths: end effects (meniscus round the leg ends) are not included")

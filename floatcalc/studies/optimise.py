@@ -276,7 +276,7 @@ def optimise_rods(payload_mass: Any, *, safety_factor: float = 2.0, contact_angl
         objective=objective, count=n, radius=Q_(R, "m"), length=Q_(L, "m"),
         spacing=None if S is None else Q_(S, "m"), support_mass=Q_(m, "kg"), payload_mass=Q_(Mp, "kg"),
         max_force=Q_(F, "N"), total_load=Q_(W, "N"), safety_factor=sf, required_safety_factor=k,
-        spare_payload=Q_(max(spare, 0.0), "kg"), binding=tuple(binding), explanation=tuple(expl + notes),
+        spare_payload=Q_(spare if spare > 1e-9 * Mp else 0.0, "kg"), binding=tuple(binding), explanation=tuple(expl + notes),
         per_count=per, warnings=tuple(warnings), cautions=liq.cautions,
     )
 
@@ -332,6 +332,9 @@ def _explain(P, n, R, L, sf, spare, Rb, Lb, nb, S, S_b, objective):
             binding.append("spacing lower bound")
     if "radius lower bound" in binding and "load" in binding:
         expl.append("thinner legs would be lighter for the same load: the radius bound sets the mass")
+    if n > nb[0]:
+        fewer = _most_payload(P, Rb[0], Rb[1], n - 1)
+        expl.append(f"{n - 1} legs carry at most {fewer * 1e3:.4g} g within the bounds")
     if objective == "mass":
         expl.append("counts that reach the same least mass tie; the fewest legs are chosen")
     return binding, expl

@@ -119,6 +119,17 @@ def parse_distribution(text: str, kind: str, field: str) -> Distribution:
     return Distribution("uniform", a, b)
 
 
+def _whole(value: Any, field: str, lo: int, hi: int) -> int:
+    """A whole number in [lo, hi] from an int or a text such as '10000' or '1e4'."""
+    try:
+        f = float(value)
+    except (TypeError, ValueError):
+        f = float("nan")
+    if not (math.isfinite(f) and f == int(f) and lo <= f <= hi) or isinstance(value, bool):
+        raise input_error(field, f"must be a whole number from {lo} to {hi}", repr(value))
+    return int(f)
+
+
 def _count(s: str, field: str) -> float:
     try:
         return float(s)
@@ -237,18 +248,8 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
        JAMA 249, 1743 (1983) (rule of three).
     .. [2] A. M. Law, W. D. Kelton, Simulation Modeling and Analysis, McGraw-Hill (batch means).
     """
-    try:
-        N = int(samples)
-    except (TypeError, ValueError):
-        raise input_error("samples", f"must be a whole number from {MIN_SAMPLES} to {MAX_SAMPLES}", repr(samples)) from None
-    if str(samples).strip() != str(N) and not isinstance(samples, (int, np.integer)) or not MIN_SAMPLES <= N <= MAX_SAMPLES:
-        raise input_error("samples", f"must be a whole number from {MIN_SAMPLES} to {MAX_SAMPLES}", repr(samples))
-    try:
-        s = int(seed)
-    except (TypeError, ValueError):
-        raise input_error("seed", "must be a whole number ≥ 0", repr(seed)) from None
-    if s < 0 or str(seed).strip() != str(s):
-        raise input_error("seed", "must be a whole number ≥ 0", repr(seed))
+    N = _whole(samples, "samples", MIN_SAMPLES, MAX_SAMPLES)
+    s = _whole(seed, "seed", 0, 2**63 - 1)
     for name in distributions:
         if name not in model.inputs:
             raise input_error("distribution", f"unknown input; known: {', '.join(sorted(model.inputs))}", repr(name))

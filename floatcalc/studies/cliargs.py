@@ -1,0 +1,89 @@
+"""Argument groups and output helpers shared by the study commands of the CLI (front end only).
+
+The design of a rod set is given by options; the model and its checks live in
+:mod:`floatcalc.studies.models`.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from ..errors import input_error
+from ..units import to_si
+
+ROD_DEFAULTS = {"radius": "0.2mm", "length": "40mm", "contact_angle": "150deg", "count": "1",
+                "material_density": "7850kg/m^3", "payload": "0g"}
+
+
+def add_rod_args(p, *, payload_help: str = "design payload carried besides the legs, e.g. 2g (default 0 g)") -> None:
+    g = p.add_argument_group("rod legs (long horizontal legs, far apart)")
+    g.add_argument("--radius", default=ROD_DEFAULTS["radius"], help="leg radius (default 0.2mm)")
+    g.add_argument("--length", default=ROD_DEFAULTS["length"], help="wetted length of each leg (default 40mm)")
+    g.add_argument("--contact-angle", default=ROD_DEFAULTS["contact_angle"], help="advancing contact angle (default 150deg)")
+    g.add_argument("--count", default=ROD_DEFAULTS["count"], help="number of legs (default 1)")
+    g.add_argument("--material-density", default=ROD_DEFAULTS["material_density"],
+                   help="leg material density (default steel 7850kg/m^3, common practice)")
+    g.add_argument("--payload", default=ROD_DEFAULTS["payload"], help=payload_help)
+
+
+def rod_values(args) -> dict[str, float]:
+    """SI base values of the rod model from the options (checked by the model)."""
+    from .. import _validate as v
+
+    return {
+        "radius": v.length(args.radius, "radius"),
+        "length": v.length(args.length, "length"),
+        "contact_angle": v.angle(args.contact_angle, "contact_angle"),
+        "count": float(v.count(args.count)),
+        "material_density": v.density(args.material_density, "material_density"),
+        "payload_mass": _mass(args.payload),
+    }
+
+
+def _mass(text) -> float:
+    m = to_si(text, "mass", "payload")
+    if not 0.0 <= m <= 1e3:
+        raise input_error("payload", "must be from 0 to 1000 kg", f"{m:g} kg")
+    return m
+
+
+def add_exec_args(p) -> None:
+    g = p.add_argument_group("where to run (results are identical on every executor)")
+    g.add_argument("--executor", default="auto", help="auto (default), serial, local (all cores) or dask")
+    g.add_argument("--workers", default=None, help="local worker processes (default: all cores)")
+    g.add_argument("--scheduler", default=None, help="address of a running Dask scheduler, e.g. tcp://10.0.0.5:8786")
+    g.add_argument("--progress", action="store_true", help="show a progress bar on stderr (default: only on a terminal)")
+
+
+def exec_kwargs(args) -> dict:
+    from .executors import check_workers
+
+    return {"executor": args.executor, "scheduler": args.scheduler, "workers": check_workers(args.workers),
+            "progress": True if args.progress else None}
+
+
+def checked_path(path: str | None, suffixes: tuple[str, ...], field: str) -> Path | None:
+    """A path whose suffix is allowed and whose folder exists (checked before any work)."""
+    if path is None:
+        return None
+    p = Path(path)
+    if p.suffix.lower() not in suffixes:
+        raise input_error(field, f"file name must end in {' or '.join(suffixes)}", repr(path))
+    if not p.parent.exists():
+        raise input_error(field, "folder does not exist", repr(str(p.parent)))
+    return p
+
+
+def save_figure(fig, path: Path) -> None:
+    fig.savefig(path, dpi=150)
+    print(f"plot written to {path}", file=sys.stderr)
+
+
+def notes(*groups) -> list[str]:
+    out: list[str] = []
+    for g in groups:
+        for s in g:
+            if s not in out:
+                out.append(s)
+    return out
