@@ -111,7 +111,7 @@ def rod_limit(radius: Any, contact_angle: Any, liquid: Liquid | None = None) -> 
     dict of quantity arrays: ``max_force_per_length`` [N/m], ``depth_at_max`` [m],
     ``surface_tension_part`` and ``pressure_part`` [N/m].
 
-    >>> r = rod_limit(["0.1 mm", "0.2 mm"] and np.array([1e-4, 2e-4]), np.radians([150, 150]))
+    >>> r = rod_limit(np.array([1e-4, 2e-4]), np.radians([150, 150]))  # radii in m
     >>> bool(np.all(np.diff(r["max_force_per_length"].magnitude) > 0))
     True
     """
