@@ -1,0 +1,214 @@
+"""Design assessment, design files, CSV curves and the PDF report (floatcalc.report, examples).
+
+The totals and the operating point are checked against closed forms that do not go through
+floatcalc's code: in the limit of a vanishing rod radius with a contact angle of 180° the force
+per length of a floating rod is purely the surface-tension pull 2σ sin ψ, maximal (2σ) at
+ψ = 90°, with the contact line at depth 2 l_c sin(ψ/2) (Vella, Lee & Kim, Langmuir 22, 5979,
+2006; the 2D first integral in de Gennes, Brochard-Wyart & Quéré, Capillarity and Wetting
+Phenomena, Springer 2004).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import math
+import subprocess
+import sys
+
+import pytest
+from pypdf import PdfReader
+
+from floatcalc import examples as ex
+from floatcalc import report as rp
+from floatcalc.cli import main
+from floatcalc.errors import InputError
+from floatcalc.liquids import CLEAN_SURFACE_CAUTION, water
+
+G0 = 9.80665
+
+
+def _thin_rod_design(body_mass_g: float, sf: float = 2.0, count: int = 4, length_mm: float = 100.0):
+    return {
+        "title": "test design (invented)", "invented": True,
+        "liquid": {"name": "water", "temperature": "20 degC"},
+        "load": {"body_mass": f"{body_mass_g} g", "payload": "0 g", "safety_factor": sf},
+        "elements": [{"kind": "rod", "radius": "0.002 mm", "length": f"{length_mm} mm", "count": count,
+                      "material": "steel", "advancing_angle": "180 deg"}],
+    }
+
+
+def test_verdict_thresholds_follow_the_issue_definition():
+    # Thresholds stated in issue 7: margin >= SF floats with margin; 1 <= m < SF marginal; < 1 sinks.
+    assert rp.verdict(2.0, 2.0) == "floats with margin"
+    assert rp.verdict(1.999, 2.0) == "marginal"
+    assert rp.verdict(1.0, 2.0) == "marginal"
+    assert rp.verdict(0.999, 2.0) == "sinks"
+    assert rp.verdict(math.inf, 1.5) == "floats with margin"
+
+
+def test_thin_rod_limit_and_margin_match_the_surface_tension_closed_form():
+    # F_limit -> 2 σ L n for R -> 0 and θ = 180° (Vella, Lee & Kim 2006); σ(20 °C) = 72.74 mN/m
+    # (IAPWS R1-76 table value). Body 1 g.
+    a = rp.assess(_thin_rod_design(1.0))
+    sigma = 72.74e-3
+    F = 2 * sigma * 0.1 * 4
+    assert a.limit_force.to("N").magnitude == pytest.approx(F, rel=2e-3)  # rod radius 0.002 mm: pressure part ~1e-3
+    W_legs = 7850 * math.pi * (2e-6) ** 2 * 0.1 * 4 * G0
+    W = 1e-3 * G0 + W_legs
+    assert a.total_load.to("N").magnitude == pytest.approx(W, rel=1e-9)
+    assert a.margin == pytest.approx(F / W, rel=2e-3)
+    assert a.verdict == "floats with margin"          # F/W ≈ 5.9 ≥ 2
+    assert a.shortfall is None
+
+
+def test_operating_depth_matches_first_integral():
+    # Load fraction x of the limit: sin ψ = x, contact-line depth 2 l_c sin(ψ/2) (closed form);
+    # the leg's lowest point lies a negligible 2R(…) below it for R = 0.002 mm.
+    a = rp.assess(_thin_rod_design(1.0))
+    o = a.elements[0]
+    x = a.total_load.to("N").magnitude / a.limit_force.to("N").magnitude
+    lc = water("20 degC").lc
+    expected = 2 * lc * math.sin(0.5 * math.asin(x))
+    assert o.operating_depth.to("m").magnitude == pytest.approx(expected, rel=5e-3, abs=5e-6)
+
+
+def test_marginal_and_sinking_designs_report_their_shortfall():
+    sigma = 72.74e-3
+    F = 2 * sigma * 0.1 * 4  # as above, ≈ 58.2 mN
+    # 4 g: W ≈ 39.2 mN, margin ≈ 1.48 < SF 2 -> marginal, short by 2W - F.
+    m = rp.assess(_thin_rod_design(4.0))
+    W = m.total_load.to("N").magnitude
+    assert m.verdict == "marginal"
+    assert m.shortfall.to("N").magnitude == pytest.approx(2 * W - F, rel=5e-3)
+    # 7 g: W ≈ 68.6 mN > F -> sinks, short by W - F, and no operating point on the curve.
+    s = rp.assess(_thin_rod_design(7.0))
+    W = s.total_load.to("N").magnitude
+    assert s.verdict == "sinks"
+    assert s.shortfall.to("N").magnitude == pytest.approx(W - F, rel=2e-2)
+    assert s.elements[0].operating_depth is None
+
+
+def test_baudoin_number_of_whole_design():
+    # Ba = W / (σ P), P = 2 L n contact-line length (Bush & Hu 2006).
+    a = rp.assess(_thin_rod_design(1.0))
+    W = a.total_load.to("N").magnitude
+    assert a.baudoin_number == pytest.approx(W / (72.74e-3 * 2 * 0.1 * 4), rel=1e-3)
+    assert "Ba < 1" in a.baudoin_reading
+
+
+def test_cautions_always_present_and_contamination_lowers_the_limit():
+    a = rp.assess(ex.example("classroom"))
+    assert CLEAN_SURFACE_CAUTION in a.cautions
+    assert any("Electronics near water" in c for c in a.cautions)
+    soapy = rp.assess(ex.alternatives(ex.example("classroom"))[1])
+    assert soapy.limit_force < a.limit_force
+    assert any(c.startswith("Contaminated surface") for c in soapy.cautions)
+    # Ethanol is flammable: its caution reaches the assessment.
+    s = ex.example("robot")
+    s["liquid"] = {"name": "ethanol", "temperature": "20 degC"}
+    assert any("Flammable" in c for c in rp.assess(s).cautions)
+
+
+def test_examples_are_invented_and_cover_three_users():
+    titles = [ex.example(n)["title"] for n in ex.EXAMPLE_NAMES]
+    assert len(titles) == 3
+    assert all(t.lower().startswith("invented example") for t in titles)
+    assert all(ex.example(n)["invented"] for n in ex.EXAMPLE_NAMES)
+    assert len(ex.alternatives(ex.example("compare"))) == 2
+
+
+@pytest.mark.parametrize("name", ex.EXAMPLE_NAMES)
+def test_design_file_round_trip(name):
+    s = ex.example(name)
+    assert ex.loads_toml(ex.dumps_toml(s)) == s
+
+
+@pytest.mark.parametrize("text, words", [
+    ("title = 'x'\n[liquid]\nname = 'water'\nsecret = 1\n", "unknown key in liquid"),
+    ("title = \n", "not valid TOML"),
+    ("[load]\nsafety_factor = 0.5\n[[element]]\nradius='1 mm'\n", "safety_factor"),
+    ("[[element]]\nkind = 'teapot'\n", "kind must be one of"),
+    ("[[element]]\ncount = 2.5\n", "count must be a whole number"),
+])
+def test_bad_design_files_refused_in_one_line(text, words):
+    with pytest.raises(InputError) as e:
+        ex.loads_toml(text)
+    assert words in str(e.value)
+    assert "\n" not in str(e.value)
+
+
+def test_design_file_size_limit_and_no_evaluation():
+    with pytest.raises(InputError, match="at most 64 kB"):
+        ex.loads_toml(b"#" * (ex.MAX_FILE_BYTES + 1))
+    with pytest.raises(InputError, match="UTF-8"):
+        ex.loads_toml(b"\xff\xfe\x00")
+    # Text that looks like code stays text.
+    s = ex.loads_toml("title = \"__import__('os').system('echo hi')\"\n[[element]]\nradius = '0.2 mm'\n")
+    assert s["title"].startswith("__import__")
+
+
+def test_check_field_messages():
+    assert rp.check_field("length", "30 mm") is None
+    assert rp.check_field("advancing_angle", "190 deg") == "advancing_angle: must be between 0 and 180 deg, got 190 deg"
+    assert rp.check_field("body_mass", "-1 g").startswith("body_mass: must be from 0 to 10 kg")
+    assert rp.check_field("radius", "abc").startswith("radius: is not a number with a unit")
+    assert rp.check_field("material", "unobtainium").startswith("material: unknown leg material")
+
+
+def test_csv_of_every_curve():
+    a = rp.assess(ex.example("robot"))
+    tables = rp.curve_tables(a)
+    assert set(tables) == {"group1_force_depth.csv", "group1_meniscus.csv"}
+    rows = list(csv.DictReader(io.StringIO(tables["group1_force_depth.csv"])))
+    assert list(rows[0]) == ["depth_m", "force_N", "surface_tension_part_N", "pressure_part_N"]
+    for r in rows[::20]:
+        total = float(r["surface_tension_part_N"]) + float(r["pressure_part_N"])
+        assert float(r["force_N"]) == pytest.approx(total, rel=1e-6, abs=1e-12)
+    # The largest force in the CSV is the limit force of the result, at the last row (limit).
+    assert max(float(r["force_N"]) for r in rows) == pytest.approx(a.limit_force.to("N").magnitude, rel=1e-6)
+    prof = list(csv.DictReader(io.StringIO(tables["group1_meniscus.csv"])))
+    assert {p["side"] for p in prof} == {"left", "right"}
+
+
+def _pdf_text(data) -> tuple[int, str]:
+    reader = PdfReader(io.BytesIO(data) if isinstance(data, bytes) else data)
+    return len(reader.pages), "\n".join(p.extract_text() for p in reader.pages)
+
+
+def test_pdf_report_pages_headings_and_cautions():
+    a = rp.assess(ex.example("robot"))
+    n, text = _pdf_text(rp.pdf_bytes(a))
+    assert n == 3  # summary, drawings (one element group), warnings/cautions/models
+    flat = " ".join(text.split())
+    for heading in ("Design summary", "Drawings", "Warnings, cautions and models", "Inputs", "Results"):
+        assert heading in flat
+    assert "invented example" in flat.lower()
+    assert "FLOATS WITH MARGIN" in flat
+    assert "Static estimate for a clean liquid surface" in flat
+    assert "Electronics near water" in flat
+    assert "Vella, Lee & Kim" in flat
+    assert "Bond number" in flat and "Baudoin number" in flat
+
+
+def test_pdf_report_with_comparison_from_cli(tmp_path):
+    out = tmp_path / "cmp.pdf"
+    csv_dir = tmp_path / "curves"
+    code = main(["report", "--example", "compare", "-o", str(out), "--csv-dir", str(csv_dir)])
+    assert code == 0
+    n, text = _pdf_text(str(out))
+    assert n == 4
+    assert "Comparison of designs" in " ".join(text.split())
+    assert len(list(csv_dir.glob("*.csv"))) == 4
+
+
+def test_cli_report_bad_input_exits_2(tmp_path):
+    bad = tmp_path / "bad.toml"
+    bad.write_text("[liquid]\nname = 'water'\ntemperature = '150 degC'\n[[element]]\nradius = '0.2 mm'\n"
+                   "length = '30 mm'\nadvancing_angle = '110 deg'\n")
+    proc = subprocess.run([sys.executable, "-c", "import sys; from floatcalc.cli import main; sys.exit(main())",
+                           "report", str(bad), "-o", str(tmp_path / "x.pdf")], capture_output=True, text=True,
+                          timeout=120)
+    assert proc.returncode == 2
+    assert proc.stderr.strip().count("\n") == 0
+    assert "temperature" in proc.stderr and "Traceback" not in proc.stderr
