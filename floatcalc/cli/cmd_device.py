@@ -81,8 +81,8 @@ def print_device(r, title: str | None = None) -> None:
         ("pitch / roll", f"{r.pitch.magnitude:+.3f}° / {r.roll.magnitude:+.3f}° (+: the +x / +y side lower)"),
         ("extra payload at centre of mass", f"{_mN(r.max_payload)} = {r.max_payload_mass.to('g').magnitude:.4g} g"),
         ("first to give way", r.first_to_fail),
-        ("best payload position", f"({r.best_payload_position.to('mm').magnitude[0]:.3g}, "
-                                  f"{r.best_payload_position.to('mm').magnitude[1]:.3g}) mm, carries "
+        ("best payload position", f"({r.best_payload_position.to('mm').magnitude[0]:.2f}, "
+                                  f"{r.best_payload_position.to('mm').magnitude[1]:.2f}) mm, carries "
                                   f"{r.best_payload.to('N').magnitude / g * 1e3:.4g} g"),
         ("stiffness heave", f"{r.stiffness_heave.to('N/m').magnitude:.4g} N/m"),
         ("stiffness pitch / roll", f"{r.stiffness_pitch.to('mN*m/rad').magnitude:.4g} / "
