@@ -36,6 +36,10 @@ _EXPORTS = {
     "LegMaterial": "materials",
     # vertical wall
     "wall_meniscus": "wall", "WallMeniscusResult": "wall",
+    # whole devices (design files, equilibrium) and parallel rods sharing menisci
+    "solve_device": "device", "Device": "device", "DeviceResult": "device", "load_design": "device",
+    "save_design": "device", "device_example": "device", "list_device_examples": "device",
+    "parallel_rods": "device", "ParallelRodsResult": "device",
 }
 
 __all__ = sorted(_EXPORTS) + ["__version__"]

@@ -15,9 +15,13 @@ from .elements import ElementKind, ElementModel, Key, kind_names, register_kind
 from .parallel import ParallelRodsResult, parallel_rods
 from .solve import Device, DeviceResult, ElementState, solve_device
 
+#: Top-level aliases (``floatcalc.device_example``, ``floatcalc.list_device_examples``).
+device_example = example
+list_device_examples = list_examples
+
 __all__ = [
     "Design", "design_text", "example", "example_path", "list_examples", "load_design", "save_design",
     "ElementKind", "ElementModel", "Key", "kind_names", "register_kind",
     "ParallelRodsResult", "parallel_rods",
-    "Device", "DeviceResult", "ElementState", "solve_device",
+    "Device", "DeviceResult", "ElementState", "solve_device", "device_example", "list_device_examples",
 ]
