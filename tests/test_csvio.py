@@ -1,0 +1,76 @@
+"""Unit-headed CSV tables: comments, unit conversion, bad rows reported by line number."""
+
+from __future__ import annotations
+
+import io
+
+import numpy as np
+import pytest
+
+from floatcalc.errors import InputError
+from floatcalc.studies.csvio import read_table, to_text, write_table
+
+REQ = {"depth": "length", "force": "force"}
+
+
+def test_units_and_comments():
+    # 1 mm = 1e-3 m and 1 mN = 1e-3 N by SI definition; 1 in = 25.4 mm exactly (1959 agreement).
+    text = "# invented\n\n# another comment\nForce [mN], depth [in]\n2.5,1\n3.5,0.5\n"
+    t = read_table(io.StringIO(text), REQ)
+    assert np.allclose(t.columns["depth"], [0.0254, 0.0127], rtol=1e-15)
+    assert np.allclose(t.columns["force"], [2.5e-3, 3.5e-3], rtol=1e-15)
+    assert t.comments == ("invented", "another comment")
+    assert list(t.lines) == [5, 6]
+
+
+def test_bad_rows_listed_by_line_number_in_one_error():
+    text = "# c\ndepth [mm],force [mN]\n0.1,1\nabc,2\n0.3\n\n0.4,inf\n0.5,5\n"
+    with pytest.raises(InputError) as exc:
+        read_table(io.StringIO(text), REQ)
+    msg = str(exc.value)
+    assert "\n" not in msg
+    assert "3 bad row(s)" in msg
+    for line in ("line 4", "line 5", "line 7"):
+        assert line in msg
+    assert "line 3" not in msg and "line 8" not in msg
+
+
+def test_skip_bad_rows_reports_warnings():
+    text = "depth [mm],force [mN]\n0.1,1\nx,2\n0.3,3\n"
+    t = read_table(io.StringIO(text), REQ, skip_bad_rows=True)
+    assert t.columns["depth"].size == 2
+    assert len(t.warnings) == 1 and "line 3" in t.warnings[0]
+
+
+@pytest.mark.parametrize("text, needle", [
+    ("depth,force\n1,2\n", "unit in brackets"),
+    ("depth [kg],force [mN]\n1,2\n", "must be a length"),
+    ("depth [mm],push [mN]\n1,2\n", "needs a column 'force"),
+    ("depth [mm],force [blorp]\n1,2\n", "unknown unit"),
+    ("# only comments\n", "header"),
+    ("depth [mm],force [mN]\n", "at least 1 good"),
+])
+def test_header_errors(text, needle):
+    with pytest.raises(InputError) as exc:
+        read_table(io.StringIO(text), REQ)
+    assert needle in str(exc.value)
+
+
+def test_write_then_read_round_trip(tmp_path):
+    p = tmp_path / "t.csv"
+    write_table(p, [("depth", "mm", [0.1, 0.25]), ("force", "mN", [1.0, 2.0])], comments=["made here"])
+    t = read_table(p, REQ)
+    assert np.allclose(t.columns["depth"], [1e-4, 2.5e-4])
+    assert t.comments == ("made here",)
+    assert to_text([("x", "m", [1.0])]).splitlines() == ["x [m]", "1"]
+
+
+def test_cli_fit_reports_bad_rows(tmp_path, capsys):
+    from floatcalc.cli import main
+
+    p = tmp_path / "bad.csv"
+    p.write_text("# invented\ndepth [mm],force [mN]\n0.1,0.2\n0.2,oops\n0.3,0.5\n0.4,0.6\n0.5,0.7\n")
+    code = main(["fit", "--data", str(p), "--radius", "0.25mm", "--length", "60mm"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert len(err.strip().splitlines()) == 1 and "line 4" in err

@@ -1,0 +1,84 @@
+"""Sweeps: grid layout, limit crossings, small-Bond limit, table and plot output."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+
+import floatcalc as fc
+from floatcalc.errors import InputError
+from floatcalc.liquids import water
+from floatcalc.studies.models import rod_model
+from floatcalc.studies.ranges import parse_axis
+from floatcalc.studies.sweep import sweep
+
+
+def test_small_bond_limit_over_contact_angle():
+    # Small-rod limit (Vella, Lee & Kim 2006; PHYSICS.md): for R << l_c and θ ≥ 90° the largest
+    # force per length tends to 2σ (ψ reaches 90°). R = 1 µm gives R/l_c ≈ 4e-4; the
+    # pressure part is O(R/l_c), so agreement to 2e-3 is expected.
+    liq = water()
+    m = rod_model(liq, radius=1e-6, length=0.05)
+    s = sweep(m, ["contact_angle=95deg:180deg:18"])
+    assert np.allclose(s.outputs["max_force"], 2 * liq.sigma * 0.05, rtol=2e-3)
+
+
+def test_grid_order_and_points_match_single_designs():
+    # Each grid point equals the scalar public API at that design (a different code path:
+    # floatcalc.rod() evaluates one design without the study layer).
+    liq = water()
+    m = rod_model(liq, count=3.0, length=0.06, material_density=2700.0)
+    s = sweep(m, ["radius=0.1mm:0.4mm:4", "contact_angle=100deg:160deg:3"])
+    assert s.shape == (4, 3)
+    for i, R in enumerate(s.axes[0].values):
+        for j, th in enumerate(s.axes[1].values):
+            r = fc.rod(R, 0.06, th, count=3, material_density=2700, liquid=liq)
+            assert s.outputs["max_force"][i, j] == pytest.approx(r.max_force.to("N").magnitude, rel=1e-12)
+            assert s.outputs["payload"][i, j] == pytest.approx(r.payload.to("N").magnitude, rel=1e-10)
+
+
+def test_limit_crossing_against_root_finder():
+    # The interpolated crossing must bracket the root found by brentq on the scalar API,
+    # to within one grid step (linear interpolation on a log grid).
+    from scipy.optimize import brentq
+
+    liq = water()
+    Mp = 2.3e-3
+    m = rod_model(liq, count=4.0, payload_mass=Mp)
+    s = sweep(m, ["radius=0.05mm:0.5mm:200:log"])
+    assert len(s.crossings) == 1
+    root = brentq(lambda R: fc.rod(R, 0.04, "150 deg", count=4, material_density=7850, liquid=liq)
+                  .payload.to("N").magnitude - Mp * liq.g, 0.2e-3, 0.5e-3, xtol=1e-12)
+    step = (0.5 / 0.05) ** (1 / 199)
+    assert abs(math.log(s.crossings[0] / root)) < math.log(step) * 0.05
+
+
+def test_count_axis_is_whole_numbers():
+    a = parse_axis("count=1:6:20", rod_model().axis_catalogue())
+    assert a.values.tolist() == [1, 2, 3, 4, 5, 6]
+
+
+@pytest.mark.parametrize("text", ["radius", "radius=1mm:2mm", "radius=1mm:2mm:1", "radius=1kg:2kg:5",
+                                  "bogus=1:2:3", "radius=-1mm:2mm:5:log", "radius=1mm:1mm:5",
+                                  "radius=1mm:2mm:5:cubic", "contact_angle=100deg:200deg:3"])
+def test_bad_ranges(text):
+    with pytest.raises(InputError) as exc:
+        sweep(rod_model(), [text])
+    assert "\n" not in str(exc.value)
+
+
+def test_cli_writes_csv_and_plot(tmp_path, capsys):
+    from floatcalc.cli import main
+    from floatcalc.studies.csvio import read_table
+
+    csv, png = tmp_path / "s.csv", tmp_path / "s.png"
+    code = main(["sweep", "--vary", "radius=0.05mm:0.5mm:12:log", "--vary", "contact_angle=100deg:170deg:5",
+                 "--count", "4", "--payload", "2g", "--output", str(csv), "--save", str(png)])
+    assert code == 0
+    t = read_table(csv, {"radius": "length", "margin": "force"})
+    assert t.columns["radius"].size == 60
+    assert t.units["radius"] == "mm" and t.units["margin"] == "mN"
+    assert png.read_bytes()[:4] == b"\x89PNG"
+    assert any("caution" in c for c in t.comments)
