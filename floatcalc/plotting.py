@@ -209,5 +209,55 @@ def compare_curves(items: list[tuple[str, Any]], ax=None):
     return ax
 
 
-__all__ = ["COLOURS", "VERDICT_COLOURS", "meniscus_section", "force_depth", "compare_curves",
+PLAN_XLABEL = "x, plan position [mm]"
+PLAN_YLABEL = "y, plan position [mm]"
+
+
+def plan_view(device_result: Any, ax=None, grid: int = 140):
+    """Plan view of a device at equilibrium: elements, meniscus depth contours, load shares.
+
+    Drawn to scale (equal aspect) in mm from a :class:`~floatcalc.device.DeviceResult`: each
+    element's footprint (patches with gid ``"element"``), filled contours of the superposed
+    meniscus depth from ``Device.meniscus_depth``, each element's share of the load in per cent,
+    and the centre of mass.
+    """
+    from matplotlib.patches import Polygon
+
+    ax = _axes(ax, size=(6.5, 6.0))
+    dev = device_result.device
+    lc = dev.liquid.lc
+    mm = 1e3
+    pts = np.vstack([m.footprint for m in dev.models])
+    lo, hi = pts.min(axis=0) - 1.5 * lc, pts.max(axis=0) + 1.5 * lc
+    xs = np.linspace(lo[0], hi[0], grid)
+    ys = np.linspace(lo[1], hi[1], grid)
+    X, Y = np.meshgrid(xs, ys)
+    depth = dev.meniscus_depth(X, Y, device_result.contact_depths) * mm
+    top = max(float(np.nanmax(depth)), 1e-6)
+    cs = ax.contourf(X * mm, Y * mm, depth, levels=np.linspace(0.0, top, 12), cmap="GnBu", extend="both", zorder=1)
+    ax.contour(X * mm, Y * mm, depth, levels=np.linspace(0.0, top, 12)[1::2], colors="#24505f",
+               linewidths=0.5, zorder=2)
+    cb = ax.figure.colorbar(cs, ax=ax, shrink=0.8)
+    cb.set_label("meniscus depth below the undisturbed surface [mm]")
+    for m, st in zip(dev.models, device_result.elements):
+        fp = m.footprint * mm
+        ax.add_patch(Polygon(fp, closed=True, facecolor=COLOURS["solid"], edgecolor=COLOURS["solid_edge"],
+                             lw=0.8, zorder=4, gid="element"))
+        c = fp.mean(axis=0)
+        ax.text(c[0], c[1], f"{100 * st.share:.0f} %", fontsize=7, ha="center", va="bottom", zorder=6,
+                color="#111111", bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.75})
+    xg, yg = dev.centre_of_mass
+    ax.scatter([xg * mm], [yg * mm], marker="+", s=90, color=COLOURS["load"], zorder=7,
+               label="centre of mass").set_gid("centre of mass")
+    ax.set_xlim(lo[0] * mm, hi[0] * mm)
+    ax.set_ylim(lo[1] * mm, hi[1] * mm)
+    ax.set_aspect("equal")
+    ax.set_xlabel(PLAN_XLABEL)
+    ax.set_ylabel(PLAN_YLABEL)
+    ax.set_title("Plan view: elements, meniscus depth and share of the load (to scale)", fontsize=10, loc="left")
+    ax.legend(loc="upper right", fontsize=7, framealpha=0.85)
+    return ax
+
+
+__all__ = ["COLOURS", "VERDICT_COLOURS", "meniscus_section", "force_depth", "compare_curves", "plan_view",
            "SECTION_XLABEL", "SECTION_YLABEL", "DEPTH_LABEL", "FORCE_LABEL"]

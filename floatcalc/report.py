@@ -322,6 +322,158 @@ def assess(scenario: dict[str, Any]) -> Assessment:
 
 
 # ------------------------------------------------------------------------------------------------
+# Whole devices (floatcalc.device): equilibrium, capacity and the same verdict rule
+
+@dataclass(frozen=True, kw_only=True)
+class DeviceAssessment(Result):
+    """A device design solved by :func:`floatcalc.device.solve_device`, with margin and verdict.
+
+    ``limit_force`` is the largest total weight the device carries with the payload at the
+    centre of mass (own weight + capacity); ``margin`` = limit_force / (weight + payload).
+    ``elements`` holds one :class:`ElementOutcome` for the most loaded rod leg, computed alone
+    with :func:`floatcalc.rod` (its curve and cross-section are drawn), with the device's
+    equilibrium force on that leg as its load.
+    """
+
+    title: str = field(default="")
+    invented: bool = field(default=False)
+    data: dict = field(default_factory=dict, json=False)
+    result: Any = field(default=None, json=False)
+    liquid: Any = field(default=None, json=False)
+    elements: tuple[ElementOutcome, ...] = field(default=(), json=False)
+    limit_force: Any = qfield("N")
+    weight: Any = qfield("N")
+    payload_weight: Any = qfield("N")
+    total_load: Any = qfield("N")
+    spare_payload: Any = qfield("N")
+    margin: float = field(default=0.0)
+    safety_factor: float = field(default=1.5)
+    verdict: str = field(default="")
+    shortfall: Any = qfield("N", default=None)
+    baudoin_number: float = field(default=0.0)
+    baudoin_reading: str = field(default="")
+    warnings: tuple[str, ...] = field(default=())
+    cautions: tuple[str, ...] = field(default=())
+    references: tuple[str, ...] = field(default=())
+
+    def to_dict(self) -> dict[str, Any]:
+        d = super().to_dict()
+        d["device"] = self.result.to_dict() if self.result is not None else None
+        d["verdict_rule"] = VERDICT_RULE
+        return d
+
+
+def is_device_data(data: dict[str, Any]) -> bool:
+    """True for a device design file (``floatcalc.device`` format), False for a scenario."""
+    return isinstance(data, dict) and ("schema_version" in data or "legs" in data)
+
+
+def assess_device(data: dict[str, Any], payload: Any = "0 g", safety_factor_value: Any = 1.5) -> DeviceAssessment:
+    """Solve a device design (parsed TOML dict of the device format) and apply the verdict rule."""
+    from .device import solve_device
+    from .device.design import design_from_data
+    from .device.elements import effective_angle
+    from .groups import baudoin_number
+    from .rod import rod
+
+    sf = safety_factor(safety_factor_value)
+    mp = _mass(payload, "payload")
+    design = design_from_data(data)
+    res = solve_device(design, payload=f"{mp} kg")
+    liq = design.liquid
+    W = res.weight.to("N").magnitude
+    P = mp * liq.g
+    cap = W + res.max_payload.to("N").magnitude
+    margin = cap / (W + P)
+    word = verdict(margin, sf)
+    short = None
+    if word == "marginal":
+        short = Q_(sf * (W + P) - cap, "N")
+    elif word == "sinks":
+        short = Q_(W + P - cap, "N")
+
+    outcomes = []
+    rods = [i for i, p in enumerate(design.legs) if p["kind"] == "rod"]
+    if rods:
+        i = max(rods, key=lambda j: res.elements[j].force.to("N").magnitude / res.elements[j].limit_force.to("N").magnitude)
+        p = design.legs[i]
+        th = effective_angle(p["coating"]["advancing"], p["coating"])
+        rec = p["coating"].get("receding")
+        r = rod(p["radius"], p["length"], th, receding_angle=None if rec is None or rec > th else rec,
+                liquid=liq, material_density=p["density"])
+        st = res.elements[i]
+        share = st.force.to("N").magnitude
+        op = _operating_depth(r.curve, share)
+        from .groups import bond_number
+
+        bo = bond_number(liq, p["radius"], "leg radius")
+        outcomes.append(ElementOutcome(
+            label=f"{st.name} (most loaded rod leg, computed alone)", kind="rod", spec=dict(p), result=r,
+            max_force=r.max_force, own_weight=r.own_weight, load_share=Q_(share, "N"),
+            operating_depth=None if op is None else Q_(op, "m"), depth_at_max=r.depth_at_max,
+            contact_perimeter=Q_(2 * p["length"], "m"), bond_number=bo.value, bond_reading=bo.reading,
+            warnings=tuple(r.warnings)))
+    perim = sum(m.perimeter for m in res.device.models)
+    ba = baudoin_number(liq, W + P, perim)
+    cautions = list(res.cautions)
+    if liq.T - 273.15 > 50.0 and not any(c.lower().startswith("hot") for c in cautions):
+        cautions.append(HOT_CAUTION)
+    cautions += [c for c in LAB_CAUTIONS if c not in cautions]
+    refs = list(res.references)
+    for o in outcomes:
+        refs += [x for x in o.result.references if x not in refs]
+    refs += [f"surface tension: {liq.sigma_source}", f"density: {liq.rho_source}"]
+    desc = str(data.get("description", "Device design"))
+    return DeviceAssessment(
+        title=desc, invented=desc.lower().startswith("invented"), data=data, result=res, liquid=liq,
+        elements=tuple(outcomes), limit_force=Q_(cap, "N"), weight=Q_(W, "N"), payload_weight=Q_(P, "N"),
+        total_load=Q_(W + P, "N"), spare_payload=Q_(cap / sf - (W + P), "N"), margin=margin,
+        safety_factor=sf, verdict=word, shortfall=short, baudoin_number=ba.value, baudoin_reading=ba.reading,
+        warnings=tuple(res.warnings), cautions=tuple(cautions), references=tuple(refs))
+
+
+def device_input_rows(a: DeviceAssessment) -> list[tuple[str, str]]:
+    """(label, value) rows describing a device's inputs."""
+    liq, d = a.liquid, a.data
+    rows = [("liquid", f"{liq.name} at {liq.T - 273.15:.1f} °C"),
+            ("surface tension", f"{liq.sigma * 1e3:.2f} mN/m ({liq.sigma_source})"),
+            ("density", f"{liq.rho:.1f} kg/m³ ({liq.rho_source})"),
+            ("capillary length", f"{liq.lc * 1e3:.3f} mm"),
+            ("body mass", str(d.get("body", {}).get("mass", ""))),
+            ("payload", f"{a.payload_weight.to('N').magnitude / liq.g * 1e3:.4g} g at the centre of mass"),
+            ("safety factor", f"{a.safety_factor:g}"),
+            ("legs", f"{len(d.get('legs', []))} elements")]
+    for leg in d.get("legs", [])[:24]:
+        c = leg.get("coating", {})
+        rows.append((str(leg.get("name", leg.get("kind"))),
+                     f"{leg.get('kind')} at [{', '.join(leg.get('position', []))}], radius {leg.get('radius')}, "
+                     f"length {leg.get('length', '-')}, {leg.get('material', leg.get('material_density', ''))}, "
+                     f"advancing {c.get('advancing')}" + (f", receding {c['receding']}" if "receding" in c else "")))
+    return rows
+
+
+def device_result_rows(a: DeviceAssessment) -> list[tuple[str, str]]:
+    """(label, value) rows of a device's results."""
+    r = a.result
+    rows = [("verdict", a.verdict + (f" (short by {_mN(a.shortfall)})" if a.shortfall is not None else "")),
+            ("margin", f"{a.margin:.3g} (capacity / weight carried; safety factor {a.safety_factor:g})"),
+            ("capacity (weight it can carry)", _mN(a.limit_force)),
+            ("weight carried", f"{_mN(a.total_load)} (device {_mN(a.weight)}, payload {_mN(a.payload_weight)})"),
+            ("payload still allowed at the safety factor",
+             f"{_mN(a.spare_payload)} = {a.spare_payload.to('N').magnitude / a.liquid.g * 1e3:.4g} g"),
+            ("first element to give way", r.first_to_fail),
+            ("equilibrium", f"heave {r.heave.to('mm').magnitude:.3g} mm, pitch {r.pitch.magnitude:.3g}°, "
+                            f"roll {r.roll.magnitude:.3g}°"),
+            ("Baudoin number", f"{a.baudoin_number:.3g}: {a.baudoin_reading}")]
+    for o in a.elements:
+        rows.append(("Bond number (leg radius)", f"{o.bond_number:.3g}: {o.bond_reading}"))
+    for e in r.elements:
+        rows.append((e.name, f"carries {_mN(e.force)} ({100 * e.share:.1f} % of the load) at depth "
+                             f"{e.depth.to('mm').magnitude:.3g} mm; limit {_mN(e.limit_force)}"))
+    return rows
+
+
+# ------------------------------------------------------------------------------------------------
 # Text summaries shared by the report and the CLI
 
 def _mN(q) -> str:
@@ -514,9 +666,10 @@ HEADINGS = ("Design summary", "Drawings", "Comparison of designs", "Warnings, ca
 def write_pdf(a: Assessment, target: Any, others: list[tuple[str, Assessment]] = ()) -> None:
     """Write the PDF report of ``a`` (and a comparison with ``others``) to a path or file object.
 
-    Pages: "Design summary" (inputs, results, verdict), "Drawings" (meniscus cross-section and
-    force–depth curve of each element group), "Comparison of designs" (only with ``others``),
-    "Warnings, cautions and models".
+    Pages: "Design summary" (inputs, results, verdict), "Drawings" (for a device first its plan
+    view; then the meniscus cross-section and force–depth curve of each element group, or of a
+    device's most loaded leg), "Comparison of designs" (only with ``others``), "Warnings,
+    cautions and models". ``a`` is an :class:`Assessment` or a :class:`DeviceAssessment`.
     """
     from matplotlib.backends.backend_pdf import PdfPages
     from matplotlib.figure import Figure
@@ -534,11 +687,19 @@ def write_pdf(a: Assessment, target: Any, others: list[tuple[str, Assessment]] =
         page.line(f"margin {a.margin:.3g} against safety factor {a.safety_factor:g}"
                   + (f"; short by {_mN(a.shortfall)}" if a.shortfall is not None else ""))
         page.gap()
-        page.line("Inputs", size=11, bold=True).rows(input_rows(a)).gap()
-        page.line("Results", size=11, bold=True).rows(result_rows(a)).gap()
+        dev = isinstance(a, DeviceAssessment)
+        page.line("Inputs", size=11, bold=True).rows(device_input_rows(a) if dev else input_rows(a)).gap()
+        page.line("Results", size=11, bold=True).rows(device_result_rows(a) if dev else result_rows(a)).gap()
         page.line("Verdict rule: " + VERDICT_RULE, size=8, color="#444444")
         page.close()
 
+        if dev:
+            fig = Figure(figsize=_PAGE)
+            fig.text(0.07, 0.955, HEADINGS[1] + " (plan view)", fontsize=15, weight="bold", color="#1f3b4d")
+            plotting.plan_view(a.result, ax=fig.add_axes([0.1, 0.3, 0.85, 0.6]))
+            fig.text(0.07, 0.24, "Numbers on the elements: share of the total load carried at equilibrium. "
+                     "Contours: superposed linearised meniscus depth.", fontsize=8.5)
+            pdf.savefig(fig)
         for i, o in enumerate(a.elements, 1):
             fig = Figure(figsize=_PAGE)
             fig.text(0.07, 0.955, HEADINGS[1] + (f" (element group {i})" if len(a.elements) > 1 else ""),
@@ -548,7 +709,7 @@ def write_pdf(a: Assessment, target: Any, others: list[tuple[str, Assessment]] =
             plotting.meniscus_section(o.result, ax=ax1)
             ax3 = fig.add_axes([0.12, 0.40, 0.8, 0.2])
             plotting.meniscus_section(o.result, ax=ax3, zoom=True)
-            ax2 = fig.add_axes([0.12, 0.07, 0.8, 0.28])
+            ax2 = fig.add_axes([0.12, 0.07, 0.8, 0.26])
             plotting.force_depth(o.result, ax=ax2, load=o.load_share, operating_depth=o.operating_depth)
             pdf.savefig(fig)
 
@@ -591,5 +752,6 @@ def pdf_bytes(a: Assessment, others: list[tuple[str, Assessment]] = ()) -> bytes
 
 
 __all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "assess", "Assessment",
+           "DeviceAssessment", "assess_device", "is_device_data", "device_input_rows", "device_result_rows",
            "ElementOutcome", "make_liquid", "curve_tables", "csv_zip", "write_csv_dir", "write_pdf",
            "pdf_bytes", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]
