@@ -195,7 +195,7 @@ def _chunk(model: Model, fixed: dict[str, float], dists: tuple[tuple[str, Distri
     if contamination is not None:
         hit = rng.random(n) < contamination.probability
         drop = rng.uniform(contamination.drop_low, contamination.drop_high, n)
-        sig = np.asarray(x.get("surface_tension", np.full(n, fixed["surface_tension"])), dtype=float)
+        sig = x["surface_tension"] if "surface_tension" in x else np.full(n, fixed["surface_tension"])
         x["surface_tension"] = np.where(hit, sig - drop, sig)
     for name, arr in x.items():
         q = model.inputs[name]
