@@ -30,6 +30,9 @@ _EXPORTS = {
     "weber_number": "groups", "reynolds_number": "groups", "min_wave_speed": "groups",
     # rods
     "rod": "rod", "rod_limit": "rod", "RodResult": "rod",
+    # round support elements (axisymmetric meniscus)
+    "pin": "round", "ball": "round", "pad": "round", "ring": "round",
+    "PinResult": "round", "RoundResult": "round", "RoundForceCurve": "round",
     # flexible wire legs and leg materials
     "flexible_leg": "flexleg", "flexible_leg_curve": "flexleg", "FlexLegResult": "flexleg",
     "leg_material": "materials", "custom_leg_material": "materials", "list_leg_materials": "materials",

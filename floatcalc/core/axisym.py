@@ -53,6 +53,8 @@ References
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from ..errors import ConvergenceError
@@ -145,7 +147,50 @@ def _integrate(rs, psi_end, inner: bool, steps: int, psi_s: float, keep: bool = 
     return np.exp(lnr), z, vol, bad, path
 
 
+def _integrate_scalar(rs, psi_end, inner: bool, steps: int, psi_s: float):
+    """Same scheme as :func:`_integrate` for one shot on plain floats (much less overhead)."""
+    z0, vol0 = _start(np.array([rs]), inner, psi_s)
+    z, vol, lnr = float(z0[0]), 0.0, math.log(rs)
+    u = math.log(math.tan(0.5 * psi_s))
+    h = (math.log(math.tan(0.5 * min(psi_end, PSI_MAX))) - u) / steps
+    sgn = -1.0 if inner else 1.0
+    bad = False
+    exp, tw = math.exp, 2.0 * math.pi
+
+    def f(u, lnr, z):
+        eu = exp(u)
+        q = 1.0 + eu * eu
+        sp, cp = 2.0 * eu / q, (1.0 - eu * eu) / q
+        r = exp(lnr)
+        den = sgn * r * z - sp
+        a = sp * cp / den
+        return a, sgn * r * sp * sp / den, tw * r * r * (-z) * a, den
+
+    for _ in range(steps):
+        a1, b1, c1, d1 = f(u, lnr, z)
+        a2, b2, c2, _ = f(u + 0.5 * h, lnr + 0.5 * h * a1, z + 0.5 * h * b1)
+        a3, b3, c3, _ = f(u + 0.5 * h, lnr + 0.5 * h * a2, z + 0.5 * h * b2)
+        a4, b4, c4, _ = f(u + h, lnr + h * a3, z + h * b3)
+        bad = bad or ((d1 >= 0) if not inner else (d1 <= 0))
+        lnr += h / 6.0 * (a1 + 2 * a2 + 2 * a3 + a4)
+        z += h / 6.0 * (b1 + 2 * b2 + 2 * b3 + b4)
+        vol += h / 6.0 * (c1 + 2 * c2 + 2 * c3 + c4)
+        u += h
+    vol = (-vol if not inner else vol) + float(vol0[0])
+    return math.exp(lnr), z, vol, bad
+
+
 def _shoot(rs, psi_end, inner, steps, psi_s, tight):
+    if rs.size <= 3:  # few shots: plain-float loop beats array overhead
+        outs = []
+        for x, p in zip(rs, psi_end):
+            o = _integrate_scalar(float(x), float(p), inner, steps, psi_s)
+            if tight:
+                o2 = _integrate_scalar(float(x), float(p), inner, 2 * steps, psi_s)
+                o = (*(b2 + (b2 - b1) / 15.0 for b1, b2 in zip(o[:3], o2[:3])), o[3] or o2[3])
+            outs.append(o)
+        arr = np.array([o[:3] for o in outs], dtype=float).reshape(-1, 3)
+        return arr[:, 0], arr[:, 1], arr[:, 2], np.array([o[3] for o in outs], dtype=bool)
     r, z, v, bad, _ = _integrate(rs, psi_end, inner, steps, psi_s)
     if tight:
         r2, z2, v2, bad2, _ = _integrate(rs, psi_end, inner, 2 * steps, psi_s)
