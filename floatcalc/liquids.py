@@ -10,7 +10,7 @@ pint quantities.
 
 >>> w = water("20 degC")
 >>> round(w.sigma * 1e3, 2), round(w.rho, 1), round(w.lc * 1e3, 3)
-(72.74, 998.2, 2.73)
+(72.74, 998.2, 2.726)
 """
 
 from __future__ import annotations

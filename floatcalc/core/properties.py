@@ -34,7 +34,7 @@ def water_surface_tension_iapws(T):
     with B = 235.8 mN/m, b = −0.625, μ = 1.256, T_c = 647.096 K. Valid from the triple point to
     the critical point.
 
-    >>> round(water_surface_tension_iapws(298.15) * 1e3, 2)
+    >>> round(float(water_surface_tension_iapws(298.15)) * 1e3, 2)
     71.97
     """
     tau = 1.0 - np.asarray(T, dtype=float) / T_CRITICAL_WATER
