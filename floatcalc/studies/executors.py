@@ -141,7 +141,7 @@ def _run_local(fn, tasks, workers, bar) -> list[Any]:
 
 def _run_dask(fn, tasks, scheduler, bar) -> list[Any]:
     try:
-        from dask.distributed import Client, as_completed
+        from dask.distributed import Client
     except ImportError:
         raise input_error("scheduler", "needs Dask: pip install 'floatcalc[cluster]'", repr(scheduler)) from None
     own = False
@@ -157,10 +157,9 @@ def _run_dask(fn, tasks, scheduler, bar) -> list[Any]:
         client = scheduler
     try:
         futs = [client.submit(fn, *t, pure=False) for t in tasks]
-        index = {f.key: i for i, f in enumerate(futs)}
-        results: list[Any] = [None] * len(tasks)
-        for f in as_completed(futs):
-            results[index[f.key]] = f.result()
+        results: list[Any] = []
+        for f in futs:  # in chunk order (each future knows its client; no default client needed)
+            results.append(f.result())
             bar.step()
         return results
     finally:
