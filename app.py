@@ -40,6 +40,21 @@ def assess_cached(key: str) -> rp.Assessment:
     return rp.assess(json.loads(key))
 
 
+@st.cache_resource(max_entries=128, show_spinner=False)
+def assess_device_cached(key: str) -> rp.DeviceAssessment:
+    d = json.loads(key)
+    return rp.assess_device(d["data"], d["payload"], d["safety_factor"])
+
+
+def assess_any(key: str):
+    """Assessment of a scenario key or a device key (JSON with a "data" entry)."""
+    return assess_device_cached(key) if key.startswith('{"data"') else assess_cached(key)
+
+
+def device_key(data: dict, payload: str, sf: float) -> str:
+    return json.dumps({"data": data, "payload": payload, "safety_factor": sf}, sort_keys=True)
+
+
 @st.cache_data(max_entries=256, show_spinner=False)
 def figure_png(kind: str, key: str, group: int = 0, others: str = "") -> bytes:
     """PNG bytes of one drawing of an assessed scenario."""
@@ -49,57 +64,122 @@ def figure_png(kind: str, key: str, group: int = 0, others: str = "") -> bytes:
 
     from floatcalc import plotting
 
-    a = assess_cached(key)
-    if kind == "section":
-        fig = Figure(figsize=(10.5, 3.4), layout="constrained")
+    a = assess_any(key) if key else None
+    if kind == "plan":
+        fig = Figure(figsize=(7.0, 5.8))
+        fig.subplots_adjust(left=0.1, right=0.98, bottom=0.09, top=0.94)
+        plotting.plan_view(a.result, ax=fig.add_subplot(), grid=100)
+    elif kind == "section":
+        fig = Figure(figsize=(10.5, 3.6))
+        fig.subplots_adjust(left=0.07, right=0.99, bottom=0.15, top=0.91, wspace=0.25)
         ax1, ax2 = fig.subplots(1, 2, width_ratios=[2.3, 1.0])
         plotting.meniscus_section(a.elements[group].result, ax=ax1)
         plotting.meniscus_section(a.elements[group].result, ax=ax2, zoom=True)
     elif kind == "force":
         o = a.elements[group]
-        fig = Figure(figsize=(8.0, 4.2), layout="constrained")
+        fig = Figure(figsize=(8.0, 4.2))
+        fig.subplots_adjust(left=0.1, right=0.98, bottom=0.13, top=0.92)
         plotting.force_depth(o.result, ax=fig.add_subplot(), load=o.load_share, operating_depth=o.operating_depth)
     elif kind == "compare":
-        items = [(name, assess_cached(k)) for name, k in json.loads(others)]
-        fig = Figure(figsize=(8.0, 4.2), layout="constrained")
+        items = [(name, assess_any(k)) for name, k in json.loads(others)]
+        fig = Figure(figsize=(8.0, 4.2))
+        fig.subplots_adjust(left=0.1, right=0.98, bottom=0.13, top=0.92)
         plotting.compare_curves(items, ax=fig.add_subplot())
     else:  # pragma: no cover - programming error
         raise KeyError(kind)
     buf = io.BytesIO()
-    fig.savefig(buf, format="png", dpi=110)
+    fig.savefig(buf, format="png", dpi=90)
     return buf.getvalue()
 
 
 @st.cache_data(max_entries=64, show_spinner=False)
 def csv_zip_cached(key: str) -> bytes:
-    return rp.csv_zip(rp.curve_tables(assess_cached(key)))
+    a = assess_any(key)
+    tables = rp.curve_tables(a)
+    if isinstance(a, rp.DeviceAssessment):
+        tables["device_elements.csv"] = rp.device_element_table(a)
+    return rp.csv_zip(tables)
 
 
-def load_design_bytes(data: bytes) -> dict:
-    """Scenario from an uploaded design file (size-limited, TOML only; raises InputError)."""
-    return ex.loads_toml(data)
+def load_design_bytes(data: bytes) -> tuple[str, dict]:
+    """("device", design data) or ("groups", scenario) from an uploaded design file.
+
+    Size-limited, UTF-8 TOML parsed with tomllib only (no evaluation, no pickle); a device file
+    (floatcalc.device format) is validated by floatcalc.device. Raises InputError.
+    """
+    import tomllib
+
+    if len(data) > ex.MAX_FILE_BYTES:
+        raise InputError(f"design file: must be at most {ex.MAX_FILE_BYTES // 1024} kB, got {len(data)} bytes")
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError:
+        raise InputError("design file: must be UTF-8 text (TOML), got undecodable bytes") from None
+    try:
+        raw = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"design file: is not valid TOML, got {str(exc).splitlines()[0]}") from None
+    if rp.is_device_data(raw):
+        from floatcalc.device.design import design_from_data
+
+        design_from_data(raw, "design file")
+        return "device", raw
+    return "groups", ex.loads_toml(text)
+
+
+def device_example(name: str) -> dict:
+    import tomllib
+
+    from floatcalc.device.design import example_path
+
+    return tomllib.loads(example_path(name).read_text(encoding="utf-8"))
+
+
+def device_examples() -> list[dict]:
+    from floatcalc.device import list_examples
+
+    return list_examples()
 
 
 # ------------------------------------------------------------------------------------------------
 # Session state: the loaded scenario gives the fields their starting values; ``ver`` renews
 # every widget key when a new scenario is loaded.
 
+OPENING_DEVICE = "skimmer"
+
+
 def _init_state() -> None:
     ss = st.session_state
-    if "base" not in ss:
-        ss.base = ex.example(OPENING_EXAMPLE)
+    if "mode" not in ss:
         ss.ver = 0
-        ss.compare = [(a["title"], _key(a)) for a in ex.alternatives(ss.base)[1:]]
         ss.upload_id = None
+        try:
+            ss.mode, ss.device = "device", device_example(OPENING_DEVICE)
+            ss.base = ex.example(OPENING_EXAMPLE)
+            ss.compare = []
+        except Exception:  # noqa: BLE001 - without floatcalc.device the page opens on a leg example
+            ss.mode = "groups"
+            ss.base = ex.example(OPENING_EXAMPLE)
+            ss.compare = [(a["title"], _key(a)) for a in ex.alternatives(ss.base)[1:]]
 
 
 def _load(scenario: dict) -> None:
     ss = st.session_state
+    ss.mode = "groups"
     ss.base = scenario
     ss.ver += 1
     main = {k: v for k, v in scenario.items() if k != "alternatives"}
     ss.compare = [(a["title"], _key(a)) for a in ex.alternatives(scenario)[1:]]
     ss.current = main
+    ss.pop("pdf", None)
+
+
+def _load_device(data: dict) -> None:
+    ss = st.session_state
+    ss.mode = "device"
+    ss.device = data
+    ss.ver += 1
+    ss.compare = []
     ss.pop("pdf", None)
 
 
@@ -166,8 +246,8 @@ def _coating_changed(i: int) -> None:
         ss[k(f"rec{i}")] = rec
 
 
-def rod_panel(i: int, spec: dict, errors: dict) -> dict:
-    """Inputs of a group of long horizontal legs."""
+def rod_panel(i: int, spec: dict, errors: dict, with_count: bool = True) -> dict:
+    """Inputs of a group of long horizontal legs (``with_count=False``: legs of a device)."""
     e = {"kind": "rod"}
     c1, c2, c3 = st.columns(3)
     with c1:
@@ -178,8 +258,9 @@ def rod_panel(i: int, spec: dict, errors: dict) -> dict:
                                     help="length lying in the surface, e.g. 30 mm")
         field_error(st, "length", e["length"], errors)
     with c2:
-        e["count"] = int(st.number_input("Number of legs", min_value=1, max_value=1000, step=1,
-                                         value=int(spec.get("count", 1)), key=k(f"cnt{i}")))
+        if with_count:
+            e["count"] = int(st.number_input("Number of legs", min_value=1, max_value=1000, step=1,
+                                             value=int(spec.get("count", 1)), key=k(f"cnt{i}")))
         mats = ex.material_names() + ["other (enter density)"]
         m = spec.get("material", "steel")
         choice = st.selectbox("Material", mats, index=mats.index(m) if m in mats else len(mats) - 1,
@@ -296,58 +377,117 @@ def notes_panel(a: rp.Assessment) -> None:
         st.markdown(f"- Verdict rule: {rp.VERDICT_RULE}")
 
 
+DRAWINGS = ("Meniscus cross-section", "Force against depth")
+DEVICE_DRAWINGS = ("Plan view", "Leg cross-section", "Force against depth (one leg)")
+
+
 def drawings_panel(a: rp.Assessment, key: str) -> None:
-    tabs = st.tabs(["Meniscus cross-section", "Force against depth"])
-    with tabs[0]:
-        for i, o in enumerate(a.elements):
-            if len(a.elements) > 1:
-                st.caption(f"group {i + 1}: {o.label}")
-            st.image(figure_png("section", key, i), width="stretch")
-    with tabs[1]:
-        for i, o in enumerate(a.elements):
-            if len(a.elements) > 1:
-                st.caption(f"group {i + 1}: {o.label}")
-            st.image(figure_png("force", key, i), width="stretch")
+    # One drawing at a time (a choice, not tabs) so that a change of input redraws only one.
+    choice = st.radio("Drawing", DRAWINGS, horizontal=True, key="drawing", label_visibility="collapsed")
+    kind = "section" if choice == DRAWINGS[0] else "force"
+    for i, o in enumerate(a.elements):
+        if len(a.elements) > 1:
+            st.caption(f"group {i + 1}: {o.label}")
+        st.image(figure_png(kind, key, i), width="stretch")
 
 
-def compare_panel(current: dict | None) -> None:
-    ss = st.session_state
-    st.caption("Put two or more designs side by side: the current design against the saved ones.")
-    b1, b2 = st.columns(2)
-    if current is not None and b1.button("Add the current design to the comparison", key="cmp_add"):
-        ss.compare = [*ss.compare, (f"saved {len(ss.compare) + 1}: {current.get('title', 'design')}", _key(current))]
-    if ss.compare and b2.button("Clear the comparison", key="cmp_clear"):
-        ss.compare = []
-    items = ([("current design", _key(current))] if current is not None else []) + list(ss.compare)
-    if len(items) < 2:
-        st.caption("Add a design to compare it with the current one.")
-        return
-    assessed = []
-    for name, kk in items:
-        try:
-            assessed.append((name, kk, assess_cached(kk)))
-        except InputError as exc:
-            st.error(f"{name}: {exc}", icon="⚠️")
-    st.dataframe(rp.comparison_rows([(n, a) for n, _, a in assessed]), hide_index=True,
-                 width="stretch")
-    st.image(figure_png("compare", "", 0, json.dumps([(n, kk) for n, kk, _ in assessed])),
-             width="stretch")
+def device_legs_panel(data: dict, errors: dict) -> list:
+    """Shared inputs for the rod legs of a device; a changed value applies to every rod leg."""
+    legs = data.get("legs", [])
+    rods = [leg for leg in legs if leg.get("kind") == "rod"]
+    kinds = sorted({leg.get("kind", "?") for leg in legs})
+    st.caption(f"{len(legs)} elements ({', '.join(kinds)}); plan positions and headings come from the design "
+               "file. A value changed here applies to every rod leg.")
+    if not rods:
+        return legs
+    first = rods[0]
+    coat = first.get("coating", {})
+    spec = {"radius": first.get("radius", ""), "length": first.get("length", ""),
+            "material": first.get("material", first.get("material_density", "steel")),
+            "coating": next((c for c, (a, r) in ex.COATINGS.items()
+                             if a == coat.get("advancing") and r == coat.get("receding", "")), "custom"),
+            "advancing_angle": coat.get("advancing", ""), "receding_angle": coat.get("receding", "")}
+    with st.container(border=True):
+        st.markdown("**Rod legs (long horizontal wires)**")
+        e = rod_panel(0, spec, errors, with_count=False)
+    out = []
+    for leg in legs:
+        leg = json.loads(json.dumps(leg))
+        if leg.get("kind") == "rod":
+            for key in ("radius", "length"):
+                if e[key] != spec[key]:
+                    leg[key] = e[key]
+            if e["material"] != spec["material"]:
+                leg.pop("material", None)
+                leg.pop("material_density", None)
+                if any(ch.isdigit() for ch in e["material"]):
+                    leg["material_density"] = e["material"]
+                else:
+                    leg["material"] = e["material"]
+            c = leg.setdefault("coating", {})
+            if e["advancing_angle"] != spec["advancing_angle"]:
+                c["advancing"] = e["advancing_angle"]
+            rec = e.get("receding_angle", "")
+            if rec != spec["receding_angle"]:
+                if rec:
+                    c["receding"] = rec
+                else:
+                    c.pop("receding", None)
+        out.append(leg)
+    return out
 
 
-def reports_panel(a: rp.Assessment, key: str, current: dict) -> None:
-    ss = st.session_state
+def device_load_panel(body: dict, errors: dict) -> tuple[str, str, float]:
     c1, c2, c3 = st.columns(3)
-    c1.download_button("Save this design (TOML)", ex.dumps_toml(current), file_name="design.toml",
-                       mime="application/toml", key="dl_toml")
-    c2.download_button("Curves as CSV (zip)", csv_zip_cached(key), file_name="floatcalc_curves.zip",
-                       mime="application/zip", key="dl_csv")
-    if c3.button("Prepare the PDF report", key="pdf_make"):
-        with st.spinner("Writing the PDF report..."):
-            others = [(n, assess_cached(kk)) for n, kk in ss.compare]
-            ss.pdf = (key, rp.pdf_bytes(a, others))
-    if ss.get("pdf") and ss.pdf[0] == key:
-        c3.download_button("Download the PDF report", ss.pdf[1], file_name="floatcalc_report.pdf",
-                           mime="application/pdf", key="dl_pdf")
+    with c1:
+        mass = st.text_input("Body mass (without the legs)", body.get("mass", "1 g"), key=k("dbody"))
+        field_error(st, "body_mass", mass, errors)
+    with c2:
+        pay = st.text_input("Payload (at the centre of mass)", "0 g", key=k("dpay"), help="e.g. 0.3 g")
+        field_error(st, "payload", pay, errors)
+    with c3:
+        sf = st.number_input("Safety factor", min_value=1.0, max_value=10.0, step=0.1, value=2.0, key=k("dsf"),
+                             help="required ratio of capacity to weight for 'floats with margin'")
+    return mass, pay, float(sf)
+
+
+def device_results_panel(a: rp.DeviceAssessment) -> None:
+    r = a.result
+    VERDICT_STYLE[a.verdict](
+        f"**{a.verdict.upper()}**: margin {a.margin:.3g} against safety factor {a.safety_factor:g}"
+        + (f"; short by {a.shortfall.to('mN').magnitude:.3g} mN of capacity" if a.shortfall is not None else ""))
+    c1, c2, c3, c4 = st.columns(4)
+    c1.metric("Capacity (weight it can carry)", f"{a.limit_force.to('mN').magnitude:.3g} mN",
+              help="own weight + largest payload at the centre of mass (device equilibrium)")
+    c2.metric("Weight carried", f"{a.total_load.to('mN').magnitude:.3g} mN", help="body + legs + payload")
+    c3.metric("Margin", f"{a.margin:.3g}", help=rp.VERDICT_RULE)
+    spare_g = a.spare_payload.to("N").magnitude / a.liquid.g * 1e3
+    c4.metric("Payload still allowed", f"{spare_g:.3g} g", help="extra payload before the margin falls to the safety factor")
+    st.markdown(f"First element to give way: **{r.first_to_fail}**. Equilibrium: heave "
+                f"{r.heave.to('mm').magnitude:.3g} mm, pitch {r.pitch.magnitude:.2g}°, roll {r.roll.magnitude:.2g}°.")
+    rows = [{"element": e.name, "kind": e.kind, "force [mN]": f"{e.force.to('mN').magnitude:.4g}",
+             "share of load [%]": f"{100 * e.share:.1f}", "depth [mm]": f"{e.depth.to('mm').magnitude:.3g}",
+             "limit force [mN]": f"{e.limit_force.to('mN').magnitude:.4g}",
+             "depth to spare [mm]": f"{e.depth_margin.to('mm').magnitude:.3g}"} for e in r.elements]
+    st.dataframe(rows, hide_index=True, width="stretch", height=min(38 + 35 * len(rows), 300))
+    st.markdown("**Dimensionless groups**")
+    for o in a.elements:
+        st.markdown(f"- Bond number (L = leg radius): **{o.bond_number:.3g}**: {o.bond_reading}")
+    st.markdown(f"- Baudoin number (weight / (σ × contact perimeter)): **{a.baudoin_number:.3g}**: "
+                f"{a.baudoin_reading}")
+
+
+def device_drawings_panel(a: rp.DeviceAssessment, key: str) -> None:
+    choice = st.radio("Drawing", DEVICE_DRAWINGS, horizontal=True, key="device_drawing",
+                      label_visibility="collapsed")
+    if choice == DEVICE_DRAWINGS[0]:
+        st.image(figure_png("plan", key), width="stretch")
+        return
+    if not a.elements:
+        st.caption("no rod leg to draw")
+        return
+    st.caption(a.elements[0].label + ": its own force–depth law, with the force it carries in the device")
+    st.image(figure_png("section" if choice == DEVICE_DRAWINGS[1] else "force", key, 0), width="stretch")
 
 
 def _guard(title: str, fn, *args) -> None:
@@ -360,31 +500,75 @@ def _guard(title: str, fn, *args) -> None:
         st.error(f"{title} could not be shown: {type(exc).__name__}: {exc}", icon="⚠️")
 
 
+def compare_panel(current_name: str, current_key: str | None) -> None:
+    ss = st.session_state
+    st.caption("Put two or more designs side by side: the current design against the saved ones.")
+    b1, b2 = st.columns(2)
+    if current_key is not None and b1.button("Add the current design to the comparison", key="cmp_add"):
+        ss.compare = [*ss.compare, (f"saved {len(ss.compare) + 1}: {current_name}", current_key)]
+    if ss.compare and b2.button("Clear the comparison", key="cmp_clear"):
+        ss.compare = []
+    items = ([("current design", current_key)] if current_key is not None else []) + list(ss.compare)
+    if len(items) < 2:
+        st.caption("Add a design to compare it with the current one: change an input, add it again, and so on.")
+        return
+    assessed = []
+    for name, kk in items:
+        try:
+            assessed.append((name, kk, assess_any(kk)))
+        except InputError as exc:
+            st.error(f"{name}: {exc}", icon="⚠️")
+    st.dataframe(rp.comparison_rows([(n, a) for n, _, a in assessed]), hide_index=True, width="stretch")
+    st.image(figure_png("compare", "", 0, json.dumps([(n, kk) for n, kk, _ in assessed])), width="stretch")
+
+
+def reports_panel(a, key: str, toml_text: str) -> None:
+    ss = st.session_state
+    c1, c2, c3 = st.columns(3)
+    c1.download_button("Save this design (TOML)", toml_text, file_name="design.toml",
+                       mime="application/toml", key="dl_toml")
+    c2.download_button("Curves as CSV (zip)", csv_zip_cached(key), file_name="floatcalc_curves.zip",
+                       mime="application/zip", key="dl_csv")
+    if c3.button("Prepare the PDF report", key="pdf_make"):
+        with st.spinner("Writing the PDF report..."):
+            others = [(n, assess_any(kk)) for n, kk in ss.compare]
+            ss.pdf = (key, rp.pdf_bytes(a, others))
+    if ss.get("pdf") and ss.pdf[0] == key:
+        c3.download_button("Download the PDF report", ss.pdf[1], file_name="floatcalc_report.pdf",
+                           mime="application/pdf", key="dl_pdf")
+
+
 # ------------------------------------------------------------------------------------------------
 # Page
 
-def main() -> None:
-    t0 = time.perf_counter()
-    _init_state()
+def sidebar() -> None:
     ss = st.session_state
-    base = ss.base
-
     with st.sidebar:
         st.header("Designs")
-        labels = {n: ex.example(n)["title"] for n in ex.EXAMPLE_NAMES}
-        pick = st.selectbox("Built-in examples (all invented)", list(labels), format_func=lambda n: labels[n],
+        choices: dict[str, str] = {}
+        try:
+            for d in device_examples():
+                choices[f"device:{d['name']}"] = f"Device: {d['description']}"
+        except Exception:  # noqa: BLE001 - device examples unavailable
+            pass
+        for n in ex.EXAMPLE_NAMES:
+            choices[f"groups:{n}"] = ex.example(n)["title"]
+        pick = st.selectbox("Built-in examples (all invented)", list(choices), format_func=lambda n: choices[n],
                             index=None, placeholder="choose an example...", key="pick")
         if pick and st.button("Load this example", key="load_example"):
-            _load(ex.example(pick))
+            kind, name = pick.split(":", 1)
+            _load_device(device_example(name)) if kind == "device" else _load(ex.example(name))
             st.rerun()
         up = st.file_uploader(f"Open a design file (TOML, at most {ex.MAX_FILE_BYTES // 1024} kB)",
                               type=["toml"], key="upload")
         if up is not None and up.file_id != ss.upload_id:
             ss.upload_id = up.file_id
+            ss.upload_error = None
             try:
                 if up.size > ex.MAX_FILE_BYTES:
                     raise InputError(f"design file: must be at most {ex.MAX_FILE_BYTES // 1024} kB, got {up.size} bytes")
-                _load(load_design_bytes(up.read(ex.MAX_FILE_BYTES + 1)))
+                kind, data = load_design_bytes(up.read(ex.MAX_FILE_BYTES + 1))
+                _load_device(data) if kind == "device" else _load(data)
                 st.rerun()
             except InputError as exc:
                 ss.upload_error = str(exc)
@@ -394,10 +578,11 @@ def main() -> None:
         st.caption("Static estimates on a clean liquid surface. Surfactants, oils and heat lower the "
                    "surface tension and every force here.")
 
-    st.title("floatcalc: what can it carry on the surface?")
-    st.caption(base.get("title", "") + ("  ·  invented example" if base.get("invented") else ""))
 
-    errors: dict[str, str] = {}
+def groups_page(errors: dict):
+    """Inputs of a scenario of element groups; returns (assessment or None, key, toml, name)."""
+    ss = st.session_state
+    base = ss.base
     left, right = st.columns([1.0, 1.25], gap="large")
     with left:
         st.subheader("Liquid")
@@ -429,12 +614,11 @@ def main() -> None:
         st.button("Add an element group", key=k("addgrp"), on_click=_add_group)
         st.subheader("Load")
         load = load_panel(base.get("load", {}), errors)
-
     current = {"title": base.get("title", "Design"), "invented": bool(base.get("invented", False)),
                "liquid": liq, "load": load, "elements": elements}
     if base.get("audience"):
         current["audience"] = base["audience"]
-
+    key = _key(current)
     a = None
     with right:
         st.subheader("Results")
@@ -442,7 +626,7 @@ def main() -> None:
             st.info("Results wait for valid inputs: correct the field marked in red on the left.", icon="✋")
         else:
             try:
-                a = assess_cached(_key(current))
+                a = assess_cached(key)
                 ss.current = current
             except InputError as exc:
                 st.error(str(exc), icon="⚠️")
@@ -451,15 +635,84 @@ def main() -> None:
         if a is not None:
             _guard("Results", results_panel, a)
             st.subheader("Drawings")
-            _guard("Drawings", drawings_panel, a, _key(current))
-    if a is not None:
-        with right:
+            _guard("Drawings", drawings_panel, a, key)
             _guard("Warnings and cautions", notes_panel, a)
+    toml_text = ex.dumps_toml(current) if a is not None else ""
+    return a, key, toml_text, current["title"]
+
+
+def device_page(errors: dict):
+    """Inputs of a device design; returns (assessment or None, key, toml, name)."""
+    ss = st.session_state
+    data = ss.device
+    left, right = st.columns([1.0, 1.25], gap="large")
+    with left:
+        st.subheader("Liquid")
+        liq = {}
+        try:
+            liq = liquid_panel(data.get("liquid", {}), errors)
+        except Exception as exc:  # noqa: BLE001
+            st.error(f"liquid inputs could not be read: {exc}", icon="⚠️")
+            errors["liquid"] = str(exc)
+        st.subheader("Support elements")
+        legs = data.get("legs", [])
+        try:
+            legs = device_legs_panel(data, errors)
+        except Exception as exc:  # noqa: BLE001
+            st.error(f"leg inputs could not be read: {exc}", icon="⚠️")
+            errors["legs"] = str(exc)
+        st.subheader("Load")
+        mass, pay, sf = device_load_panel(data.get("body", {}), errors)
+    new = json.loads(json.dumps(data))
+    new["liquid"] = liq
+    new["legs"] = legs
+    new.setdefault("body", {})["mass"] = mass
+    key = device_key(new, pay, sf)
+    a = None
+    with right:
+        st.subheader("Results")
+        if errors:
+            st.info("Results wait for valid inputs: correct the field marked in red on the left.", icon="✋")
+        else:
+            try:
+                with st.spinner("Solving the device equilibrium..."):
+                    a = assess_device_cached(key)
+            except InputError as exc:
+                for line in str(exc).splitlines():
+                    st.error(line, icon="⚠️")
+            except Exception as exc:  # noqa: BLE001
+                st.error(f"the calculation failed: {type(exc).__name__}: {exc}", icon="⚠️")
+        if a is not None:
+            _guard("Results", device_results_panel, a)
+            st.subheader("Drawings")
+            _guard("Drawings", device_drawings_panel, a, key)
+            _guard("Warnings and cautions", notes_panel, a)
+    toml_text = ""
+    if a is not None:
+        from floatcalc.device import design_text
+
+        toml_text = design_text(new)
+    return a, key, toml_text, str(data.get("description", "device"))[:60]
+
+
+def main() -> None:
+    t0 = time.perf_counter()
+    _init_state()
+    ss = st.session_state
+    sidebar()
+    st.title("floatcalc: what can it carry on the surface?")
+    if ss.mode == "device":
+        desc = str(ss.device.get("description", "Device design"))
+        st.caption(desc)
+    else:
+        st.caption(ss.base.get("title", "") + ("  ·  invented example" if ss.base.get("invented") else ""))
+    errors: dict[str, str] = {}
+    a, key, toml_text, name = (device_page if ss.mode == "device" else groups_page)(errors)
     st.subheader("Compare designs")
-    _guard("Comparison", compare_panel, current if a is not None else None)
+    _guard("Comparison", compare_panel, name, key if a is not None else None)
     st.subheader("Reports")
     if a is not None:
-        _guard("Reports", reports_panel, a, _key(current), current)
+        _guard("Reports", reports_panel, a, key, toml_text)
     else:
         st.caption("Reports are available once every input is valid.")
     st.caption(f"page computed in {1e3 * (time.perf_counter() - t0):.0f} ms · floatcalc")

@@ -576,6 +576,20 @@ def curve_tables(a: Assessment, prefix: str = "") -> dict[str, str]:
     return out
 
 
+def device_element_table(a: DeviceAssessment) -> str:
+    """CSV of a device's elements at equilibrium (name, plan position, force, share, depths, limit)."""
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["element", "kind", "x_m", "y_m", "force_N", "share", "depth_m", "limit_force_N",
+                "limit_depth_m", "depth_margin_m"])
+    for e, m in zip(a.result.elements, a.result.device.models):
+        c = m.footprint.mean(axis=0)
+        w.writerow([e.name, e.kind, f"{c[0]:.9g}", f"{c[1]:.9g}", f"{e.force.to('N').magnitude:.9g}",
+                    f"{e.share:.6g}", f"{e.depth.to('m').magnitude:.9g}", f"{e.limit_force.to('N').magnitude:.9g}",
+                    f"{e.limit_depth.to('m').magnitude:.9g}", f"{e.depth_margin.to('m').magnitude:.9g}"])
+    return buf.getvalue()
+
+
 def csv_zip(tables: dict[str, str]) -> bytes:
     """A zip archive (bytes) of CSV tables."""
     buf = io.BytesIO()
@@ -594,6 +608,8 @@ def write_csv_dir(a: Assessment, directory: str, others: list[tuple[str, Assessm
     tables = dict(curve_tables(a))
     for k, (name, b) in enumerate(others, 2):
         tables.update(curve_tables(b, prefix=f"design{k}_"))
+    if isinstance(a, DeviceAssessment):
+        tables["device_elements.csv"] = device_element_table(a)
     for name, text in tables.items():
         path = os.path.join(directory, name)
         with open(path, "w", encoding="utf-8", newline="") as f:
@@ -752,6 +768,6 @@ def pdf_bytes(a: Assessment, others: list[tuple[str, Assessment]] = ()) -> bytes
 
 
 __all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "assess", "Assessment",
-           "DeviceAssessment", "assess_device", "is_device_data", "device_input_rows", "device_result_rows",
+           "DeviceAssessment", "assess_device", "device_element_table", "is_device_data", "device_input_rows", "device_result_rows",
            "ElementOutcome", "make_liquid", "curve_tables", "csv_zip", "write_csv_dir", "write_pdf",
            "pdf_bytes", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]
