@@ -31,7 +31,13 @@ class _Parser(argparse.ArgumentParser):
     """argparse with one-line errors and exit code 2."""
 
     def error(self, message: str):  # noqa: D401 - argparse API
-        self.exit(EXIT_BAD_INPUT, f"floatcalc: error: {message} (see '{self.prog} --help')\n")
+        self.exit(EXIT_BAD_INPUT, f"floatcalc: error: {_one_line(message)} (see '{self.prog} --help')\n")
+
+
+def _one_line(text: str) -> str:
+    """Escape control and line-break characters (\\n, \\r, \\x85, \\u2028, ...) echoed from argv,
+    so that an error stays on one line."""
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in str(text))
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -80,10 +86,10 @@ def main(argv: list[str] | None = None) -> int:
             return int(args.func(args) or 0)
     except FloatcalcError as exc:
         code = EXIT_BAD_INPUT if isinstance(exc, ValueError) else EXIT_SOLVER
-        print(f"floatcalc: error: {exc}", file=sys.stderr)
+        print(f"floatcalc: error: {_one_line(exc)}", file=sys.stderr)
         return code
     except (OSError, UnicodeDecodeError) as exc:
-        print(f"floatcalc: error: {exc}", file=sys.stderr)
+        print(f"floatcalc: error: {_one_line(exc)}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         print("floatcalc: interrupted", file=sys.stderr)
