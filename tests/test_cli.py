@@ -121,6 +121,8 @@ BAD = [
     ("dirty sigma above clean", ["liquid", "water", "--surface-tension", "90mN/m"], "at most the clean value"),
     ("unknown liquid name", ["liquid", "mercury"], "liquid: unknown liquid"),
     ("frozen water", ["liquid", "water", "--temperature", "-5degC"], "temperature: water allows"),
+    ("pasted line break", ["demo", "\x85"], "unrecognized arguments: \\x85"),
+    ("newline in a value", [*LEG, "--liquid", "wat\ner"], "unknown liquid"),
 ]
 
 
@@ -128,7 +130,7 @@ BAD = [
 def test_bad_input_one_line_exit_2_no_traceback(capsys, label, argv, fragment):
     code, out, err = run(capsys, *argv)
     assert code == 2, label
-    lines = err.strip("\n").split("\n")
+    lines = err.splitlines()  # splitlines also breaks at \x85, \u2028, ... (what a terminal may show)
     assert len(lines) == 1 and lines[0].startswith("floatcalc: error: "), err
     assert fragment in lines[0]
     assert "Traceback" not in err + out
