@@ -212,3 +212,53 @@ def test_cli_report_bad_input_exits_2(tmp_path):
     assert proc.returncode == 2
     assert proc.stderr.strip().count("\n") == 0
     assert "temperature" in proc.stderr and "Traceback" not in proc.stderr
+
+
+# ------------------------------------------------------------------------------------------------
+# Whole devices (floatcalc.device)
+
+def _skimmer():
+    import tomllib
+
+    from floatcalc.device.design import example_path
+
+    return tomllib.loads(example_path("skimmer").read_text(encoding="utf-8"))
+
+
+@pytest.fixture(scope="module")
+def skimmer_capacity():
+    from floatcalc.device import example, solve_device
+
+    r = solve_device(example("skimmer"))
+    return r.weight.to("N").magnitude, r.max_payload.to("N").magnitude
+
+
+def test_device_verdict_agrees_with_the_device_solver_at_its_capacity(skimmer_capacity):
+    # The device solver decides floats/sinks by its own equilibrium; the verdict rule must agree:
+    # just under capacity -> margin just above 1 (marginal with SF 2), just over -> sinks.
+    W, Pmax = skimmer_capacity
+    under = rp.assess_device(_skimmer(), f"{0.98 * Pmax / G0} kg", 2.0)
+    over = rp.assess_device(_skimmer(), f"{1.05 * Pmax / G0} kg", 2.0)
+    assert under.result.verdict == "floats" and under.verdict == "marginal"
+    assert 1.0 < under.margin < 1.02
+    assert over.result.verdict == "sinks" and over.verdict == "sinks"
+    assert over.shortfall.to("N").magnitude == pytest.approx(0.05 * Pmax, rel=1e-6)
+    # Shares of the load add up to the whole weight carried.
+    assert sum(e.share for e in under.result.elements) == pytest.approx(1.0, rel=1e-9)
+
+
+def test_device_report_has_plan_view_page(tmp_path):
+    out = tmp_path / "dev.pdf"
+    csv_dir = tmp_path / "c"
+    from floatcalc.device.design import example_path
+
+    assert main(["report", str(example_path("skimmer")), "-o", str(out), "--csv-dir", str(csv_dir),
+                 "--payload", "0.3 g"]) == 0
+    n, text = _pdf_text(str(out))
+    flat = " ".join(text.split())
+    assert n >= 4
+    assert "Drawings (plan view)" in flat and "twelve-leg surface skimmer" in flat
+    assert "Static estimate for a clean liquid surface" in flat
+    rows = list(csv.DictReader(io.StringIO((csv_dir / "device_elements.csv").read_text())))
+    assert len(rows) == 12
+    assert sum(float(r["share"]) for r in rows) == pytest.approx(1.0, rel=1e-5)
