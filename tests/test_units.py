@@ -88,3 +88,25 @@ def test_unknown_kind_is_a_programming_error():
 def test_format_si():
     assert format_si(1.5e-4, "length", "mm") == "0.15 mm"
     assert format_si(0.0254, "length", "inch") == "1 inch"
+
+
+def test_import_floatcalc_stays_light():
+    # House rule (DEVELOPERS.md): plain `import floatcalc` loads none of pint, SciPy,
+    # matplotlib or Streamlit; checked in a fresh interpreter.
+    import json
+    import subprocess
+    import sys
+
+    code = ("import sys, json, floatcalc; "
+            "print(json.dumps([m for m in ('pint', 'scipy', 'matplotlib', 'streamlit') if m in sys.modules]))")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True, timeout=60)
+    assert json.loads(out.stdout) == []
+
+
+def test_every_lazy_export_resolves():
+    import floatcalc
+
+    for name in floatcalc.__all__:
+        assert getattr(floatcalc, name) is not None, name
+    with pytest.raises(AttributeError):
+        floatcalc.no_such_name  # noqa: B018

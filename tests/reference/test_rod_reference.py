@@ -275,3 +275,18 @@ def test_pull_off_force_matches_bruteforce_minimum():
         expected = max(0.0, -min(f[k], res.fun)) * liq.sigma * 0.05
         r = fc.rod(f"{R_mm} mm", "50 mm", "150 deg", receding_angle=f"{th_r} deg")
         assert r.pull_off_force.to("N").magnitude == pytest.approx(expected, rel=1e-9, abs=1e-15)
+
+
+@pytest.mark.parametrize("theta_deg", [0.0, 20.0, 45.0, 80.0, 100.0, 135.0, 180.0])
+def test_wall_lifted_area_balances_wilhelmy_pull(theta_deg):
+    # Source: vertical force balance on the meniscus at a wall (de Gennes et al. 2004, ch. 1;
+    # Wilhelmy 1863): σ cos θ per unit length = ρ g × (area between z = 0 and the interface),
+    # i.e. area = cos θ l_c². Area by the trapezoid rule on the closed-form profile (extent 25,
+    # tail below 1e-9); compared with cos θ and with the public force_per_length. Tol. 1e-6.
+    th = math.radians(theta_deg)
+    x, z = wall2d.profile(th, extent=25.0, n=20000)
+    area = _trapezoid(z, x)
+    assert area == pytest.approx(math.cos(th), abs=1e-6)
+    w = fc.water()
+    r = fc.wall_meniscus(f"{theta_deg} deg", liquid=w)
+    assert r.force_per_length.to("N/m").magnitude == pytest.approx(area * w.rho * w.g * w.lc**2, abs=1e-6 * w.sigma)
