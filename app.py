@@ -102,29 +102,8 @@ def csv_zip_cached(key: str) -> bytes:
 
 
 def load_design_bytes(data: bytes) -> tuple[str, dict]:
-    """("device", design data) or ("groups", scenario) from an uploaded design file.
-
-    Size-limited, UTF-8 TOML parsed with tomllib only (no evaluation, no pickle); a device file
-    (floatcalc.device format) is validated by floatcalc.device. Raises InputError.
-    """
-    import tomllib
-
-    if len(data) > ex.MAX_FILE_BYTES:
-        raise InputError(f"design file: must be at most {ex.MAX_FILE_BYTES // 1024} kB, got {len(data)} bytes")
-    try:
-        text = data.decode("utf-8")
-    except UnicodeDecodeError:
-        raise InputError("design file: must be UTF-8 text (TOML), got undecodable bytes") from None
-    try:
-        raw = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"design file: is not valid TOML, got {str(exc).splitlines()[0]}") from None
-    if rp.is_device_data(raw):
-        from floatcalc.device.design import design_from_data
-
-        design_from_data(raw, "design file")
-        return "device", raw
-    return "groups", ex.loads_toml(text)
+    """("device", design data) or ("groups", scenario) from an uploaded file (floatcalc.examples.read_design)."""
+    return ex.read_design(data)
 
 
 def device_example(name: str) -> dict:

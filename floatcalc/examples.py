@@ -307,6 +307,38 @@ def _check_scenario(raw: dict[str, Any]) -> dict[str, Any]:
     return s
 
 
+def read_design(data: bytes | str) -> tuple[str, dict[str, Any]]:
+    """Read an uploaded design file: ``("device", data)`` or ``("groups", scenario)``.
+
+    A file with ``schema_version`` or ``[[legs]]`` is a :mod:`floatcalc.device` design and is
+    validated by its loader (every problem at once); anything else is a scenario read by
+    :func:`loads_toml`. Size-limited to :data:`MAX_FILE_BYTES`, UTF-8 TOML parsed with
+    :mod:`tomllib` only.
+
+    >>> read_design(dumps_toml(example("robot")))[0]
+    'groups'
+    """
+    import tomllib
+
+    raw = data.encode("utf-8") if isinstance(data, str) else bytes(data)
+    if len(raw) > MAX_FILE_BYTES:
+        raise input_error("design file", f"must be at most {MAX_FILE_BYTES // 1024} kB", f"{len(raw)} bytes")
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError:
+        raise input_error("design file", "must be UTF-8 text (TOML)", "undecodable bytes") from None
+    try:
+        parsed = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise input_error("design file", "is not valid TOML", str(exc).splitlines()[0]) from None
+    if "schema_version" in parsed or "legs" in parsed:
+        from .device.design import design_from_data
+
+        design_from_data(parsed, "design file")
+        return "device", parsed
+    return "groups", _check_scenario(parsed)
+
+
 def _toml_value(v: Any) -> str:
     if isinstance(v, bool):
         return "true" if v else "false"
@@ -353,4 +385,4 @@ def dumps_toml(scenario: dict[str, Any]) -> str:
 
 
 __all__ = ["EXAMPLE_NAMES", "ELEMENT_KINDS", "material_names", "COATINGS", "MAX_FILE_BYTES", "example",
-           "alternatives", "loads_toml", "dumps_toml"]
+           "alternatives", "loads_toml", "dumps_toml", "read_design"]
