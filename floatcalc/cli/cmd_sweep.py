@@ -12,16 +12,18 @@ ORDER = 60
 
 
 def register(sub) -> None:
-    from ..studies.cliargs import add_exec_args, add_rod_args
+    from ..studies.cliargs import add_design_args, add_exec_args, add_rod_args
 
     p = sub.add_parser("sweep", help="vary one or two design inputs; CSV table and plot with the limit marked",
                        description="Evaluate a design over ranges of one or two inputs. Ranges are "
                        "NAME=START:STOP:N (linear) or NAME=START:STOP:N:log, e.g. radius=0.05mm:0.5mm:50:log. "
-                       "Inputs: radius, length, contact_angle, count, material_density, surface_tension, "
-                       "liquid_density, payload_mass.")
+                       "Rod inputs: radius, length, contact_angle, count, material_density, surface_tension, "
+                       "liquid_density, payload_mass. Device inputs (--design/--example): contact_angle_shift, "
+                       "surface_tension, radius_factor, length_factor, body_mass, payload_mass.")
     p.add_argument("--vary", action="append", required=True, metavar="NAME=START:STOP:N[:log]",
                    help="input to vary (give once or twice)")
     add_rod_args(p)
+    add_design_args(p)
     add_liquid_args(p)
     p.add_argument("--output", default=None, help="write the table to FILE.csv (unit-bearing headers) or FILE.json")
     p.add_argument("--save", default=None, help="write the plot to FILE.png, .svg or .pdf")
@@ -32,15 +34,13 @@ def register(sub) -> None:
 
 
 def run(args) -> int:
-    from ..studies.cliargs import checked_path, exec_kwargs, notes, rod_values, save_figure
+    from ..studies.cliargs import checked_path, exec_kwargs, model_from_args, notes, save_figure
     from ..studies.csvio import to_text, write_table
-    from ..studies.models import rod_model
     from ..studies.sweep import sweep
 
     out_path = checked_path(args.output, (".csv", ".json"), "output")
     plot_path = checked_path(args.save, (".png", ".svg", ".pdf"), "save")
-    liq = liquid_from_args(args)
-    model = rod_model(liq, **rod_values(args))
+    model = model_from_args(args, liquid_from_args)
     if len(args.vary) > 2:
         from ..errors import input_error
 

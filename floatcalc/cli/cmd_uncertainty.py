@@ -21,7 +21,7 @@ DEMO = {
 
 
 def register(sub) -> None:
-    from ..studies.cliargs import add_exec_args, add_rod_args
+    from ..studies.cliargs import add_design_args, add_exec_args, add_rod_args
 
     p = sub.add_parser("uncertainty", help="probability of sinking and capacity percentiles from input distributions",
                        description="Sample inputs from distributions and report the probability that the design "
@@ -29,6 +29,7 @@ def register(sub) -> None:
                        "normal:MEAN:SD, uniform:LOW:HIGH, tol:NOMINAL:TOL. Seeded and reproducible on every executor.")
     p.add_argument("--demo", action="store_true", help="run on a built-in invented design (ignores the design options)")
     add_rod_args(p)
+    add_design_args(p)
     p.add_argument("--dist", action="append", default=[], metavar="NAME=SPEC",
                    help="distribution of an input, e.g. contact_angle=normal:150deg:5deg (repeatable)")
     p.add_argument("--contamination", default=None,
@@ -44,22 +45,22 @@ def register(sub) -> None:
 
 def run(args) -> int:
     from ..errors import input_error
-    from ..studies.cliargs import checked_path, exec_kwargs, rod_values, save_figure
-    from ..studies.models import rod_model
+    from ..studies.cliargs import checked_path, exec_kwargs, model_from_args, save_figure
     from ..studies.uncertainty import parse_contamination, parse_distribution, uncertainty
 
     plot_path = checked_path(args.save, (".png", ".svg", ".pdf"), "save")
-    liq = liquid_from_args(args)
     dist_specs, contamination = list(args.dist), args.contamination
     title = "Monte Carlo uncertainty of rod legs (exact 2D rod law)"
     if args.demo:
+        args.design = args.example = None
         for k, val in DEMO["values"].items():
             setattr(args, k, val)
         dist_specs = DEMO["dist"] + dist_specs
         contamination = contamination or DEMO["contamination"]
         title = DEMO["title"]
-    base = rod_values(args)
-    model = rod_model(liq, **base)
+    model = model_from_args(args, liquid_from_args)
+    if model.name != "rod":
+        title = f"Monte Carlo uncertainty of {model.name[8:]}"
     dists = {}
     for spec in dist_specs:
         if "=" not in spec:

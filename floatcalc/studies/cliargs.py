@@ -48,6 +48,45 @@ def _mass(text) -> float:
     return m
 
 
+def add_design_args(p) -> None:
+    g = p.add_argument_group("whole device (instead of the rod options)")
+    g.add_argument("--design", default=None, help="device design file (TOML); see 'floatcalc device --help'")
+    g.add_argument("--example", default=None, help="built-in invented device, e.g. skimmer")
+
+
+def model_from_args(args, liquid_from_args):
+    """The study model the options ask for: a device (design file or example) or rod legs."""
+    from .models import rod_model
+
+    if getattr(args, "design", None) is not None or getattr(args, "example", None) is not None:
+        if args.design is not None and args.example is not None:
+            raise input_error("design", "give either --design or --example, not both", repr(args.design))
+        from .device_model import device_model
+
+        if args.example is not None:
+            from ..device.design import list_examples
+
+            names = [e["name"] for e in list_examples()]
+            if args.example not in names:
+                raise input_error("example", f"must be one of {', '.join(names)}", repr(args.example))
+            m = device_model(args.example)
+        else:
+            m = device_model(args.design)
+        if getattr(args, "payload", None) not in (None, ROD_DEFAULTS["payload"]):
+            m = _with_base(m, payload_mass=_mass(args.payload))
+        if getattr(args, "surface_tension", None) is not None:
+            m = _with_base(m, surface_tension=to_si(args.surface_tension, "surface_tension", "surface_tension"))
+        return m
+    return rod_model(liquid_from_args(args), **rod_values(args))
+
+
+def _with_base(model, **values):
+    from dataclasses import replace
+
+    model.merged(values)  # checks
+    return replace(model, base={**model.base, **values})
+
+
 def add_exec_args(p) -> None:
     g = p.add_argument_group("where to run (results are identical on every executor)")
     g.add_argument("--executor", default="auto", help="auto (default), serial, local (all cores) or dask")

@@ -6,7 +6,8 @@ contaminated surface is modelled as a mixture: with probability p the surface te
 lowered by a uniformly distributed amount. Each sample is one design; the model gives its
 ``margin`` (payload minus the weight of the design payload) and its payload capacity.
 
-Reproducibility: the run is cut into chunks of fixed size (:data:`CHUNK`), chunk i draws from
+Reproducibility: the run is cut into chunks of fixed size (:data:`CHUNK`, or
+:data:`CHUNK_SLOW` for point-by-point models), chunk i draws from
 ``numpy.random.default_rng(SeedSequence(seed).spawn(n_chunks)[i])``, and inputs are drawn in
 a fixed order, so the samples, and therefore every figure, are identical whichever executor
 (serial, local processes, Dask) runs the chunks and in whatever order they finish.
@@ -17,8 +18,8 @@ Estimates and their convergence:
   :math:`\\sqrt{\\hat p(1-\\hat p)/N}`; when no sample sinks, the one-sided 95 % upper bound
   3/N ("rule of three", Hanley & Lippman-Hand 1983) is given instead;
 * percentiles of the payload capacity (:func:`numpy.percentile`, linear interpolation) with
-  a batch-means standard error: the sample is cut into :data:`BATCHES` consecutive batches,
-  the percentile is taken in each, and SE = sd(batch values)/sqrt(batches) (Law & Kelton,
+  a batch-means standard error: the sample is cut into B = min(20, N/50) (at least 2)
+  consecutive batches, the percentile is taken in each, and SE = sd(batch values)/sqrt(B) (Law & Kelton,
   Simulation Modeling and Analysis).
 
 Validity: that of the model at every sample; the model's validity warnings for the base
@@ -47,8 +48,9 @@ from ..units import KINDS, format_si, to_si
 from .executors import run_chunks
 from .models import Model
 
-CHUNK = 2000
-BATCHES = 20
+CHUNK = 2000          # samples per chunk, vectorised models
+CHUNK_SLOW = 25       # samples per chunk, point-by-point models (e.g. whole devices)
+BATCHES = 20          # at most; fewer for small runs so that each batch has ≥ 50 samples
 MAX_SAMPLES = 10_000_000
 MIN_SAMPLES = 100
 PERCENTILES = (1.0, 5.0, 50.0, 95.0, 99.0)
@@ -258,9 +260,10 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     fixed_all = model.merged(dict(values or {}))
     fixed = {k: float(v) for k, v in fixed_all.items() if k not in distributions}
     dists = tuple(sorted(distributions.items()))
-    n_chunks = math.ceil(N / CHUNK)
+    chunk = CHUNK if model.vectorised else CHUNK_SLOW
+    n_chunks = math.ceil(N / chunk)
     children = np.random.SeedSequence(s).spawn(n_chunks)
-    sizes = [min(CHUNK, N - i * CHUNK) for i in range(n_chunks)]
+    sizes = [min(chunk, N - i * chunk) for i in range(n_chunks)]
     tasks = [(model, fixed, dists, contamination, children[i], sizes[i], capacity_output) for i in range(n_chunks)]
     large = N > (LARGE if model.vectorised else LARGE_SLOW)
     from .executors import resolve
@@ -280,9 +283,10 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     se = math.sqrt(p * (1 - p) / N)
     pct = np.asarray(percentiles, dtype=float)
     q = np.percentile(cap, pct)
-    batches = np.array_split(cap, BATCHES)
+    nb = max(2, min(BATCHES, N // 50))
+    batches = np.array_split(cap, nb)
     qb = np.array([np.percentile(b, pct) for b in batches])
-    qse = qb.std(axis=0, ddof=1) / math.sqrt(BATCHES)
+    qse = qb.std(axis=0, ddof=1) / math.sqrt(nb)
     warnings = list(model.warnings(fixed_all))
     if clipped:
         warnings.append(f"{clipped} sampled input value(s) fell outside their allowed range and were clipped to it")
@@ -296,7 +300,7 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
         desc.append(f"contamination: probability {contamination.probability:g}, surface tension lowered by "
                     f"{contamination.drop_low * 1e3:g} to {contamination.drop_high * 1e3:g} mN/m (uniform)")
     return UncertaintyResult(
-        model=model.name, samples=N, seed=s, chunk_size=CHUNK, executor=kind,
+        model=model.name, samples=N, seed=s, chunk_size=chunk, executor=kind,
         design_payload_mass=Q_(float(fixed_all.get("payload_mass", 0.0)), "kg"),
         nominal_payload_capacity=Q_(nominal, "kg"),
         probability_of_sinking=p, probability_standard_error=se,
