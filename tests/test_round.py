@@ -1,0 +1,170 @@
+"""Public API of the round elements: inputs, stages, force-at-depth, independent quadratures."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from scipy.integrate import quad
+
+from floatcalc import InputError, ball, pad, pin, ring, water
+from floatcalc.core import axisym as ax
+from floatcalc.core import round_bodies as rb
+
+
+@pytest.mark.parametrize("call,field", [
+    (lambda: ball("-1 mm", "150 deg"), "radius"),
+    (lambda: ball("1 mm", "190 deg"), "contact_angle"),
+    (lambda: ball("3 kg", "150 deg"), "radius"),
+    (lambda: ball("2 m", "150 deg"), "radius"),
+    (lambda: pad("2 mm", "0 mm", "110 deg"), "thickness"),
+    (lambda: ring("0.3 mm", "0.2 mm", "150 deg"), "ring_radius"),
+    (lambda: pin("0.1 mm", "60 deg", depth="-1 mm"), "depth"),
+    (lambda: pin("0.1 mm", "60 deg", depth="5 mm", length="2 mm"), "depth"),
+    (lambda: ball("1 mm", "150 deg", material_density="0 kg/m^3"), "material_density"),
+])
+def test_bad_input_one_line(call, field):
+    with pytest.raises(InputError) as exc:
+        call()
+    msg = str(exc.value)
+    assert msg.startswith(f"{field}: ") and "\n" not in msg and ", got " in msg
+
+
+def test_ball_pressure_part_against_quadrature():
+    """Cap formula F_p = V_cap + π r_c² d vs direct quadrature of the hydrostatic pressure
+    ρ g (−z) times the vertical normal component over the wetted spherical cap."""
+    R, th = 0.6, math.radians(130)
+    phi = 2.0
+    s = rb.ball_state(np.array([phi]), R, th)
+    zc = -s["d"][0]
+    zcen = zc + R * math.cos(phi)  # centre height: contact at angle φ from the lowest point
+
+    def integrand(a):  # a from the lowest point; dA = 2π (R sin a) R da; n_z(into body) = cos a
+        z = zcen - R * math.cos(a)
+        return (-z) * math.cos(a) * 2 * math.pi * R * math.sin(a) * R
+
+    ref, _ = quad(integrand, 0.0, phi, epsabs=1e-14, epsrel=1e-13)
+    assert s["pressure"][0] == pytest.approx(ref, rel=1e-10)
+
+
+def test_torus_pressure_against_quadrature():
+    Rr, b, D, po, pi_ = 2.0, 0.3, 0.7, 2.2, 1.4
+
+    def integrand(a):
+        z = (b - D) - b * math.cos(a)
+        return (-z) * math.cos(a) * 2 * math.pi * (Rr + b * math.sin(a)) * b
+
+    ref, _ = quad(integrand, -pi_, po, epsabs=1e-14, epsrel=1e-13)
+    assert float(rb.torus_pressure(Rr, b, D, po, pi_)) == pytest.approx(ref, rel=1e-12)
+
+
+def test_pad_stages_and_continuity():
+    r = pad("2 mm", "0.2 mm", "110 deg")
+    stages = np.array(r.curve.stage)
+    assert list(dict.fromkeys(stages)) == list(rb.STAGES)
+    D = r.curve.depth.to("m").magnitude
+    F = r.curve.force.to("N").magnitude
+    assert np.all(np.diff(D) > 0)
+    # continuous across stage changes: jump no larger than the neighbouring step
+    for k in np.flatnonzero(stages[1:] != stages[:-1]):
+        assert abs(F[k + 1] - F[k]) < 3 * max(abs(F[k] - F[k - 1]), abs(F[k + 2] - F[k + 1]))
+    # on the side the surface-tension part is constant (ψ = θ − 90°): Wilhelmy-type pull
+    side = stages == rb.STAGES[1]
+    w = water()
+    st_side = r.curve.surface_tension.to("N").magnitude[side]
+    assert np.allclose(st_side, 2 * math.pi * 2e-3 * w.sigma * math.sin(math.radians(20)), rtol=1e-12)
+    assert r.stage_at_max == rb.STAGES[2]
+
+
+def test_wetting_thin_pad_starts_pinned_at_top():
+    """θ < 90° and a pad thinner than the raised meniscus: the line is at the top edge at once."""
+    r = pad("2 mm", "0.05 mm", "60 deg")
+    assert r.curve.stage[0] == rb.STAGES[2]
+    assert rb.STAGES[0] not in r.curve.stage
+
+
+def test_force_at_depth_interpolant():
+    r = ball("1 mm", "150 deg")
+    D = r.curve.depth.to("m").magnitude
+    F = r.curve.force.to("N").magnitude
+    mid = 0.5 * (D[10:-1] + D[11:])
+    got = r.curve.force_at_depth(mid).to("N").magnitude
+    # exact states at those depths, by root-finding φ on the exact curve (independent of the
+    # interpolant): depth(φ) is monotone on the branch
+    R, th, lc, s = 1e-3 / water().lc, math.radians(150), water().lc, water().sigma
+    from scipy.optimize import brentq
+
+    def depth_phi(p):
+        return float(rb.ball_state(np.array([p]), R, th)["depth"][0])
+
+    exact = []
+    cur = rb.ball_curve(R, th)
+    for d in mid[:: 20]:
+        k = int(np.searchsorted(cur["depth"], d / lc))
+        p = brentq(lambda x: depth_phi(x) - d / lc, cur["phi"][k - 1], cur["phi"][k], xtol=1e-14)
+        exact.append(float(rb.ball_state(np.array([p]), R, th)["force"][0]) * s * lc)
+    assert np.allclose(got[:: 20], exact, rtol=1e-4)
+    assert r.curve.force_at_depth([-1e-3]).magnitude[0] == 0.0
+    with pytest.raises(InputError):
+        r.curve.force_at_depth([D[-1] * 1.5])
+    assert np.allclose(r.curve.force_at_depth(D).to("N").magnitude, F, rtol=1e-12)
+
+
+def test_pin_tip_pinning_and_side():
+    """A non-wetting pin touching at a shallow depth pins at the tip edge: its meniscus height is
+    minus the tip depth; deeper, the line sits on the side with ψ = θ − 90°."""
+    shallow = pin("0.2 mm", "120 deg", depth="0.02 mm")
+    assert shallow.stage == rb.STAGES[0]
+    assert shallow.meniscus_height.to("m").magnitude == pytest.approx(-2e-5, rel=1e-9)
+    deep = pin("0.2 mm", "120 deg", depth="2 mm", length="10 mm")
+    assert deep.stage == rb.STAGES[1]
+    assert deep.contact_inclination.magnitude == pytest.approx(30.0)
+    w = water()
+    assert deep.pressure_part.to("N").magnitude == pytest.approx(w.rho * w.g * math.pi * 4e-8 * 2e-3, rel=1e-12)
+    assert deep.payload.magnitude == pytest.approx((deep.vertical_force - deep.own_weight).magnitude)
+
+
+def test_results_carry_cautions_and_json_keys():
+    w = water("70 degC")
+    r = ball("1 mm", "120 deg", liquid=w)
+    assert any("clean" in c for c in r.cautions) and any("Hot" in c for c in r.cautions)
+    d = r.to_dict()
+    for key in ("max_force_N", "depth_at_max_m", "payload_N", "bond_number", "warnings"):
+        assert key in d
+    p = pin("0.1 mm", "60 deg").to_dict()
+    assert p["meniscus_height_m"] > 0 and p["vertical_force_N"] < 0
+
+
+@pytest.mark.slow
+def test_ring_both_sides_share_depth():
+    """The inner and outer contact positions must give the same lowest-point depth (checked by
+    re-solving the inner meniscus at the returned contact position)."""
+    Rr, b, th = 2.0, 0.08, math.radians(140)
+    best, cur = rb.ring_limit(Rr, b, th)
+    rci = Rr - b * math.sin(best["phi_inner"])
+    d_in = -float(ax.solve(rci, best["psi_inner"], side="inner")["height"])
+    assert d_in + b * (1 - math.cos(best["phi_inner"])) == pytest.approx(best["depth"], abs=1e-7)
+    rco = Rr + b * math.sin(best["phi_outer"])
+    d_out = -float(ax.contact_height_direct(rco, best["psi_outer"]))
+    assert d_out + b * (1 - math.cos(best["phi_outer"])) == pytest.approx(best["depth"], abs=1e-7)
+
+
+@settings(max_examples=60, deadline=None)  # 60, not 200: each example runs two full ball limits
+@given(R=st.floats(0.01, 3.0), th=st.floats(95.0, 175.0))
+def test_ball_limit_monotone_in_contact_angle(R, th):
+    """A more non-wetting ball carries more (the force at every φ rises with θ at fixed r_c)."""
+    lo, _ = rb.ball_limit(R, math.radians(th))
+    hi, _ = rb.ball_limit(R, math.radians(th + 3.0))
+    assert hi["force"] > lo["force"]
+
+
+@settings(max_examples=60, deadline=None)  # 60, not 200: each example runs two pad limits
+@given(a=st.floats(0.05, 5.0), t=st.floats(0.01, 1.0), th=st.floats(95.0, 170.0))
+def test_pad_limit_grows_with_thickness(a, t, th):
+    """A thicker pad pins its top edge deeper, so its limit is larger."""
+    lo, _ = rb.pad_limit(a, t, math.radians(th))
+    hi, _ = rb.pad_limit(a, t * 1.2, math.radians(th))
+    assert hi["force"] > lo["force"]
