@@ -58,11 +58,12 @@ def run(args) -> int:
     comments = [f"floatcalc sweep of model '{res.model}' (static estimate, clean liquid)",
                 *[f"reference: {r}" for r in res.references],
                 *[f"warning: {w}" for w in res.warnings], *[f"caution: {c}" for c in res.cautions]]
-    if len(res.axes) == 1 and res.axes[0].kind != "count":
+    if len(res.axes) == 1:
         a = res.axes[0]
-        from ..units import format_si
+        from ..units import KINDS, format_si
 
-        shown = ", ".join(format_si(c, a.kind, a.unit) for c in res.crossings) or "none in range"
+        fmt = (lambda c: format_si(c, a.kind, a.unit)) if a.kind in KINDS else (lambda c: f"{c:.4g}")
+        shown = ", ".join(fmt(c) for c in res.crossings) or "none in range"
         comments.append(f"limit ({res.limit_output} = 0) at {a.name} = {shown}")
     if out_path is not None:
         if out_path.suffix.lower() == ".json":

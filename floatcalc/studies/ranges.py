@@ -29,7 +29,7 @@ class Axis:
 
     def shown(self) -> np.ndarray:
         """Values in the display unit."""
-        if self.kind == "count" or not self.unit:
+        if self.kind in ("count", "ratio") or not self.unit:
             return np.asarray(self.values, dtype=float)
         return np.asarray(Q_(self.values, KINDS[self.kind][1]).to(self.unit).magnitude, dtype=float)
 
@@ -66,12 +66,15 @@ def parse_axis(text: str, inputs: dict[str, tuple[str, str]], field: str = "vary
     if not 2 <= n <= MAX_POINTS:
         raise input_error(field, f"number of points must be a whole number 2 to {MAX_POINTS}", n)
     kind, unit = inputs[name]
-    if kind == "count":
+    if kind in ("count", "ratio"):
+        what = "whole numbers" if kind == "count" else "plain numbers"
         try:
             a, b = float(parts[0]), float(parts[1])
         except ValueError:
-            raise input_error(f"{field} {name}", "start and stop must be whole numbers", repr(spec)) from None
-        if not (np.isfinite(a) and np.isfinite(b)) or min(a, b) < 1 or max(a, b) > 10000:
+            raise input_error(f"{field} {name}", f"start and stop must be {what}", repr(spec)) from None
+        if not (np.isfinite(a) and np.isfinite(b)):
+            raise input_error(f"{field} {name}", f"start and stop must be finite {what}", repr(spec))
+        if kind == "count" and (min(a, b) < 1 or max(a, b) > 10000):
             raise input_error(f"{field} {name}", "start and stop must be whole numbers 1 to 10000", repr(spec))
     else:
         a = to_si(parts[0], kind, f"{field} {name} start")

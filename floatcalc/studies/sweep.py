@@ -165,6 +165,9 @@ def _crossings(axis: Axis, y: np.ndarray) -> list[float]:
     x = np.log(axis.values) if axis.log else axis.values
     out = []
     s = np.sign(y)
+    if axis.kind == "count":  # whole numbers: the first count on the carrying side of each change
+        return sorted(float(axis.values[i + 1] if y[i] < 0 else axis.values[i])
+                      for i in np.flatnonzero(s[:-1] * s[1:] < 0))
     for i in np.flatnonzero(s[:-1] * s[1:] < 0):
         t = y[i] / (y[i] - y[i + 1])
         xc = x[i] + t * (x[i + 1] - x[i])

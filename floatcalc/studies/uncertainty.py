@@ -100,7 +100,7 @@ def parse_distribution(text: str, kind: str, field: str) -> Distribution:
     if not isinstance(text, str):
         raise input_error(field, "must be a text such as normal:150deg:5deg", repr(text))
     parts = [p.strip() for p in text.split(":")]
-    conv = (lambda s, what: _count(s, f"{field} {what}")) if kind == "count" else \
+    conv = (lambda s, what: _count(s, f"{field} {what}")) if kind in ("count", "ratio") else \
         (lambda s, what: to_si(s, kind, f"{field} {what}"))
     if len(parts) == 1:
         return Distribution("fixed", conv(parts[0], "value"))
