@@ -43,6 +43,9 @@ _EXPORTS = {
     "solve_device": "device", "Device": "device", "DeviceResult": "device", "load_design": "device",
     "save_design": "device", "device_example": "device", "list_device_examples": "device",
     "parallel_rods": "device", "ParallelRodsResult": "device",
+    # design studies: sweeps, optimiser, Monte Carlo uncertainty, calibration fits
+    "sweep": "studies.sweep", "optimise_rods": "studies.optimise", "uncertainty": "studies.uncertainty",
+    "fit_rod": "studies.fit", "rod_model": "studies.models", "device_model": "studies.device_model",
 }
 
 __all__ = sorted(_EXPORTS) + ["__version__"]
