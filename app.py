@@ -314,12 +314,12 @@ def results_panel(a: rp.Assessment) -> None:
         f"**{a.verdict.upper()}**: margin {a.margin:.3g} against safety factor {a.safety_factor:g}"
         + (f"; short by {a.shortfall.to('mN').magnitude:.3g} mN of limit force" if a.shortfall is not None else ""))
     c1, c2, c3, c4 = st.columns(4)
-    c1.metric("Limit force, all elements", f"{a.limit_force.to('mN').magnitude:.3g} mN")
+    c1.metric("Limit force", f"{a.limit_force.to('mN').magnitude:.3g} mN")
     c2.metric("Weight carried", f"{a.total_load.to('mN').magnitude:.3g} mN",
               help="body + payload + the elements' own weight")
     c3.metric("Margin", f"{a.margin:.3g}", help=rp.VERDICT_RULE)
     spare_g = a.spare_payload.to("N").magnitude / a.liquid.g * 1e3
-    c4.metric("Payload still allowed", f"{spare_g:.3g} g", help="extra payload before the margin falls to the safety factor")
+    c4.metric("Payload left", f"{spare_g:.3g} g", help="extra payload before the margin falls to the safety factor")
     rows = []
     for i, o in enumerate(a.elements, 1):
         r = o.result
@@ -436,14 +436,14 @@ def device_results_panel(a: rp.DeviceAssessment) -> None:
         f"**{a.verdict.upper()}**: margin {a.margin:.3g} against safety factor {a.safety_factor:g}"
         + (f"; short by {a.shortfall.to('mN').magnitude:.3g} mN of capacity" if a.shortfall is not None else ""))
     c1, c2, c3, c4 = st.columns(4)
-    c1.metric("Capacity (weight it can carry)", f"{a.limit_force.to('mN').magnitude:.3g} mN",
-              help="own weight + largest payload at the centre of mass (device equilibrium)")
+    c1.metric("Capacity", f"{a.limit_force.to('mN').magnitude:.3g} mN",
+              help="weight it can carry: own weight + largest payload at the centre of mass (device equilibrium)")
     c2.metric("Weight carried", f"{a.total_load.to('mN').magnitude:.3g} mN", help="body + legs + payload")
     c3.metric("Margin", f"{a.margin:.3g}", help=rp.VERDICT_RULE)
     spare_g = a.spare_payload.to("N").magnitude / a.liquid.g * 1e3
-    c4.metric("Payload still allowed", f"{spare_g:.3g} g", help="extra payload before the margin falls to the safety factor")
+    c4.metric("Payload left", f"{spare_g:.3g} g", help="extra payload before the margin falls to the safety factor")
     st.markdown(f"First element to give way: **{r.first_to_fail}**. Equilibrium: heave "
-                f"{r.heave.to('mm').magnitude:.3g} mm, pitch {r.pitch.magnitude:.2g}°, roll {r.roll.magnitude:.2g}°.")
+                f"{r.heave.to('mm').magnitude:.3g} mm, pitch {r.pitch.magnitude:.2f}°, roll {r.roll.magnitude:.2f}°.")
     rows = [{"element": e.name, "kind": e.kind, "force [mN]": f"{e.force.to('mN').magnitude:.4g}",
              "share of load [%]": f"{100 * e.share:.1f}", "depth [mm]": f"{e.depth.to('mm').magnitude:.3g}",
              "limit force [mN]": f"{e.limit_force.to('mN').magnitude:.4g}",
