@@ -82,3 +82,18 @@ def test_cli_writes_csv_and_plot(tmp_path, capsys):
     assert t.units["radius"] == "mm" and t.units["margin"] == "mN"
     assert png.read_bytes()[:4] == b"\x89PNG"
     assert any("caution" in c for c in t.comments)
+
+
+def test_device_model_matches_solve_device_and_sweeps():
+    # The study model of a whole device calls the same capacity search as solve_device; its
+    # nominal capacity must be the one solve_device reports for the built-in invented skimmer.
+    from floatcalc.device import example, solve_device
+    from floatcalc.studies.device_model import device_model
+
+    m = device_model("skimmer")
+    ref = solve_device(example("skimmer")).max_payload.to("N").magnitude
+    assert float(m.evaluate({})["max_payload"]) == pytest.approx(ref, rel=1e-9)
+    # Water-repellent legs carry more as the advancing angle rises (Vella, Lee & Kim 2006, fig. of
+    # limit force against contact angle): capacity increasing along a contact-angle-shift sweep.
+    s = sweep(m, ["contact_angle_shift=-20deg:20deg:3"], executor="serial")
+    assert np.all(np.diff(s.outputs["max_payload"]) > 0)
