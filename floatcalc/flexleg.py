@@ -307,6 +307,9 @@ def flexible_leg(radius: Any, length: Any, contact_angle: Any, *, youngs_modulus
     if max_slope > SLOPE_LIMIT_DEG:
         warnings.append(f"wetted part slopes up to {max_slope:.3g}° (> {SLOPE_LIMIT_DEG:g}°): the local "
                         "2D rod law assumes a nearly flat leg")
+    if sol.get("snaps"):
+        warnings.append("on the way to the limit the leg snapped to a new shape (a part, usually the tip, "
+                        "pulled off the surface): the load path has a jump before the limit")
     if np.any(y < fd.d0):
         warnings.append("part of the leg is out of the liquid at the limit: near where it leaves the "
                         "surface (about a capillary length) the 2D law does not hold; expect a few "

@@ -375,6 +375,7 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
     steps = 1
     hist = [(Dc, g, sol["U"])]
     step_cap = 0.25 * span
+    snaps = 0
     while g < 0.0:
         if steps >= max_steps:
             raise ConvergenceError("flexible-leg limit search took too many continuation steps")
@@ -393,8 +394,25 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
             sol = solve(L, B, alpha, Dc + dD, foundation, n=n, th0=th0, end=end, guess=guess)
         except ConvergenceError:
             step_cap = 0.5 * min(step_cap, dD)
-            if step_cap < 1e-6 * span:
+            if step_cap >= 1e-3 * span:
+                continue
+            # No neighbouring equilibrium: the branch folds (typically the tip snapping off the
+            # surface where the adhesive pull of the rod law fades). Jump ahead onto the
+            # branch that continues, starting from a nearly rigid leg.
+            for jump in (0.005, 0.02, 0.05):
+                try:
+                    sol = _solve_from_stiff(L, B, alpha, Dc + jump * span, foundation, n=n, th0=th0, end=end)
+                    break
+                except ConvergenceError:
+                    continue
+            else:
                 raise
+            snaps += 1
+            Dc += jump * span
+            g = max_depth(sol["y"]) - d_lim
+            hist = [(Dc, g, sol["U"])]
+            step_cap = 0.05 * span
+            steps += 1
             continue
         step_cap = min(2.0 * step_cap, 0.25 * span)
         steps += 1
@@ -402,7 +420,9 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
         g = max_depth(sol["y"]) - d_lim
         hist.append((Dc, g, sol["U"]))
     if g == 0.0 or len(hist) < 2:
-        sol.update(clamp_depth=Dc, steps=steps)
+        if g > 1e-6:  # landed beyond the limit right after a jump: step back along the new branch
+            sol = _back_to_limit(L, B, alpha, foundation, n, th0, end, Dc, sol, tol)
+        sol.update(clamp_depth=float(sol["y"][0]), steps=steps, snaps=snaps)
         return sol
     # Bracket with g(a) < 0 <= g(b); Illinois variant of regula falsi.
     a, ga, Ua = hist[-2]
@@ -413,7 +433,10 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
             break
         c = b - gb * (b - a) / (gb - ga)
         w = (c - a) / (b - a)
-        best = solve(L, B, alpha, c, foundation, n=n, th0=th0, end=end, guess=Ua + w * (Ub - Ua))
+        try:
+            best = solve(L, B, alpha, c, foundation, n=n, th0=th0, end=end, guess=Ua + w * (Ub - Ua))
+        except ConvergenceError:
+            best = _solve_from_stiff(L, B, alpha, c, foundation, n=n, th0=th0, end=end)
         steps += 1
         gc = max_depth(best["y"]) - d_lim
         if gc * gb < 0.0:
@@ -423,8 +446,29 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
         b, gb, Ub = c, gc, best["U"]
     else:  # pragma: no cover - regula falsi with the Illinois fix converges superlinearly
         raise ConvergenceError("flexible-leg limit search did not converge")
-    best.update(clamp_depth=float(best["y"][0]), steps=steps)
+    best.update(clamp_depth=float(best["y"][0]), steps=steps, snaps=snaps)
     return best
+
+
+def _back_to_limit(L, B, alpha, foundation, n, th0, end, Dc, sol, tol):
+    """From a state beyond the limit, walk the clamp back until the deepest point is at D_lim."""
+    d_lim = foundation.d_lim
+    b, gb, Ub = Dc, max_depth(sol["y"]) - d_lim, sol["U"]
+    for _ in range(80):
+        c = b - max(gb, 1e-4)
+        s_c = solve(L, B, alpha, c, foundation, n=n, th0=th0, end=end, guess=Ub)
+        gc = max_depth(s_c["y"]) - d_lim
+        if abs(gc) < tol:
+            return s_c
+        b, gb, Ub = c, gc, s_c["U"]
+        if gc < 0:  # overshot: secant once more towards the crossing from this side
+            b = c + (-gc) * 0.99
+            s_b = solve(L, B, alpha, b, foundation, n=n, th0=th0, end=end, guess=Ub)
+            gb = max_depth(s_b["y"]) - d_lim
+            Ub = s_b["U"]
+            if abs(gb) < 1e-6:
+                return s_b
+    raise ConvergenceError("flexible-leg limit search could not return to the limit after a snap")
 
 
 def rigid_limit(L: float, foundation: Foundation, th0, n_quad: int = 4001):

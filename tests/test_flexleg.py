@@ -1,0 +1,119 @@
+"""Public flexible-leg API (floatcalc.flexleg): invariants, inputs, CLI.
+
+Published and cross-method checks are in tests/reference/test_flexleg_reference.py and
+tests/test_beam.py; here: Hypothesis invariants, bad input, JSON keys and exit codes.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given, settings, strategies as st
+
+from floatcalc.cli import main
+from floatcalc.errors import InputError
+from floatcalc.flexleg import flexible_leg, flexible_leg_curve
+
+
+@pytest.mark.slow
+@settings(max_examples=60, deadline=None)  # fewer than 200: each example solves two limit
+@given(                                    # searches (two nonlinear BVP continuations)
+    radius_mm=st.floats(0.05, 0.25),
+    length_mm=st.floats(10.0, 60.0),
+    theta_deg=st.floats(100.0, 180.0),
+    log_e=st.floats(9.0, 11.9),
+    factor=st.floats(1.5, 100.0),
+)
+def test_stiffer_leg_carries_more_and_never_beats_rigid(radius_mm, length_mm, theta_deg, log_e, factor):
+    # Physical expectation (horizontal clamp): a stiffer leg stays flatter, so more of it works
+    # near the limit depth; the rigid leg, all of it at the limit depth, bounds it. Same grid
+    # for both stiffnesses so that only E changes.
+    common = dict(contact_angle=f"{theta_deg} deg", material_density=7850.0, length_points=0, nodes=240)
+    soft = flexible_leg(radius_mm * 1e-3, length_mm * 1e-3, youngs_modulus=10**log_e, **common)
+    stiff = flexible_leg(radius_mm * 1e-3, length_mm * 1e-3, youngs_modulus=min(10**log_e * factor, 1.2e12),
+                         **common)
+    p_soft, p_stiff = soft.payload.magnitude, stiff.payload.magnitude
+    rigid = stiff.rigid_payload.magnitude
+    assert math.isfinite(p_soft) and math.isfinite(p_stiff)
+    assert p_soft <= p_stiff * (1 + 1e-9)
+    assert p_stiff <= rigid * (1 + 1e-9)
+    assert 0.0 < soft.flexible_to_rigid <= 1.0 + 1e-9
+
+
+def test_result_fields_and_shape_are_consistent():
+    r = flexible_leg("0.1 mm", "40 mm", "150 deg", material="nylon")
+    d = r.to_dict()
+    for key in ("max_force_N", "payload_N", "own_weight_N", "depth_at_max_m", "tip_depth_m",
+                "wetted_length_m", "rigid_max_force_N", "winkler_length_m", "saturation_length_m",
+                "contact_position_at_max_deg", "receding_max_force_N"):
+        assert key in d
+    # payload = liquid force − own weight, by definition of the support at the clamp
+    assert d["payload_N"] == pytest.approx(d["max_force_N"] - d["own_weight_N"], rel=1e-4)
+    depth = r.shape["depth_m"]
+    assert np.max(depth) == pytest.approx(d["depth_at_max_m"], rel=1e-6)
+    assert depth[-1] == pytest.approx(d["tip_depth_m"])
+    assert d["wetted_length_m"] <= d["length_m"] + 1e-12
+    assert r.cautions and "surface tension" in r.cautions[0]
+    assert len(r.length_curve.length) == 12
+
+
+def test_flexible_nylon_leg_saturates_and_warns():
+    # A soft nylon leg much longer than its Winkler length: the far part floats, the tip rises.
+    r = flexible_leg("0.1 mm", "60 mm", "150 deg", material="nylon")
+    assert r.tip_depth < r.clamp_depth_at_max
+    assert r.flexible_to_rigid < 0.5
+    assert r.saturation_length < r.length
+
+
+def test_toe_and_clamp_angle_accepted():
+    r = flexible_leg("0.1 mm", "30 mm", "150 deg", material="tungsten", clamp_angle="5 deg",
+                     toe_angle="20 deg", length_points=0)
+    assert r.toe_angle.magnitude == pytest.approx(20.0)
+    assert r.shape["slope_deg"][-1] < r.shape["slope_deg"][0]
+
+
+def test_curve_rises_to_the_limit():
+    c = flexible_leg_curve("0.1 mm", "30 mm", "150 deg", material="steel", points=8)
+    r = flexible_leg("0.1 mm", "30 mm", "150 deg", material="steel", length_points=0)
+    assert np.all(np.diff(c.force.magnitude) > 0)
+    assert c.payload.magnitude[-1] == pytest.approx(r.payload.magnitude, rel=1e-6)
+
+
+@pytest.mark.parametrize("kwargs, field", [
+    (dict(), "youngs_modulus"),
+    (dict(material="unobtainium"), "material"),
+    (dict(youngs_modulus="-3 GPa"), "youngs_modulus"),
+    (dict(youngs_modulus="3 kg"), "youngs_modulus"),
+    (dict(material="steel", clamp_angle="50 deg"), "clamp_angle"),
+    (dict(material="steel", toe_angle="-5 deg"), "toe_angle"),
+    (dict(material="steel", toe_length="80 mm"), "toe_length"),
+])
+def test_bad_input_is_one_line_input_error(kwargs, field):
+    with pytest.raises(InputError) as exc:
+        flexible_leg("0.1 mm", "30 mm", "150 deg", length_points=0, **kwargs)
+    msg = str(exc.value)
+    assert msg.startswith(f"{field}:") and "\n" not in msg and ", got " in msg
+
+
+def test_too_heavy_leg_is_refused():
+    with pytest.raises(InputError, match="too heavy to float"):
+        flexible_leg("3 mm", "30 mm", "150 deg", material="tungsten", length_points=0)
+
+
+def test_cli_flexible_json_and_errors(capsys):
+    assert main(["leg", "--radius", "0.1mm", "--length", "30mm", "--contact-angle", "150deg",
+                 "--material", "steel", "--clamp-angle", "5deg", "--json"]) == 0
+    d = json.loads(capsys.readouterr().out)
+    for key in ("max_force_N", "payload_N", "tip_depth_m", "wetted_length_m", "rigid_max_force_N"):
+        assert math.isfinite(d[key])
+    assert main(["leg", "--radius", "0.1mm", "--length", "30mm", "--contact-angle", "150deg",
+                 "--material", "stel"]) == 2
+    err = capsys.readouterr().err
+    assert "did you mean 'steel'" in err and err.count("\n") == 1
+    assert main(["leg", "--radius", "0.1mm", "--length", "30mm", "--contact-angle", "150deg",
+                 "--youngs-modulus", "200GPa"]) == 0
+    out = capsys.readouterr().out
+    assert "Winkler length" in out and "clean liquid surface" in out
