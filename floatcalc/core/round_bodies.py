@@ -267,10 +267,12 @@ def torus_pressure(Rr, b, D, phi_o, phi_i):
 RING_STEPS = 300  # inner-meniscus RK4 steps (Richardson-extrapolated: ~1e-8 relative depth)
 
 
-def _inner_depth(Rr, b, theta, phi_i, tight=True):
+def _inner_depth(Rr, b, theta, phi_i, tight=True, start=None, full=False):
     rci = Rr - b * np.sin(phi_i)
     psi = phi_i + theta - PI
-    out = axisym.solve(rci, psi, side="inner", tight=tight, steps=RING_STEPS)
+    out = axisym.solve(rci, psi, side="inner", tight=tight, steps=RING_STEPS, warm_start=start)
+    if full:
+        return -out["height"], out["volume"], out["start"]
     return -out["height"], out["volume"]
 
 
@@ -304,8 +306,9 @@ def _ring_states(Rr, b, theta, phi_o, inv):
     D = d_o + b * (1.0 - np.cos(phi_o))
     dinv = inv.derivative()
     x = np.clip(inv(D), 0.0, PI)
+    start = None
     for _ in range(4):
-        d_i, vol_i = _inner_depth(Rr, b, theta, x)
+        d_i, vol_i, start = _inner_depth(Rr, b, theta, x, start=start, full=True)
         Di = d_i + b * (1 - np.cos(x))
         g = Di - D
         if np.all(np.abs(g) < 1e-10):
