@@ -131,3 +131,17 @@ def test_cli_demo_json_and_plot(tmp_path, capsys):
     assert lo < 112.0 < hi
     assert "INVENTED" in demo_path().read_text().splitlines()[0]
     assert png.read_bytes()[:4] == b"\x89PNG"
+
+
+def test_same_fit_whatever_the_units_in_the_csv(tmp_path):
+    # The same data written in mm/mN and in µm/µN must give the same angle (units are converted
+    # once at the boundary; 1 mm = 1000 µm, 1 mN = 1000 µN by definition).
+    from floatcalc.studies.fit import fit_rod_csv
+
+    D, F, _ = _data(118.0, water(), 0.03e-3, 4, n=20)
+    a, b = tmp_path / "a.csv", tmp_path / "b.csv"
+    a.write_text("depth [mm],force [mN]\n" + "".join(f"{d * 1e3:.9g},{f * 1e3:.9g}\n" for d, f in zip(D, F)))
+    b.write_text("force [µN],depth [um]\n" + "".join(f"{f * 1e6:.9g},{d * 1e6:.9g}\n" for d, f in zip(D, F)))
+    ra = fit_rod_csv(a, radius=R, length=L)
+    rb = fit_rod_csv(b, radius=R, length=L)
+    assert ra.contact_angle.magnitude == pytest.approx(rb.contact_angle.magnitude, rel=1e-9)

@@ -97,3 +97,25 @@ def test_device_model_matches_solve_device_and_sweeps():
     # limit force against contact angle): capacity increasing along a contact-angle-shift sweep.
     s = sweep(m, ["contact_angle_shift=-20deg:20deg:3"], executor="serial")
     assert np.all(np.diff(s.outputs["max_payload"]) > 0)
+
+
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+
+@settings(max_examples=200, deadline=None)
+@given(a=st.floats(0.01, 5.0), b=st.floats(0.01, 5.0), n=st.integers(2, 300), log=st.booleans())
+def test_ranges_hit_their_ends_and_are_monotone(a, b, n, log):
+    # Invariant of any range: n points, exact end points (to rounding), strictly monotone,
+    # and for log spacing a constant ratio between neighbours.
+    if abs(a - b) < 1e-6:
+        return
+    ax = parse_axis(f"radius={a}mm:{b}mm:{n}{':log' if log else ''}", rod_model().axis_catalogue())
+    v = ax.values
+    assert v.size == n
+    assert v[0] == pytest.approx(a * 1e-3, rel=1e-12) and v[-1] == pytest.approx(b * 1e-3, rel=1e-12)
+    d = np.diff(v)
+    assert np.all(d > 0) if b > a else np.all(d < 0)
+    if log:
+        r = v[1:] / v[:-1]
+        assert np.allclose(r, r[0], rtol=1e-9)
