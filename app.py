@@ -79,7 +79,8 @@ def figure_png(kind: str, key: str, group: int = 0, others: str = "") -> bytes:
         o = a.elements[group]
         fig = Figure(figsize=(8.0, 4.2))
         fig.subplots_adjust(left=0.1, right=0.98, bottom=0.13, top=0.92)
-        plotting.force_depth(o.result, ax=fig.add_subplot(), load=o.load_share, operating_depth=o.operating_depth)
+        plotting.force_depth(o.result, ax=fig.add_subplot(), load=o.load_share / o.per_element,
+                             operating_depth=o.operating_depth)
     elif kind == "compare":
         items = [(name, assess_any(k)) for name, k in json.loads(others)]
         fig = Figure(figsize=(8.0, 4.2))
@@ -268,8 +269,64 @@ def rod_panel(i: int, spec: dict, errors: dict, with_count: bool = True) -> dict
     return e
 
 
-#: Element kind -> panel function (i, spec, errors) -> element inputs.
-PANELS = {"rod": rod_panel}
+def round_panel(kind: str):
+    """Panel factory for a round element kind (ball foot or flat pad)."""
+
+    def panel(i: int, spec: dict, errors: dict) -> dict:
+        e = {"kind": kind}
+        c1, c2, c3 = st.columns(3)
+        with c1:
+            e["radius"] = st.text_input("Ball radius" if kind == "ball" else "Pad radius",
+                                        spec.get("radius", "1 mm"), key=k(f"rad{i}"), help="e.g. 1 mm")
+            field_error(st, "radius", e["radius"], errors)
+            if kind == "pad":
+                e["thickness"] = st.text_input("Pad thickness", spec.get("thickness", "0.5 mm"), key=k(f"thk{i}"))
+                field_error(st, "thickness", e["thickness"], errors)
+        with c2:
+            e["count"] = int(st.number_input("Number of elements", min_value=1, max_value=1000, step=1,
+                                             value=int(spec.get("count", 1)), key=k(f"cnt{i}")))
+            mats = ex.material_names() + ["other (enter density)"]
+            m = spec.get("material", "steel")
+            choice = st.selectbox("Material", mats, index=mats.index(m) if m in mats else len(mats) - 1,
+                                  key=k(f"mat{i}"))
+            if choice == mats[-1]:
+                e["material"] = st.text_input("Material density", m if m not in mats else "1200 kg/m^3",
+                                              key=k(f"dens{i}"))
+                field_error(st, "material", e["material"], errors)
+            else:
+                e["material"] = choice
+        with c3:
+            coats = list(ex.COATINGS)
+            cdef = spec.get("coating", "custom")
+            e["coating"] = st.selectbox("Coating", coats, index=coats.index(cdef) if cdef in coats else len(coats) - 1,
+                                        key=k(f"coat{i}"), on_change=_coating_changed, args=(i,))
+            e["advancing_angle"] = st.text_input("Advancing contact angle", spec.get("advancing_angle", "110 deg"),
+                                                 key=k(f"adv{i}"))
+            field_error(st, "advancing_angle", e["advancing_angle"], errors)
+            e["receding_angle"] = st.text_input("Receding contact angle (optional)", spec.get("receding_angle", ""),
+                                                key=k(f"rec{i}"))
+            if e["receding_angle"].strip():
+                field_error(st, "receding_angle", e["receding_angle"], errors)
+            else:
+                e.pop("receding_angle")
+        st.caption("Round elements are treated as far apart (no shared meniscus); forces are for all of them.")
+        return e
+
+    return panel
+
+
+#: Element kind -> panel function (i, spec, errors) -> element inputs. A new kind needs a panel
+#: here, an entry in floatcalc.examples.ELEMENT_KINDS and a branch in report.evaluate_element.
+PANELS = {"rod": rod_panel, "ball": round_panel("ball"), "pad": round_panel("pad")}
+
+NEW_GROUP = {
+    "rod": {"kind": "rod", "radius": "0.2 mm", "length": "30 mm", "count": 2, "material": "steel",
+            "coating": "PTFE film", "advancing_angle": "115 deg", "receding_angle": "95 deg"},
+    "ball": {"kind": "ball", "radius": "1 mm", "count": 4, "material": "nylon", "coating": "superhydrophobic spray",
+             "advancing_angle": "160 deg", "receding_angle": "150 deg"},
+    "pad": {"kind": "pad", "radius": "2 mm", "thickness": "0.3 mm", "count": 4, "material": "pet",
+            "coating": "paraffin wax", "advancing_angle": "110 deg", "receding_angle": "95 deg"},
+}
 
 
 def load_panel(spec: dict, errors: dict) -> dict:
@@ -291,8 +348,8 @@ def load_panel(spec: dict, errors: dict) -> dict:
 def _add_group() -> None:
     ss = st.session_state
     cur = dict(ss.get("current", ss.base))
-    cur["elements"] = [*cur["elements"], dict(ss.base["elements"][0]) if ss.base.get("elements") else
-                       {"kind": "rod", "radius": "0.2 mm", "length": "30 mm", "count": 1}]
+    kind = ss.get("new_kind", "rod")
+    cur["elements"] = [*cur["elements"], dict(NEW_GROUP.get(kind, NEW_GROUP["rod"]))]
     cur["alternatives"] = ss.base.get("alternatives", [])
     compare = ss.compare
     _load(cur)
@@ -326,8 +383,8 @@ def results_panel(a: rp.Assessment) -> None:
         od = "sinks" if o.operating_depth is None else f"{o.operating_depth.to('mm').magnitude:.3g}"
         rows.append({"group": i, "elements": o.label,
                      "limit force [mN]": f"{o.max_force.to('mN').magnitude:.4g}",
-                     "surface-tension part [mN]": f"{r.surface_tension_part.to('mN').magnitude:.4g}",
-                     "pressure part [mN]": f"{r.pressure_part.to('mN').magnitude:.4g}",
+                     "surface-tension part [mN]": f"{o.per_element * r.surface_tension_part.to('mN').magnitude:.4g}",
+                     "pressure part [mN]": f"{o.per_element * r.pressure_part.to('mN').magnitude:.4g}",
                      "load carried [mN]": f"{o.load_share.to('mN').magnitude:.4g}",
                      "depth under load [mm]": od,
                      "depth at limit [mm]": f"{o.depth_at_max.to('mm').magnitude:.3g}",
@@ -590,7 +647,10 @@ def groups_page(errors: dict):
                 except Exception as exc:  # noqa: BLE001
                     st.error(f"group {i + 1} inputs could not be read: {exc}", icon="⚠️")
                     errors[f"group{i}"] = str(exc)
-        st.button("Add an element group", key=k("addgrp"), on_click=_add_group)
+        a1, a2 = st.columns([1, 1])
+        a1.selectbox("Kind of element to add", list(PANELS), key="new_kind",
+                     format_func=lambda kk: ex.ELEMENT_KINDS[kk]["label"])
+        a2.button("Add an element group", key=k("addgrp"), on_click=_add_group)
         st.subheader("Load")
         load = load_panel(base.get("load", {}), errors)
     current = {"title": base.get("title", "Design"), "invented": bool(base.get("invented", False)),

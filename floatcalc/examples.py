@@ -61,6 +61,15 @@ ELEMENT_KINDS: dict[str, dict[str, Any]] = {
         "fields": ("radius", "length", "count", "material", "coating", "advancing_angle",
                    "receding_angle"),
     },
+    "ball": {
+        "label": "ball foot (sphere resting in the surface)",
+        "fields": ("radius", "count", "material", "coating", "advancing_angle", "receding_angle"),
+    },
+    "pad": {
+        "label": "flat circular pad (disc with sharp edges)",
+        "fields": ("radius", "thickness", "count", "material", "coating", "advancing_angle",
+                   "receding_angle"),
+    },
 }
 
 def material_names() -> list[str]:

@@ -79,6 +79,8 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
 
     ax = _axes(ax)
     p = result.profile
+    if "r_m" in p:
+        return _round_section(result, ax, extent_lc, zoom)
     mm = 1e3
     R = p["radius_m"] * mm
     zc_centre = p["centre_z_m"] * mm
@@ -141,6 +143,75 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
     return ax
 
 
+def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
+    """Axisymmetric cross-section (ball or pad) through the axis, drawn like the rod section."""
+    from matplotlib.patches import Circle, Polygon, Rectangle
+
+    p = result.profile
+    mm = 1e3
+    r = np.asarray(p["r_m"]) * mm
+    z = np.asarray(p["z_m"]) * mm
+    R = p["radius_m"] * mm
+    lc = result.liquid.lc * mm if result.liquid is not None else 2.7
+    cx, cz = float(r[0]), float(z[0])
+    X = abs(cx) + extent_lc * lc
+    keep = r <= X
+    r, z = r[keep], z[keep]
+    depth = result.depth_at_max.to("mm").magnitude
+    bottom = -(depth + 0.6 * lc)
+    if p.get("body") == "sphere":
+        zc0 = p["centre_z_m"] * mm
+        phi = math.radians(result.details.get("contact_position_at_max_deg", 90.0))
+        a = np.linspace(-phi, phi, 120)
+        wet = np.column_stack([R * np.sin(a), zc0 - R * np.cos(a)])
+        solid = Circle((0.0, zc0), R)
+        low, top_s = zc0 - R, zc0 + R
+    else:  # flat disc with sharp edges
+        zb = p["bottom_z_m"] * mm
+        t = p["thickness_m"] * mm
+        wet = np.array([[-R, cz], [-R, zb], [R, zb], [R, cz]])
+        solid = Rectangle((-R, zb), 2 * R, t)
+        low, top_s = zb, zb + t
+    outline = np.concatenate([np.column_stack([-r[::-1], z[::-1]]), wet, np.column_stack([r, z]),
+                              [[r[-1], bottom], [-r[-1], bottom]]])
+    ax.add_patch(Polygon(outline, closed=True, facecolor=COLOURS["liquid"], edgecolor="none", zorder=1,
+                         gid="liquid", label="liquid"))
+    ax.plot(r, z, color=COLOURS["interface"], lw=1.8, zorder=3, label="meniscus (liquid surface)")
+    ax.plot(-r, z, color=COLOURS["interface"], lw=1.8, zorder=3)
+    ax.axhline(0.0, color=COLOURS["surface"], lw=0.9, ls=(0, (5, 4)), zorder=2, label="undisturbed surface")
+    solid.set(facecolor=COLOURS["solid"], edgecolor=COLOURS["solid_edge"], lw=1.0, zorder=4, gid="solid",
+              label=f"{result.element} section (solid)")
+    ax.add_patch(solid)
+    pts = ax.scatter([-cx, cx], [cz, cz], s=36, color=COLOURS["contact"], edgecolor="white", lw=0.8,
+                     zorder=5, label="contact points")
+    pts.set_gid("contact points")
+    top = max(top_s, 0.0) + 0.35 * lc
+    if zoom:
+        X = max(1.6 * R, 1.4 * abs(cx), 0.2 * lc)
+        mid = 0.5 * (low + top_s)
+        bottom, top = mid - 0.75 * X, mid + 0.75 * X
+        ax.plot([-X, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(-0.95 * X, low, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
+                va="bottom", ha="left", zorder=6)
+    else:
+        xd = -X * 0.82
+        ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),
+                    arrowprops={"arrowstyle": "<->", "color": COLOURS["depth"], "lw": 1.2}, zorder=5)
+        ax.plot([xd, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(xd + 0.04 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
+                va="center", ha="left", zorder=6)
+        ax.legend(loc="lower right", fontsize=7, framealpha=0.85, ncols=2)
+    ax.set_xlim(-X, X)
+    ax.set_ylim(min(bottom, low - 0.1 * lc), top)
+    ax.set_aspect("equal")
+    ax.set_xlabel("horizontal distance from the element axis [mm]")
+    ax.set_ylabel(SECTION_YLABEL)
+    ax.set_title("Close-up of the element at the limit (to scale)" if zoom else
+                 "Meniscus cross-section through the axis at the limit load (to scale)", fontsize=10, loc="left")
+    _style(ax)
+    return ax
+
+
 def force_depth(result: Any, ax=None, load: Any = None, operating_depth: Any = None, parts: bool = True):
     """Force–depth curve of one element group with its limit, parts and operating point.
 
@@ -194,9 +265,11 @@ def compare_curves(items: list[tuple[str, Any]], ax=None):
         for j, o in enumerate(a.elements):
             c = o.result.curve
             lab = name if len(a.elements) == 1 else f"{name}, group {j + 1}"
+            if getattr(o, "per_element", 1) > 1:
+                lab += " (one of its elements)"
             ax.plot(c.depth.to("mm").magnitude, c.force.to("mN").magnitude, color=col,
                     lw=1.8, ls=("-", "--", "-.")[j % 3], label=lab)
-            ax.scatter([o.depth_at_max.to("mm").magnitude], [o.max_force.to("mN").magnitude],
+            ax.scatter([o.result.depth_at_max.to("mm").magnitude], [o.result.max_force.to("mN").magnitude],
                        marker="v", color=col, s=50, zorder=5)
         ax.axhline(a.total_load.to("mN").magnitude, color=col, lw=0.9, ls=":")
     ax.axhline(0.0, color="#999999", lw=0.6)

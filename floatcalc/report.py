@@ -108,6 +108,7 @@ def material_density(value: Any) -> Any:
 
 _FIELD_CHECKS = {
     "radius": lambda x: v.length(x, "radius"),
+    "thickness": lambda x: v.length(x, "thickness"),
     "length": lambda x: v.length(x, "length"),
     "count": lambda x: v.count(x, "count"),
     "advancing_angle": lambda x: v.angle(x, "advancing_angle"),
@@ -152,6 +153,8 @@ class ElementOutcome(Result):
     kind: str = field(default="rod")
     spec: dict = field(default_factory=dict, json=False)
     result: Any = field(default=None, json=False)
+    #: The result's curve is for one element of ``per_element`` identical ones (1: whole group).
+    per_element: int = field(default=1)
     max_force: Any = qfield("N")
     own_weight: Any = qfield("N")
     load_share: Any = qfield("N")
@@ -209,7 +212,14 @@ def make_liquid(spec: dict[str, Any]):
 
 def element_label(spec: dict[str, Any]) -> str:
     """Short description of an element group in words, from its inputs."""
-    if spec.get("kind", "rod") == "rod":
+    kind = spec.get("kind", "rod")
+    if kind in ("ball", "pad"):
+        n = int(spec.get("count", 1))
+        what = {"ball": "ball foot", "pad": "pad"}[kind] + ("" if n == 1 else "s")
+        extra = f", thickness {spec.get('thickness')}" if kind == "pad" else ""
+        return (f"{n} {what}, radius {spec.get('radius')}{extra}, {spec.get('material', 'steel')}, "
+                f"{spec.get('coating', 'custom')} ({spec.get('advancing_angle')} advancing)")
+    if kind == "rod":
         n = int(spec.get("count", 1))
         legs = "leg" if n == 1 else "legs"
         return (f"{n} {legs}, radius {spec.get('radius')}, length {spec.get('length')}, "
@@ -230,7 +240,18 @@ def evaluate_element(spec: dict[str, Any], liq) -> tuple[Any, float]:
                 count=spec.get("count", 1))
         # Two contact lines along each leg.
         return r, 2.0 * r.length.to("m").magnitude * r.count
-    raise input_error("kind", "must be one of rod", repr(kind))
+    if kind in ("ball", "pad"):
+        import floatcalc as fc
+
+        rho = material_density(spec.get("material", "steel"))
+        if kind == "ball":
+            r = fc.ball(spec["radius"], spec["advancing_angle"], liquid=liq, material_density=rho)
+        else:
+            r = fc.pad(spec["radius"], spec["thickness"], spec["advancing_angle"], liquid=liq,
+                       material_density=rho)
+        rc = r.contact_radius_at_max.to("m").magnitude
+        return r, 2.0 * math.pi * rc * int(spec.get("count", 1))
+    raise input_error("kind", "must be one of rod, ball, pad", repr(kind))
 
 
 def _operating_depth(curve, share: float) -> float | None:
@@ -265,8 +286,10 @@ def assess(scenario: dict[str, Any]) -> Assessment:
         raise input_error("elements", "a design needs at least one support element", "none")
 
     raw = [evaluate_element(s, liq) for s in specs]
-    F = np.array([r.max_force.to("N").magnitude for r, _ in raw])
-    W_el = float(sum(r.own_weight.to("N").magnitude for r, _ in raw))
+    # Rod results are totals over their legs; round results are for one element of the group.
+    per = [1 if s.get("kind", "rod") == "rod" else int(s.get("count", 1)) for s in specs]
+    F = np.array([n * r.max_force.to("N").magnitude for n, (r, _) in zip(per, raw)])
+    W_el = float(sum(n * r.own_weight.to("N").magnitude for n, (r, _) in zip(per, raw)))
     F_lim = float(F.sum())
     W_tot = W_body + W_pay + W_el
     margin = F_lim / W_tot if W_tot > 0 else math.inf
@@ -282,16 +305,17 @@ def assess(scenario: dict[str, Any]) -> Assessment:
         warnings.append("several element groups: the load is shared in proportion to each group's "
                         "limit force (no device equilibrium or shared meniscus)")
     outcomes = []
-    for spec, (r, perim) in zip(specs, raw):
-        fi = r.max_force.to("N").magnitude
+    for spec, (r, perim), n in zip(specs, raw, per):
+        fi = n * r.max_force.to("N").magnitude
         share = W_tot * fi / F_lim if F_lim > 0 else 0.0
-        op = _operating_depth(r.curve, share) if r.curve is not None else None
-        radius = r.radius.to("m").magnitude
-        bo = bond_number(liq, radius, "leg radius")
+        op = _operating_depth(r.curve, share / n) if r.curve is not None else None
+        kind = spec.get("kind", "rod")
+        radius = r.radius.to("m").magnitude if kind == "rod" else v.length(spec["radius"], "radius")
+        bo = bond_number(liq, radius, "leg radius" if kind == "rod" else f"{kind} radius")
         label = element_label(spec)
         outcomes.append(ElementOutcome(
-            label=label, kind=spec.get("kind", "rod"), spec=dict(spec), result=r,
-            max_force=r.max_force, own_weight=r.own_weight, load_share=Q_(share, "N"),
+            label=label, kind=kind, spec=dict(spec), result=r, per_element=n,
+            max_force=Q_(fi, "N"), own_weight=r.own_weight * n, load_share=Q_(share, "N"),
             operating_depth=None if op is None else Q_(op, "m"), depth_at_max=r.depth_at_max,
             contact_perimeter=Q_(perim, "m"), bond_number=bo.value, bond_reading=bo.reading,
             warnings=tuple(r.warnings),
@@ -513,11 +537,11 @@ def result_rows(a: Assessment) -> list[tuple[str, str]]:
     for i, o in enumerate(a.elements, 1):
         r = o.result
         rows.append((f"group {i} limit force", f"{_mN(o.max_force)} (surface tension "
-                     f"{_mN(r.surface_tension_part)}, pressure {_mN(r.pressure_part)})"))
+                     f"{_mN(r.surface_tension_part * o.per_element)}, pressure {_mN(r.pressure_part * o.per_element)})"))
         rows.append((f"group {i} depth at limit", f"{o.depth_at_max.to('mm').magnitude:.3g} mm"))
         od = "beyond the limit (sinks)" if o.operating_depth is None else f"{o.operating_depth.to('mm').magnitude:.3g} mm"
         rows.append((f"group {i} load and depth", f"{_mN(o.load_share)} at depth {od}"))
-        rows.append((f"group {i} Bond number", f"{o.bond_number:.3g}: {o.bond_reading} (L = leg radius)"))
+        rows.append((f"group {i} Bond number", f"{o.bond_number:.3g}: {o.bond_reading} (L = element radius)"))
     rows.append(("Baudoin number", f"{a.baudoin_number:.3g}: {a.baudoin_reading}"))
     return rows
 
@@ -564,7 +588,7 @@ def curve_tables(a: Assessment, prefix: str = "") -> dict[str, str]:
             w.writerow([f"{x:.9g}" for x in row])
         out[f"{p}group{i}_force_depth.csv"] = buf.getvalue()
         prof = getattr(r, "profile", None)
-        if prof:
+        if prof and "right_m" in prof:
             buf = io.StringIO()
             w = csv.writer(buf, lineterminator="\n")
             w.writerow(["side", "x_m", "z_m"])
@@ -572,6 +596,13 @@ def curve_tables(a: Assessment, prefix: str = "") -> dict[str, str]:
                 xs, zs = prof[side]
                 for x, z in zip(xs, zs):
                     w.writerow([side[:-2], f"{x:.9g}", f"{z:.9g}"])
+            out[f"{p}group{i}_meniscus.csv"] = buf.getvalue()
+        elif prof and "r_m" in prof:
+            buf = io.StringIO()
+            w = csv.writer(buf, lineterminator="\n")
+            w.writerow(["r_m", "z_m"])
+            for x, z in zip(prof["r_m"], prof["z_m"]):
+                w.writerow([f"{x:.9g}", f"{z:.9g}"])
             out[f"{p}group{i}_meniscus.csv"] = buf.getvalue()
     return out
 
@@ -726,7 +757,8 @@ def write_pdf(a: Assessment, target: Any, others: list[tuple[str, Assessment]] =
             ax3 = fig.add_axes([0.12, 0.40, 0.8, 0.2])
             plotting.meniscus_section(o.result, ax=ax3, zoom=True)
             ax2 = fig.add_axes([0.12, 0.07, 0.8, 0.26])
-            plotting.force_depth(o.result, ax=ax2, load=o.load_share, operating_depth=o.operating_depth)
+            plotting.force_depth(o.result, ax=ax2, load=o.load_share / o.per_element,
+                                 operating_depth=o.operating_depth)
             pdf.savefig(fig)
 
         if others:

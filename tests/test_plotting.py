@@ -96,3 +96,17 @@ def test_comparison_overlays_one_curve_per_design():
     labels = [line.get_label() for line in ax.lines]
     assert "design 1" in labels and "design 2" in labels
     assert "[mm]" in ax.get_xlabel() and "[mN]" in ax.get_ylabel()
+
+
+def test_ball_section_solid_and_contact_points():
+    from floatcalc.round import ball
+
+    b = ball("1 mm", "150 deg")
+    ax = plotting.meniscus_section(b)
+    assert ax.get_aspect() == 1.0
+    assert ax.get_xlabel() == "horizontal distance from the element axis [mm]"
+    solid = _by_gid(ax.patches, "solid")[0]
+    assert isinstance(solid, Circle) and solid.get_radius() == pytest.approx(1.0)
+    xy = _by_gid(ax.collections, "contact points")[0].get_offsets()
+    dist = np.hypot(xy[:, 0] - solid.center[0], xy[:, 1] - solid.center[1])
+    assert list(dist) == pytest.approx([1.0, 1.0], rel=1e-6)  # the contact line lies on the sphere

@@ -262,3 +262,18 @@ def test_device_report_has_plan_view_page(tmp_path):
     rows = list(csv.DictReader(io.StringIO((csv_dir / "device_elements.csv").read_text())))
     assert len(rows) == 12
     assert sum(float(r["share"]) for r in rows) == pytest.approx(1.0, rel=1e-5)
+
+
+def test_ball_feet_group_scales_with_count_and_meets_small_sphere_limit():
+    # Small sphere (Bo -> 0): limit force 2πRσ sin²(θ/2) (Scheludko et al. 1976; Nutt 1960).
+    # R = 0.05 mm gives Bo ≈ 3e-4; the buoyancy part is then ~Bo relative, so 2 % tolerance.
+    s = _thin_rod_design(0.0)
+    s["elements"] = [{"kind": "ball", "radius": "0.05 mm", "count": 3, "material": "nylon",
+                      "advancing_angle": "150 deg"}]
+    a = rp.assess(s)
+    single = 2 * math.pi * 0.05e-3 * 72.74e-3 * math.sin(math.radians(75)) ** 2
+    assert a.limit_force.to("N").magnitude == pytest.approx(3 * single, rel=2e-2)
+    assert a.elements[0].per_element == 3
+    # Weight of three nylon spheres (1140 kg/m³, floatcalc.materials) is the whole load here.
+    W = 3 * 1140 * 4 / 3 * math.pi * (0.05e-3) ** 3 * G0
+    assert a.total_load.to("N").magnitude == pytest.approx(W, rel=1e-9)
