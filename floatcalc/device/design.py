@@ -413,7 +413,8 @@ def _toml_value(v) -> str:
             raise ValueError("non-finite value in a design")
         return repr(v)
     if isinstance(v, str):
-        return json.dumps(v, ensure_ascii=False)
+        # JSON escapes are valid TOML basic-string escapes; TOML also forbids a literal DEL.
+        return json.dumps(v, ensure_ascii=False).replace("\x7f", "\\u007f")
     if isinstance(v, list):
         return "[" + ", ".join(_toml_value(x) for x in v) + "]"
     if isinstance(v, dict):
@@ -422,7 +423,7 @@ def _toml_value(v) -> str:
 
 
 def _key(k: str) -> str:
-    return k if _BARE.match(k) else json.dumps(k, ensure_ascii=False)
+    return k if _BARE.match(k) else _toml_value(str(k))
 
 
 def design_text(design: Design | dict) -> str:
