@@ -8,7 +8,9 @@ Each sibling module ``bench_<name>.py`` provides ``run(quick: bool) -> dict`` of
 may provide ``TARGETS = {key: (op, value)}`` with op one of ``>=``, ``<=``, ``==``. Known
 modules that are absent are reported as "not available"; a module that raises is reported
 with its error and the others still run. ``--quick`` uses fewer repeats and smaller baseline
-subsets (under a minute in total). Exit code 1 if any figure misses its target.
+subsets (under a minute in total). Exit code 1 if any figure misses its target. The number
+of cores and the 1-minute load average before and after are printed with the figures: on a
+shared machine other jobs slow every timing.
 These scripts are not collected by pytest (``norecursedirs`` in pyproject.toml).
 """
 
@@ -19,6 +21,7 @@ import importlib.util
 import json
 import math
 import operator
+import os
 import sys
 import time
 from pathlib import Path
@@ -51,6 +54,9 @@ def _fmt(v) -> str:
 
 def collect(quick: bool) -> dict:
     report = {"quick": quick, "modules": {}, "results": {}, "targets": {}, "pass": {}}
+    # Other people's jobs on a shared machine slow every figure; record the conditions.
+    report["results"]["machine_cores"] = os.cpu_count()
+    report["results"]["load_average_1min_before"] = _load()
     t_start = time.perf_counter()
     for name, mod in _modules():
         if mod is None:
@@ -70,8 +76,17 @@ def collect(quick: bool) -> dict:
                 op, goal = targets[key]
                 report["targets"][key] = f"{op} {goal:g}"
                 report["pass"][key] = bool(OPS[op](value, goal))
+    report["results"]["load_average_1min_after"] = _load()
     report["elapsed_s"] = time.perf_counter() - t_start
     return report
+
+
+def _load() -> float | str:
+    try:
+        return os.getloadavg()[0]
+    except (AttributeError, OSError):  # not available on this platform
+        return "n/a"
+
 
 
 def print_table(report: dict) -> None:
