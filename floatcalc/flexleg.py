@@ -29,7 +29,7 @@ import numpy as np
 
 from . import _validate as v
 from .core import beam
-from .errors import input_error
+from .errors import ConvergenceError, input_error
 from .liquids import Liquid, water
 from .materials import LegMaterial, leg_material, youngs_modulus as _youngs
 from .results import Result, field, qfield
@@ -406,6 +406,9 @@ class FlexLegCurve(Result):
     max_depth: Any = qfield("m")
     force: Any = qfield("N")
     payload: Any = qfield("N")
+    contact_depth: Any = qfield("m")
+    own_weight: Any = qfield("N")
+    limit_force: Any = qfield("N")
     warnings: tuple[str, ...] = field(default=())
 
 
@@ -413,15 +416,18 @@ def flexible_leg_curve(radius: Any, length: Any, contact_angle: Any, *, youngs_m
                        material: str | LegMaterial | None = None, clamp_angle: Any = 0.0,
                        toe_angle: Any | None = None, toe_length: Any | None = None,
                        material_density: Any | None = None, liquid: Liquid | None = None,
-                       points: int = 24, nodes: int | None = None) -> FlexLegCurve:
+                       points: int = 24, nodes: int | None = None, start: str = "floating") -> FlexLegCurve:
     """Liquid force and clamp support of one flexible leg against clamp depth, up to its limit.
 
     Same model and parameters as :func:`flexible_leg`. The clamp depth (of the leg's lowest
     point at the clamp, below the undisturbed surface) runs from where the leg floats to where
     its deepest point reaches the rod-law limit; ``points`` equilibria are solved by
     continuation. ``force`` is the liquid's upward force on the leg; ``payload`` the support at
-    the clamp (force − own weight). Both rise monotonically with depth on this range for the
-    legs tried; interpolate them for a device equilibrium.
+    the clamp (force − own weight); ``contact_depth`` the rod-law contact-line depth at the
+    clamp section. With ``start="touch"`` the curve begins where the unbent leg first touches
+    the liquid (its deepest point at the rod law's first-contact depth) instead of where the
+    leg floats. From the floating depth on, both forces rise with depth for the legs tried;
+    interpolate them for a device equilibrium.
 
     >>> c = flexible_leg_curve("0.1 mm", "30 mm", "150 deg", material="steel", points=6)
     >>> bool(np.all(np.diff(c.payload.magnitude) > 0))
@@ -435,22 +441,40 @@ def flexible_leg_curve(radius: Any, length: Any, contact_angle: Any, *, youngs_m
     n = leg.nodes(n=None if nodes is None else v.count(nodes, "nodes", upper=20000))
     th0 = leg.th0(n)
     fd = leg.found
+    if start not in ("floating", "touch"):
+        raise input_error("start", "must be 'floating' or 'touch'", repr(start))
     lim = beam.limit(leg.L, leg.B, leg.alpha, fd, n=n, th0=th0)
-    start = beam.solve(leg.L, leg.B, leg.alpha, lim["clamp_depth"] - (fd.d_lim - fd.floating_depth()),
-                       fd, n=n, th0=th0, guess=None)
-    d_from, d_to = float(start["y"][0]), float(lim["clamp_depth"])
+    d_to = float(lim["clamp_depth"])
+    if start == "touch":
+        s_n = np.linspace(0.0, leg.L, n + 1)
+        y_nat = np.concatenate([[0.0], np.cumsum(0.5 * np.diff(s_n) * (np.sin(th0[1:]) + np.sin(th0[:-1])))])
+        d_from = min(fd.d0 - beam.max_depth(y_nat), d_to - 1e-3)
+    else:
+        d_from = d_to - (fd.d_lim - fd.floating_depth())
+    first = beam._solve_from_stiff(leg.L, leg.B, leg.alpha, d_from, fd, n=n, th0=th0, end="clamped")
     depths = np.linspace(d_from, d_to, m)
-    U = start["U"]
-    cd, md, fo, pa = [], [], [], []
+    U = first["U"]
+    cd, md, fo, pa, hc = [], [], [], [], []
     for j, D in enumerate(depths):
-        sol = lim if j == m - 1 else beam.solve(leg.L, leg.B, leg.alpha, D, fd, n=n, th0=th0, guess=U)
+        if j == 0:
+            sol = first
+        elif j == m - 1:
+            sol = lim
+        else:
+            try:
+                sol = beam.solve(leg.L, leg.B, leg.alpha, D, fd, n=n, th0=th0, guess=U)
+            except ConvergenceError:  # past a snap of the tip: start again from a stiff leg
+                sol = beam._solve_from_stiff(leg.L, leg.B, leg.alpha, D, fd, n=n, th0=th0, end="clamped")
         U = sol["U"]
         f, _ = fd.force(sol["y"])
         cd.append(D)
         md.append(beam.max_depth(sol["y"]))
         fo.append(float(np.trapezoid(f, sol["s"])))
         pa.append(float(sol["V"][0]))
+        hc.append(float(fd.contact_depth(sol["y"][:1])[0]))
     s, lc = liq.sigma, liq.lc
     return FlexLegCurve(clamp_depth=Q_(np.array(cd) * lc, "m"), max_depth=Q_(np.array(md) * lc, "m"),
                         force=Q_(np.array(fo) * s * lc, "N"), payload=Q_(np.array(pa) * s * lc, "N"),
+                        contact_depth=Q_(np.array(hc) * lc, "m"),
+                        own_weight=Q_(fd.weight * leg.L * s * lc, "N"), limit_force=Q_(fo[-1] * s * lc, "N"),
                         warnings=tuple(notes))

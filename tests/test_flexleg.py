@@ -117,3 +117,23 @@ def test_cli_flexible_json_and_errors(capsys):
                  "--youngs-modulus", "200GPa"]) == 0
     out = capsys.readouterr().out
     assert "Winkler length" in out and "clean liquid surface" in out
+
+
+def test_device_flexible_leg_kind_adds_up_far_apart_legs():
+    # Cross-check of the device adapter: four identical flexible legs far apart (60 mm, about
+    # 22 l_c: superposed menisci negligible) on a level body carry four single-leg limits.
+    from floatcalc.device import solve_device
+    from floatcalc.device.design import design_from_data
+
+    legs = [{"kind": "flexible_leg", "name": f"f{i}", "position": [f"{x} mm", f"{y} mm"],
+             "heading": f"{h} deg", "radius": "0.1 mm", "length": "30 mm", "material": "steel",
+             "coating": {"advancing": "150 deg"}}
+            for i, (x, y, h) in enumerate([(30, 30, 0), (-30, 30, 180), (-30, -30, 180), (30, -30, 0)])]
+    design = design_from_data({"schema_version": 1, "liquid": {"name": "water", "temperature": "20 degC"},
+                               "body": {"mass": "0.2 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": legs})
+    r = solve_device(design)
+    one = flexible_leg("0.1 mm", "30 mm", "150 deg", material="steel", length_points=0)
+    total_limit = 4 * one.max_force.to("N").magnitude
+    weight = r.weight.to("N").magnitude
+    assert r.verdict == "floats"
+    assert r.max_payload.to("N").magnitude == pytest.approx(total_limit - weight, rel=1e-3)

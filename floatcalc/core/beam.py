@@ -131,6 +131,13 @@ class Foundation:
             df = np.where(ramp, self.f0 * 6.0 * t * (1.0 - t) / DRY_RAMP, df)
         return f, df
 
+    def contact_depth(self, y):
+        """Contact-line depth 2 sin(ψ/2) [l_c] of the rod law at depths ``y`` (0 when dry)."""
+        y = np.asarray(y, dtype=float)
+        phi = self._phi(np.clip(y, self.d0, self.d_end))
+        d = 2.0 * np.sin(0.5 * (phi + self.theta - math.pi))
+        return np.where(y >= self.d0, d, 0.0)
+
     def __call__(self, y):
         """Net load q = f − w [σ] and dq/dy at depths ``y`` [l_c]."""
         f, df = self.force(y)
