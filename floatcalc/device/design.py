@@ -265,6 +265,7 @@ def _leg(leg, path, problems):
         else:  # pragma: no cover - programming error in a kind
             raise KeyError(spec.kind)
     p["density"] = _material(leg, path, problems)
+    p["material_name"] = leg.get("material") if isinstance(leg.get("material"), str) else None
     if len(problems) == before:
         kind.check(p, path, problems)
     return p if len(problems) == before else None

@@ -261,6 +261,226 @@ class RodKind(ElementKind):
 register_kind(RodKind())
 
 
+class FlexibleLegKind(ElementKind):
+    """Wire leg clamped at ``position`` that bends under its load (floatcalc.flexleg)."""
+
+    name = "flexible_leg"
+    summary = "flexible wire leg clamped to the body, bending under its capillary load"
+    keys = {
+        **COMMON_KEYS,
+        "radius": Key("length", required=True, help="wire radius"),
+        "length": Key("length", required=True, help="leg length from the clamp to the tip"),
+        "heading": Key("signed_angle", default=0.0, help="direction of the leg from its clamp in plan, from +x",
+                       lo=-2 * math.pi, hi=2 * math.pi),
+        "clamp_angle": Key("signed_angle", default=0.0, help="slope at the clamp below horizontal",
+                           lo=-math.radians(45), hi=math.radians(45)),
+        "toe_angle": Key("angle", default=0.0, help="upturned toe over the last 10 % of the leg (0-90 deg)"),
+        "youngs_modulus": Key("str", help="Young's modulus, e.g. '200 GPa' (default: from the material)"),
+    }
+
+    def model(self, p, liquid):
+        from ..flexleg import flexible_leg_curve
+
+        E = p.get("youngs_modulus")
+        mat = p.get("material_name")
+        if E is None and mat is None:
+            from ..errors import input_error
+
+            raise input_error("youngs_modulus", "a flexible_leg needs a material name or a Young's modulus",
+                              "neither")
+        th = effective_angle(p["coating"]["advancing"], p["coating"])
+        c = flexible_leg_curve(p["radius"], p["length"], th, youngs_modulus=E, material=mat,
+                               clamp_angle=p["clamp_angle"], toe_angle=p["toe_angle"] or None,
+                               material_density=p["density"], liquid=liquid, points=25, start="touch")
+        D = c.clamp_depth.to("m").magnitude
+        F = c.force.to("N").magnitude
+        H = c.contact_depth.to("m").magnitude
+        grid = np.linspace(D[0], D[-1], TABLE_POINTS)
+        ux, uy = math.cos(p["heading"]), math.sin(p["heading"])
+        cx, cy = p["position"]
+        lc = liquid.lc
+        half_w = p["radius"]
+        corners = np.array([[0.0, -half_w], [p["length"], -half_w], [p["length"], half_w], [0.0, half_w]])
+        foot = np.column_stack([cx + corners[:, 0] * ux - corners[:, 1] * uy,
+                                cy + corners[:, 0] * uy + corners[:, 1] * ux])
+        mid = (cx + 0.5 * p["length"] * ux, cy + 0.5 * p["length"] * uy)
+        field_s = _rod_field(mid[0] / lc, mid[1] / lc, ux, uy, 0.5 * p["length"] / lc, p["radius"] / lc)
+        return ElementModel(
+            points=np.array([[cx, cy]]),
+            offsets=np.array([-p["mount"]]),
+            depth=grid[None, :],
+            force=np.interp(grid, D, F)[None, :],
+            contact=np.interp(grid, D, H)[None, :],
+            own_weight=c.own_weight.to("N").magnitude,
+            perimeter=2.0 * p["length"] + 2.0 * math.pi * p["radius"],
+            footprint=foot,
+            field=lambda x, y, f=field_s: f(np.asarray(x) / lc, np.asarray(y) / lc),
+            warnings=[*c.warnings, "flexible leg: its force acts at the clamp in the device balance (the clamp "
+                      "moment is not passed to pitch and roll); depth is the clamp's"],
+            model_name="elastica on the exact 2D rod law (floatcalc.flexleg; Vella, Lee & Kim 2006; Hetényi 1946)",
+        )
+
+
+register_kind(FlexibleLegKind())
+
+
+def _circle(cx, cy, r, k=24):
+    t = np.linspace(0.0, 2.0 * np.pi, k, endpoint=False)
+    return np.column_stack([cx + r * np.cos(t), cy + r * np.sin(t)])
+
+
+def _axisym_field(cx, cy, rc):
+    """Linearised outer field K₀(r)/K₀(r_c) of a round element per unit contact depth [lengths in l_c]."""
+    from scipy.special import k0e
+
+    k0c = k0e(rc)
+
+    def f(x, y):
+        r = np.maximum(np.hypot(np.asarray(x, dtype=float) - cx, np.asarray(y, dtype=float) - cy), rc)
+        return k0e(r) * np.exp(rc - r) / k0c
+
+    return f
+
+
+class _RoundKind(ElementKind):
+    """Adapter over :mod:`floatcalc.round`: one force point with the element's force–depth curve.
+
+    The curve is cut at the element's limit (``depth_at_max``). The contact-line depth that
+    drives the neighbours is taken from the surface-tension part through Keller's theorem for
+    the linearised outer meniscus, F_st = 2π σ r_c h₀ K₁(r_c/l_c)/(l_c K₀(r_c/l_c)), with r_c the
+    outer contact radius at the limit (an approximation for a ring, whose inner line pulls on
+    enclosed liquid that does not spread outward).
+    """
+
+    geometry: dict[str, Key] = {}
+
+    def __init__(self):
+        self.keys = {**COMMON_KEYS, **self.geometry}
+
+    def compute(self, p, th, liquid):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def outer_radius(self, p, res) -> float:
+        return float(res.contact_radius_at_max.to("m").magnitude)
+
+    def perimeter(self, p, rc) -> float:
+        return 2.0 * math.pi * rc
+
+    def model(self, p, liquid):
+        from scipy.special import k0e, k1e
+
+        lc, s = liquid.lc, liquid.sigma
+        th = effective_angle(p["coating"]["advancing"], p["coating"])
+        res = self.compute(p, th, liquid)
+        c = res.curve
+        D = c.depth.to("m").magnitude
+        F = c.force.to("N").magnitude
+        Fst = c.surface_tension.to("N").magnitude
+        d_lim = self.limit_depth(p, res, D)
+        keep = D < d_lim
+        f_lim = float(np.interp(d_lim, D, F))
+        st_lim = float(np.interp(d_lim, D, Fst))
+        D = np.append(D[keep], d_lim)
+        F = np.append(F[keep], f_lim)
+        Fst = np.append(Fst[keep], st_lim)
+        grid = np.linspace(D[0], D[-1], TABLE_POINTS)
+        Fg = np.interp(grid, D, F)
+        rc = max(self.outer_radius(p, res), 1e-9)
+        h0 = np.interp(grid, D, Fst) * lc / (s * 2.0 * math.pi * rc * k1e(rc / lc) / k0e(rc / lc))
+        cx, cy = p["position"]
+        field_s = _axisym_field(cx / lc, cy / lc, rc / lc)
+        return ElementModel(
+            points=np.array([[cx, cy]]), offsets=np.array([-p["mount"]]),
+            depth=grid[None, :], force=Fg[None, :], contact=h0[None, :],
+            own_weight=float(res.own_weight.to("N").magnitude), perimeter=self.perimeter(p, rc),
+            footprint=_circle(cx, cy, self.footprint_radius(p)),
+            field=lambda x, y, f=field_s: f(np.asarray(x) / lc, np.asarray(y) / lc),
+            warnings=[w for w in res.warnings if "material density" not in w],
+            model_name=f"axisymmetric meniscus (floatcalc.round.{self.name})",
+        )
+
+    def limit_depth(self, p, res, D) -> float:
+        return float(res.depth_at_max.to("m").magnitude)
+
+    def footprint_radius(self, p) -> float:
+        return p["radius"]
+
+
+class BallKind(_RoundKind):
+    name = "ball"
+    summary = "ball foot (sphere) pressed into the surface"
+    geometry = {"radius": Key("length", required=True, help="ball radius")}
+
+    def compute(self, p, th, liquid):
+        from .. import round as rd
+
+        return rd.ball(p["radius"], th, liquid=liquid, material_density=p["density"])
+
+
+class PadKind(_RoundKind):
+    name = "pad"
+    summary = "flat circular pad with sharp edges"
+    geometry = {"radius": Key("length", required=True, help="pad radius"),
+                "thickness": Key("length", required=True, help="pad thickness")}
+
+    def compute(self, p, th, liquid):
+        from .. import round as rd
+
+        return rd.pad(p["radius"], p["thickness"], th, liquid=liquid, material_density=p["density"])
+
+
+class RingKind(_RoundKind):
+    name = "ring"
+    summary = "closed wire ring lying flat in the surface"
+    geometry = {"ring_radius": Key("length", required=True, help="radius of the ring's centre line"),
+                "wire_radius": Key("length", required=True, help="radius of the wire")}
+
+    def check(self, p, path, problems):
+        if p["wire_radius"] >= p["ring_radius"]:
+            problems.append(f"{path}.wire_radius: must be smaller than ring_radius "
+                            f"({p['ring_radius'] * 1e3:.4g} mm), got {p['wire_radius'] * 1e3:.4g} mm")
+
+    def compute(self, p, th, liquid):
+        from .. import round as rd
+
+        return rd.ring(p["ring_radius"], p["wire_radius"], th, liquid=liquid, material_density=p["density"])
+
+    def outer_radius(self, p, res):
+        return p["ring_radius"] + p["wire_radius"]
+
+    def perimeter(self, p, rc):
+        return 4.0 * math.pi * p["ring_radius"]
+
+    def footprint_radius(self, p):
+        return p["ring_radius"] + p["wire_radius"]
+
+
+class PinKind(_RoundKind):
+    """Vertical pin dipped tip-first. It does not sink by meniscus failure: its force keeps
+    rising until the body reaches the surface, so its limit is taken at tip depth = ``length``
+    (the pin's protrusion below the body), or the end of the computed curve if shorter."""
+
+    name = "pin"
+    summary = "vertical pin (fibre) dipped tip-first"
+    geometry = {"radius": Key("length", required=True, help="pin radius"),
+                "length": Key("length", required=True, help="protrusion of the pin below the body")}
+
+    def compute(self, p, th, liquid):
+        from .. import round as rd
+
+        return rd.pin(p["radius"], th, length=p["length"], liquid=liquid, material_density=p["density"])
+
+    def limit_depth(self, p, res, D):
+        return float(min(p["length"], D[-1]))
+
+    def outer_radius(self, p, res):
+        return p["radius"]
+
+
+for _k in (BallKind(), PadKind(), RingKind(), PinKind()):
+    register_kind(_k)
+
+
 class _PendingKind(ElementKind):
     """A round element kind whose model has not landed yet: refuses clearly instead of guessing."""
 
@@ -276,5 +496,3 @@ class _PendingKind(ElementKind):
         raise input_error("kind", self.unavailable, repr(self.name))
 
 
-for _n, _s in (("pin", "vertical pin"), ("ball", "ball foot"), ("pad", "flat pad"), ("ring", "wire ring")):
-    register_kind(_PendingKind(_n, _s))
