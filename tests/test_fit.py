@@ -145,3 +145,21 @@ def test_same_fit_whatever_the_units_in_the_csv(tmp_path):
     ra = fit_rod_csv(a, radius=R, length=L)
     rb = fit_rod_csv(b, radius=R, length=L)
     assert ra.contact_angle.magnitude == pytest.approx(rb.contact_angle.magnitude, rel=1e-9)
+
+
+@pytest.mark.slow
+def test_pad_fit_round_trip():
+    # Round trip of the fitting machinery on an axisymmetric element: data from floatcalc.pad's
+    # force-depth curve at 105° plus seeded noise. This checks the fit and its interval, not the
+    # pad physics (that is checked against independent methods in the round-element tests).
+    import floatcalc as fc
+    from floatcalc.studies.fit import fit_element
+
+    r = fc.pad("2 mm", "0.5 mm", "105 deg")
+    D = np.linspace(0.05e-3, r.depth_at_max.to("m").magnitude, 14)
+    F0 = r.curve.force_at_depth(D).to("N").magnitude
+    F = F0 + np.random.default_rng(5).normal(0.0, 0.01 * F0.max(), D.size)
+    f = fit_element("pad", D, F, radius="2 mm", thickness="0.5 mm", confidence=0.999)
+    lo, hi = f.contact_angle_ci.magnitude
+    assert lo < 105.0 < hi and hi - lo < 5.0
+    assert f.to_dict()["element"] == "pad"
