@@ -168,3 +168,15 @@ def test_pad_limit_grows_with_thickness(a, t, th):
     lo, _ = rb.pad_limit(a, t, math.radians(th))
     hi, _ = rb.pad_limit(a, t * 1.2, math.radians(th))
     assert hi["force"] > lo["force"]
+
+
+@pytest.mark.parametrize("theta_deg", [0.0, 90.0, 180.0])
+def test_extreme_contact_angles_are_finite(theta_deg):
+    """Fully wetting, neutral and fully non-wetting elements give finite limits, and the ball's
+    limit grows from θ = 0 to θ = 180° (sanity, common practice)."""
+    b = ball("1 mm", f"{theta_deg} deg")
+    p = pad("2 mm", "0.3 mm", f"{theta_deg} deg")
+    for r in (b, p):
+        assert math.isfinite(r.max_force.magnitude) and math.isfinite(r.depth_at_max.magnitude)
+    if theta_deg == 180.0:
+        assert b.max_force > ball("1 mm", "0 deg").max_force
