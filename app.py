@@ -16,6 +16,7 @@ from __future__ import annotations
 import json
 import time
 
+import numpy as np
 import streamlit as st
 
 from floatcalc import examples as ex
@@ -536,6 +537,52 @@ def _guard(title: str, fn, *args) -> None:
         st.error(f"{title} could not be shown: {type(exc).__name__}: {exc}", icon="⚠️")
 
 
+STUDY_DEFAULTS = {"radius": ("0.05 mm", "0.5 mm"), "length": ("5 mm", "80 mm"),
+                  "contact_angle": ("90 deg", "170 deg"), "count": ("1", "12"),
+                  "payload_mass": ("0 g", "5 g")}
+
+
+def study_panel(current: dict, key: str, sf: float) -> None:
+    """Sweep one input of the first leg group (floatcalc.studies), with a progress bar."""
+    ss = st.session_state
+    c1, c2, c3, c4 = st.columns([1.4, 1, 1, 0.8])
+    name = c1.selectbox("Input to vary", list(rp.STUDY_INPUTS), format_func=lambda n: rp.STUDY_INPUTS[n],
+                        key="study_in")
+    lo, hi = STUDY_DEFAULTS[name]
+    start = c2.text_input("From", lo, key=f"study_lo_{name}")
+    stop = c3.text_input("To", hi, key=f"study_hi_{name}")
+    pts = int(c4.number_input("Points", min_value=3, max_value=400, value=60, step=1, key="study_n"))
+    skey = json.dumps([key, name, start, stop, pts])
+    if st.button("Run the sweep", key="study_run"):
+        bar = st.progress(0.0, text="sweeping...")
+        try:
+            res = rp.study_sweep(current, name, start, stop, pts,
+                                 progress=lambda f: bar.progress(f, text=f"sweeping... {100 * f:.0f} %"))
+            ss.study = (skey, res)
+        except InputError as exc:
+            ss.study = None
+            st.error(str(exc), icon="⚠️")
+        bar.empty()
+    if ss.get("study") and ss.study[0] == skey:
+        import io
+
+        from floatcalc import plotting
+
+        res = ss.study[1]
+        fig = plotting.sweep_figure(res, "safety_factor", sf)
+        buf = io.BytesIO()
+        fig.savefig(buf, format="png", dpi=90)
+        st.image(buf.getvalue(), width="stretch")
+        if res.crossings:
+            a = res.axes[0]
+            shown = ", ".join(f"{float(np.interp(c, a.values, a.shown())):.4g} {a.unit}" for c in res.crossings)
+            st.caption(f"the design just carries its load (margin 1) at {rp.STUDY_INPUTS[name]} = {shown}")
+        for w in res.warnings:
+            st.warning(w, icon="⚠️")
+    elif ss.get("study"):
+        st.caption("inputs changed since the last sweep: run it again")
+
+
 def compare_panel(current_name: str, current_key: str | None) -> None:
     ss = st.session_state
     st.caption("Put two or more designs side by side: the current design against the saved ones.")
@@ -676,6 +723,8 @@ def groups_page(errors: dict):
             st.subheader("Drawings")
             _guard("Drawings", drawings_panel, a, key)
             _guard("Warnings and cautions", notes_panel, a)
+            with st.expander("Design study: sweep one input of the first leg group"):
+                _guard("Design study", study_panel, current, key, a.safety_factor)
     toml_text = ex.dumps_toml(current) if a is not None else ""
     return a, key, toml_text, current["title"]
 

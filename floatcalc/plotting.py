@@ -282,6 +282,22 @@ def compare_curves(items: list[tuple[str, Any]], ax=None):
     return ax
 
 
+def sweep_figure(result: Any, output: str = "safety_factor", safety_factor: float | None = None):
+    """The sweep plot of :func:`floatcalc.studies.plots.sweep_plot`, with the required safety
+    factor drawn as a horizontal line when ``output`` is the achieved ``safety_factor``."""
+    from .studies.plots import sweep_plot
+
+    fig = sweep_plot(result, output)
+    ax = fig.axes[0]
+    if safety_factor is not None and output == "safety_factor" and len(result.axes) == 1:
+        ax.axhline(safety_factor, color=VERDICT_COLOURS["floats with margin"], lw=1.2, ls="-.",
+                   label=f"required safety factor {safety_factor:g}")
+        ax.axhline(1.0, color=VERDICT_COLOURS["sinks"], lw=1.0, ls=":", label="1: limit force = weight")
+        ax.set_ylabel("margin = limit force / weight carried [-]")
+        ax.legend(loc="best", fontsize=8)
+    return fig
+
+
 PLAN_XLABEL = "x, plan position [mm]"
 PLAN_YLABEL = "y, plan position [mm]"
 
@@ -332,5 +348,5 @@ def plan_view(device_result: Any, ax=None, grid: int = 140):
     return ax
 
 
-__all__ = ["COLOURS", "VERDICT_COLOURS", "meniscus_section", "force_depth", "compare_curves", "plan_view",
+__all__ = ["COLOURS", "VERDICT_COLOURS", "meniscus_section", "force_depth", "compare_curves", "plan_view", "sweep_figure",
            "SECTION_XLABEL", "SECTION_YLABEL", "DEPTH_LABEL", "FORCE_LABEL"]

@@ -498,6 +498,76 @@ def device_result_rows(a: DeviceAssessment) -> list[tuple[str, str]]:
 
 
 # ------------------------------------------------------------------------------------------------
+# Design study: sweep one input of the first leg group (floatcalc.studies rod model)
+
+STUDY_INPUTS = {"radius": "leg radius", "length": "wetted length of each leg",
+                "contact_angle": "advancing contact angle", "count": "number of legs",
+                "payload_mass": "mass carried (body + payload)"}
+
+
+def study_sweep(scenario: dict[str, Any], name: str, start: Any, stop: Any, points: int = 60,
+                progress=None, chunks: int = 10):
+    """Sweep one input of the scenario's first rod group with :func:`floatcalc.studies.sweep`.
+
+    The other inputs stay at the scenario's values (liquid σ and ρ, material density, and the
+    body + payload mass as ``payload_mass``). The sweep runs in ``chunks`` pieces (neighbouring
+    pieces share an end point, so no crossing of the limit is lost) and ``progress(fraction)`` is
+    called after each, for a progress bar.
+
+    Returns a :class:`~floatcalc.studies.sweep.SweepResult` over the whole range.
+    """
+    import dataclasses
+
+    from .studies.models import rod_model
+    from .studies.ranges import Axis, parse_axis
+    from .studies.sweep import sweep
+
+    if name not in STUDY_INPUTS:
+        raise input_error("vary", f"must be one of {', '.join(STUDY_INPUTS)}", repr(name))
+    try:
+        n = int(points)
+    except (TypeError, ValueError):
+        raise input_error("points", "must be a whole number from 3 to 400", repr(points)) from None
+    if not 3 <= n <= 400:
+        raise input_error("points", "must be a whole number from 3 to 400", repr(points))
+    rods = [e for e in scenario.get("elements", []) if e.get("kind", "rod") == "rod"]
+    if not rods:
+        raise input_error("vary", "a sweep needs a group of long legs (rods) in the design", "none")
+    e = rods[0]
+    liq = make_liquid(scenario.get("liquid", {}))
+    load = scenario.get("load", {})
+    base = {"radius": v.length(e["radius"], "radius"), "length": v.length(e["length"], "length"),
+            "contact_angle": v.angle(e["advancing_angle"], "advancing_angle"),
+            "count": float(v.count(e.get("count", 1))),
+            "material_density": float(material_density(e.get("material", "steel")) if not isinstance(
+                material_density(e.get("material", "steel")), str) else v.density(e["material"], "material")),
+            "payload_mass": _mass(load.get("body_mass", "0 g"), "body_mass") + _mass(load.get("payload", "0 g"), "payload")}
+    model = rod_model(liquid=liq, **base)
+    cat = model.axis_catalogue()
+    for what, txt in (("start", start), ("stop", stop)):
+        if not isinstance(txt, str) or not txt.strip() or ":" in txt or "=" in txt:
+            raise input_error(what, "must be a value with a unit, e.g. '0.1 mm'", repr(txt))
+    axis = parse_axis(f"{name}={start.replace(' ', '')}:{stop.replace(' ', '')}:{n}", cat)
+    vals = axis.values
+    k = max(1, min(chunks, vals.size - 1))
+    edges = np.linspace(0, vals.size - 1, k + 1).round().astype(int)
+    parts = []
+    for j in range(k):
+        sub = dataclasses.replace(axis, values=vals[edges[j]:edges[j + 1] + 1])
+        parts.append(sweep(model, [sub], executor="serial"))
+        if progress is not None:
+            progress((j + 1) / k)
+    outputs = {key: np.concatenate([parts[0].outputs[key]] + [p.outputs[key][1:] for p in parts[1:]])
+               for key in parts[0].outputs}
+    cross = sorted({round(c, 15) for p in parts for c in p.crossings})
+    warn = []
+    for p in parts:
+        warn += [w for w in p.warnings if w not in warn]
+    return dataclasses.replace(parts[0], axes=(axis,), outputs=outputs, crossings=tuple(cross),
+                               warnings=tuple(warn))
+
+
+# ------------------------------------------------------------------------------------------------
 # Text summaries shared by the report and the CLI
 
 def _mN(q) -> str:
@@ -802,4 +872,4 @@ def pdf_bytes(a: Assessment, others: list[tuple[str, Assessment]] = ()) -> bytes
 __all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "assess", "Assessment",
            "DeviceAssessment", "assess_device", "device_element_table", "is_device_data", "device_input_rows", "device_result_rows",
            "ElementOutcome", "make_liquid", "curve_tables", "csv_zip", "write_csv_dir", "write_pdf",
-           "pdf_bytes", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]
+           "pdf_bytes", "study_sweep", "STUDY_INPUTS", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]

@@ -183,3 +183,17 @@ def test_upload_handler_reads_both_formats_and_refuses_bad_files():
     with pytest.raises(InputError) as e:
         ex.read_design(b"schema_version = 1\n[liquid]\nname='water'\n[body]\nmass='-1 g'\n")
     assert "body" in str(e.value) or "legs" in str(e.value)
+
+
+def test_design_study_sweep_with_progress_and_bad_range():
+    at = AppTest.from_file(APP, default_timeout=TIMEOUT).run()
+    _load_example(at, "groups:robot")
+    at.selectbox(key="study_in").set_value("count").run()
+    at.button(key="study_run").click().run()
+    _no_exception(at)
+    assert any("just carries its load" in c.value for c in at.caption)
+    at.text_input(key="study_lo_count").set_value("abc").run()
+    at.button(key="study_run").click().run()
+    _no_exception(at)
+    assert any("count" in e.value for e in at.error)
+    assert any(s.value == "Reports" for s in at.subheader)  # the rest of the page still drawn

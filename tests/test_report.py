@@ -277,3 +277,25 @@ def test_ball_feet_group_scales_with_count_and_meets_small_sphere_limit():
     # Weight of three nylon spheres (1140 kg/m³, floatcalc.materials) is the whole load here.
     W = 3 * 1140 * 4 / 3 * math.pi * (0.05e-3) ** 3 * G0
     assert a.total_load.to("N").magnitude == pytest.approx(W, rel=1e-9)
+
+
+def test_study_sweep_crossing_matches_closed_form_and_reports_progress():
+    # Thin rods (R -> 0, θ = 180°): each leg carries 2σL (Vella, Lee & Kim 2006), so a 3 g body
+    # needs n* = m g / (2σL − W_leg) legs; the model's margin is linear in n, so the crossing
+    # found by interpolation between whole counts is exact up to the thin-rod approximation.
+    s = _thin_rod_design(3.0)
+    seen = []
+    res = rp.study_sweep(s, "count", "1", "6", 6, progress=seen.append, chunks=3)
+    W_leg = 7850 * math.pi * (2e-6) ** 2 * 0.1 * G0
+    n_star = 3e-3 * G0 / (2 * 72.74e-3 * 0.1 - W_leg)
+    assert len(res.crossings) == 1
+    # floatcalc.studies reports a count limit as the smallest whole number of legs that carries.
+    assert res.crossings[0] == math.ceil(n_star)
+    assert seen == pytest.approx([1 / 3, 2 / 3, 1.0])
+    assert res.shape == (6,)
+    # Continuous input: the mass four legs just carry, m* = 4 (2σL − W_leg) / g.
+    res = rp.study_sweep(s, "payload_mass", "1 g", "9 g", 41)
+    m_star = 4 * (2 * 72.74e-3 * 0.1 - W_leg) / G0
+    assert res.crossings[0] == pytest.approx(m_star, rel=3e-3)
+    with pytest.raises(InputError):
+        rp.study_sweep(s, "colour", "1", "2")
