@@ -39,7 +39,8 @@ Richardson extrapolation between ``steps`` and ``2·steps`` (``tight=True``). At
 settings the contact height is converged to about 1e-11 relative (tests check the step
 refinement and the far-field start ψ_s).
 
-Validity: static, axisymmetric, 1e-6 ≲ r_c ≲ 1e3 (tested 1e-4 … 300), 0 ≤ |ψ| ≤ π.
+Validity: static, axisymmetric, 0 ≤ |ψ| ≤ π; r_c from 1e-5 to 300 l_c (checked 1e-4 … 100 by the
+tests, spot-checked at 1e-5 and 300).
 
 References
 ----------
