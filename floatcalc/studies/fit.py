@@ -161,7 +161,7 @@ def fit_element(element: str, depth: Any, force: Any, *, radius: Any, thickness:
     read at the measured depths with its ``force_at_depth`` interpolant; depths past the end
     of the curve at a trial angle are clamped to its end and reported. The fit and the
     interval are as for :func:`fit_rod`. Each trial angle builds the element once (a fraction
-    of a second), so the starting scan is coarse (every 5°).
+    of a second), so the starting scan is coarse (every 10°).
 
     Parameters
     ----------
@@ -202,7 +202,7 @@ def fit_element(element: str, depth: Any, force: Any, *, radius: Any, thickness:
         return np.array([np.sum((model(t, liq.sigma)[0] - F) ** 2) for t in grid])
 
     warn = list(warnings)
-    out = _fit(D, F, model, scan, np.arange(5.0, 180.0, 5.0), liq.sigma, fit_surface_tension, c, warn)
+    out = _fit(D, F, model, scan, np.arange(10.0, 180.0, 10.0), liq.sigma, fit_surface_tension, c, warn)
     return _result(out, D, F, c, fit_surface_tension, liq, warn, lines, element=element, radius=R, length=None,
                    count=1)
 
