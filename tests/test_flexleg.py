@@ -137,3 +137,14 @@ def test_device_flexible_leg_kind_adds_up_far_apart_legs():
     weight = r.weight.to("N").magnitude
     assert r.verdict == "floats"
     assert r.max_payload.to("N").magnitude == pytest.approx(total_limit - weight, rel=1e-3)
+
+
+def test_leg_whose_tip_snaps_off_still_reaches_its_limit():
+    # Regression (found by Hypothesis): a soft, nearly non-wetting leg whose tip pulls off the
+    # surface on the way down. The search must pass the fold, end with the deepest point at the
+    # rod law's limit depth, and say that the load path jumped.
+    r = flexible_leg(0.0625e-3, 25e-3, "177 deg", youngs_modulus=4e9, material_density=7850.0,
+                     length_points=0, nodes=240)
+    assert np.max(r.shape["depth_m"]) == pytest.approx(r.depth_at_max.to("m").magnitude, rel=1e-8)
+    assert any("snapped" in w for w in r.warnings)
+    assert math.isfinite(r.payload.magnitude) and r.payload.magnitude > 0
