@@ -282,7 +282,7 @@ def _ring_inverse(Rr, b, theta, n):
     from scipy.interpolate import CubicSpline
 
     phi = np.linspace(0.0, PI, n)
-    d_i, _ = _inner_depth(Rr, b, theta, phi)
+    d_i, _ = _inner_depth(Rr, b, theta, phi, tight=False)  # first guesses only: Newton polishes
     Di = d_i + b * (1.0 - np.cos(phi))
     # longest run of rising depth (a wetting ring's raised start and a flooding end can fall)
     up = np.diff(Di) > 0
