@@ -426,9 +426,23 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
         Dc += dD
         g = max_depth(sol["y"]) - d_lim
         hist.append((Dc, g, sol["U"]))
-    if g == 0.0 or len(hist) < 2:
-        if g > 1e-6:  # landed beyond the limit right after a jump: step back along the new branch
-            sol = _back_to_limit(L, B, alpha, foundation, n, th0, end, Dc, sol, tol)
+    if len(hist) < 2 and g > tol:
+        # Landed beyond the limit right after a jump: walk back along the new branch until the
+        # deepest point is above the limit depth again, which brackets the crossing.
+        back, Ub = 0.01 * span, sol["U"]
+        for _ in range(30):
+            c = Dc - back
+            s_c = solve(L, B, alpha, c, foundation, n=n, th0=th0, end=end, guess=Ub)
+            steps += 1
+            gc = max_depth(s_c["y"]) - d_lim
+            if gc < 0.0:
+                hist = [(c, gc, s_c["U"]), (Dc, g, sol["U"])]
+                break
+            Dc, g, sol, Ub = c, gc, s_c, s_c["U"]
+            back *= 2.0
+        else:
+            raise ConvergenceError("flexible-leg limit search could not return to the limit after a snap")
+    if abs(g) <= tol or len(hist) < 2:
         sol.update(clamp_depth=float(sol["y"][0]), steps=steps, snaps=snaps)
         return sol
     # Bracket with g(a) < 0 <= g(b); Illinois variant of regula falsi.
@@ -455,27 +469,6 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
         raise ConvergenceError("flexible-leg limit search did not converge")
     best.update(clamp_depth=float(best["y"][0]), steps=steps, snaps=snaps)
     return best
-
-
-def _back_to_limit(L, B, alpha, foundation, n, th0, end, Dc, sol, tol):
-    """From a state beyond the limit, walk the clamp back until the deepest point is at D_lim."""
-    d_lim = foundation.d_lim
-    b, gb, Ub = Dc, max_depth(sol["y"]) - d_lim, sol["U"]
-    for _ in range(80):
-        c = b - max(gb, 1e-4)
-        s_c = solve(L, B, alpha, c, foundation, n=n, th0=th0, end=end, guess=Ub)
-        gc = max_depth(s_c["y"]) - d_lim
-        if abs(gc) < tol:
-            return s_c
-        b, gb, Ub = c, gc, s_c["U"]
-        if gc < 0:  # overshot: secant once more towards the crossing from this side
-            b = c + (-gc) * 0.99
-            s_b = solve(L, B, alpha, b, foundation, n=n, th0=th0, end=end, guess=Ub)
-            gb = max_depth(s_b["y"]) - d_lim
-            Ub = s_b["U"]
-            if abs(gb) < 1e-6:
-                return s_b
-    raise ConvergenceError("flexible-leg limit search could not return to the limit after a snap")
 
 
 def rigid_limit(L: float, foundation: Foundation, th0, n_quad: int = 4001):
