@@ -202,7 +202,9 @@ def pin(radius: Any, contact_angle: Any, *, depth: Any | None = None, length: An
     PinResult
         ``meniscus_height`` signed (positive above the undisturbed level), ``vertical_force``
         upward (negative: the liquid pulls the pin down), its parts, the Wilhelmy force
-        σ P cos θ, meniscus volume, own weight, payload, curve over tip depth, profile.
+        σ P cos θ, meniscus volume, own weight, payload, profile, and ``curve``: force against
+        tip depth from first contact to the pin length (if given; else max(2 l_c, 4b) past
+        the start of the side stage).
 
     Notes
     -----
@@ -248,7 +250,7 @@ def pin(radius: Any, contact_angle: Any, *, depth: Any | None = None, length: An
         weight = 0.0
     else:
         weight = rho_s * math.pi * b * b * L * liq.g
-    cur = rb.pad_curve(bs, math.inf, th)
+    cur = rb.pad_curve(bs, math.inf, th, depth_max=None if L is None else L / lc)
     stage_names = [rb.STAGES[int(k)] for k in cur["stage"]]
     h = -st["d"]
     from .core import axisym

@@ -146,7 +146,7 @@ def _psi_at_depth(a, d_target, lo, hi):
     return 0.5 * (lo + hi)
 
 
-def pad_curve(a: float, t: float, theta: float, n: int = 120):
+def pad_curve(a: float, t: float, theta: float, n: int = 120, depth_max: float | None = None):
     """Force–depth curve of a flat pad through its three stages, up to flooding of the top face.
 
     Parameters
@@ -155,6 +155,9 @@ def pad_curve(a: float, t: float, theta: float, n: int = 120):
         Pad radius.
     t : float [l_c]
         Pad thickness (``np.inf`` for a pin: no top edge).
+    depth_max : float [l_c], optional
+        For a pin (t = ∞): depth at which the curve stops (default: the side stage runs
+        max(2, 4a) beyond its start).
     theta : float [rad]
         Advancing contact angle.
 
@@ -172,7 +175,8 @@ def pad_curve(a: float, t: float, theta: float, n: int = 120):
     D_top = t + d_side  # depth at which the line reaches the top edge
     D2_lo = max(0.0, d_side)
     if D_top > D2_lo:
-        D2_hi = D_top if np.isfinite(t) else D2_lo + max(2.0, 4.0 * a)
+        D2_hi = D_top if np.isfinite(t) else (
+            max(depth_max, D2_lo + 1e-6) if depth_max is not None else D2_lo + max(2.0, 4.0 * a))
         D2 = np.linspace(D2_lo, D2_hi, n)
         parts.append((np.full_like(D2, psi_side), D2, 1))
     if np.isfinite(t):
