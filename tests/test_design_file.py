@@ -84,9 +84,15 @@ def test_misspelt_top_level_and_kind():
     assert "legs[0].kind: unknown element kind (did you mean 'rod'?)" in msg
 
 
-def test_round_elements_refuse_clearly_until_available():
-    with pytest.raises(InputError, match=r"legs\[0\].kind: element kind 'ball' needs floatcalc.round"):
-        load_design(None, text=GOOD.replace('kind = "rod"', 'kind = "ball"', 1))
+def test_round_element_keys_validated():
+    text = GOOD.replace('kind = "rod"', 'kind = "ring"', 1).replace('radius = "0.2 mm"\nlength = "15 mm"',
+                                                                  'ring_radius = "2 mm"\nwire_radius = "3 mm"', 1)
+    with pytest.raises(InputError, match=r"legs\[0\].wire_radius: must be smaller than ring_radius"):
+        load_design(None, text=text)
+    text = GOOD.replace('kind = "rod"', 'kind = "ball"', 1)
+    with pytest.raises(InputError) as exc:
+        load_design(None, text=text)
+    assert "legs[0].length: unknown key" in str(exc.value)
 
 
 def test_schema_version_required_and_checked():

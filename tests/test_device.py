@@ -103,6 +103,21 @@ def test_far_apart_elements_add_up_to_their_single_limits():
     assert total == pytest.approx(4 * one, rel=1e-4)
 
 
+def test_far_apart_balls_add_up_to_their_single_limits():
+    """Three ball feet 30 l_c apart (round element kind over floatcalc.round): the device carries
+    three single-ball limits at capacity (sum of separate elements)."""
+    from floatcalc.round import ball
+
+    legs = [{"kind": "ball", "position": [f"{60 * math.cos(a):.6f} mm", f"{60 * math.sin(a):.6f} mm"],
+             "radius": "1 mm", "material": "nylon", "coating": {"advancing": "150 deg"}}
+            for a in (0.0, 2 * math.pi / 3, 4 * math.pi / 3)]
+    d = design_from_data({"schema_version": 1, "liquid": {"name": "water"},
+                          "body": {"mass": "0.02 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": legs})
+    r = solve_device(d)
+    one = ball("1 mm", "150 deg", material_density="1140 kg/m^3").max_force.to("N").magnitude
+    assert (r.weight + r.max_payload).to("N").magnitude == pytest.approx(3 * one, rel=1e-4)
+
+
 @pytest.mark.parametrize("spacing_mm, tol", [(8.0, 0.005), (5.0, 0.025)])
 def test_superposition_agrees_with_exact_parallel_rods(spacing_mm, tol):
     """Two long parallel rods: device model (superposed linear menisci) against the exact 2D

@@ -131,7 +131,7 @@ def _residual(sup, u, W, xg, yg):
     return np.array([F.sum() - W, F @ sup.x - W * xg, F @ sup.y - W * yg]) / W, e
 
 
-def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, max_iter: int = 40,
+def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, max_iter: int = 80,
           start=None):
     """Heave, pitch and roll slopes (z, p, q) that carry weight W [σ l_c] at (x_G, y_G) [l_c].
 
@@ -178,13 +178,18 @@ def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, m
         # Jacobian of the uncoupled balance from the table slopes (the weak coupling only
         # slows Newton's convergence to linear, it does not move the solution).
         k = sup.lookup(e, slopes=True)[2]
+        # points past their limit or not yet touching have zero slope; a small floor keeps
+        # the Jacobian regular (it only steers the iteration)
+        k = np.maximum(k, 1e-3 * max(float(np.mean(np.abs(k))), 1e-12))
         X = np.stack([np.ones_like(sup.x), sup.x, sup.y])
         J = (X * k) @ X.T / W
         try:
             step = np.linalg.solve(J, -r)
         except np.linalg.LinAlgError:
             step = np.linalg.lstsq(J, -r, rcond=None)[0]
-        lam = 1.0
+        # trust region: no point moves more than a quarter capillary length in one step
+        move = float(np.max(np.abs(step[0] + step[1] * sup.x + step[2] * sup.y)))
+        lam = min(1.0, 0.25 / move) if move > 0 else 1.0
         for _ in range(12):
             un = u + lam * step
             rn, en = _residual(sup, un, W, xg, yg)
@@ -236,11 +241,18 @@ def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float,
         last[0] = u
         return float(np.max(e - sup.limit_depth)), u, e
 
-    g0, u0, e0 = g(0.0)
-    if u0 is None:
-        raise ConvergenceError("device equilibrium did not converge under its own weight")
+    g0, u0, e0 = g(0.0)  # g0 = 1 if no balance exists under the own weight (too heavy)
     if g0 >= 0.0:  # fails under its own weight: how much lighter would it have to be
-        P = brentq(lambda P: g(P)[0], -W * (1.0 - 1e-9), 0.0, rtol=rtol, xtol=1e-12 * W)
+        hi = 0.0
+        for k in range(1, 25):  # lighten step by step until a balance within all limits exists
+            lo = -W * (1.0 - 0.5**k)
+            if g(lo)[0] < 0.0:
+                break
+            hi = lo
+        else:
+            raise ConvergenceError("no static equilibrium found even for a nearly weightless device "
+                                   "(check the element layout and the centre of mass)")
+        P = brentq(lambda P: g(P)[0], lo, hi, rtol=rtol, xtol=1e-12 * W)
     else:
         # Step out with a stiffness-based prediction until the margin changes sign, then Brent.
         kz = max(float(np.sum((sup._F[:, 1:] - sup._F[:, :-1]).max(axis=1) / sup._step)), 1e-12)

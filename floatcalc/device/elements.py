@@ -105,6 +105,25 @@ class ElementModel:
         return float(self.depth[:, -1].min())
 
 
+def from_first_contact(D, *tables):
+    """Cut tabulated laws so they start at depth 0 (first contact when pushed down from above).
+
+    Parts of a force–depth curve at negative depth (liquid clinging to an element held above
+    the surface) belong to the lifting (receding) branch and are not reached by a device set
+    down on the liquid. The value at depth 0 is interpolated; a negative force there is the
+    real snap-in pull of a freshly wetted element.
+    """
+    D = np.asarray(D, dtype=float)
+    if D[0] >= 0.0 or D[-1] <= 0.0:
+        return (D, *tables)
+    keep = D > 0.0
+    out = [np.concatenate([[0.0], D[keep]])]
+    for T in tables:
+        T = np.asarray(T, dtype=float)
+        out.append(np.concatenate([[np.interp(0.0, D, T)], T[keep]]))
+    return tuple(out)
+
+
 class ElementKind:
     """Base adapter; subclasses set ``name``, ``keys`` and implement :meth:`model`."""
 
@@ -225,6 +244,9 @@ class RodKind(ElementKind):
         F[0] += 0.5 * ends
         F[-1] += 0.5 * ends
         hd = 2.0 * np.sin(0.5 * (phi + th - np.pi))
+        D0 = D
+        D, hd = from_first_contact(D0, hd)
+        F = np.array([from_first_contact(D0, row)[1] for row in F])
         ux, uy = math.cos(p["heading"]), math.sin(p["heading"])
         along = (np.arange(n) + 0.5) / n * p["length"] - 0.5 * p["length"]   # [m]
         cx, cy = p["position"]
@@ -383,6 +405,7 @@ class _RoundKind(ElementKind):
         D = np.append(D[keep], d_lim)
         F = np.append(F[keep], f_lim)
         Fst = np.append(Fst[keep], st_lim)
+        D, F, Fst = from_first_contact(D, F, Fst)
         grid = np.linspace(D[0], D[-1], TABLE_POINTS)
         Fg = np.interp(grid, D, F)
         rc = max(self.outer_radius(p, res), 1e-9)
