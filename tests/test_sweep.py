@@ -119,3 +119,16 @@ def test_ranges_hit_their_ends_and_are_monotone(a, b, n, log):
     if log:
         r = v[1:] / v[:-1]
         assert np.allclose(r, r[0], rtol=1e-9)
+
+
+def test_ball_sweep_small_bond_limit():
+    # Small sphere (Bond number → 0): largest capillary force 2πRσ sin²(θ/2) (flotation
+    # literature, Scheludko and co-workers; Nutt 1960; PHYSICS.md). R = 0.05 mm gives
+    # Bo ≈ 3e-4; the pressure part adds O(R/l_c) ≈ 2 %, so 2.5 % is allowed.
+    from floatcalc.studies.element_model import element_model
+
+    liq = water()
+    R = 0.05e-3
+    s = sweep(element_model("ball", liq, radius=R), ["contact_angle=100deg:170deg:4"], executor="serial")
+    th = s.axes[0].values
+    assert np.allclose(s.outputs["max_force"], 2 * math.pi * R * liq.sigma * np.sin(th / 2) ** 2, rtol=0.025)

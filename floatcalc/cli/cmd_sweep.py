@@ -19,7 +19,9 @@ def register(sub) -> None:
                        "NAME=START:STOP:N (linear) or NAME=START:STOP:N:log, e.g. radius=0.05mm:0.5mm:50:log. "
                        "Rod inputs: radius, length, contact_angle, count, material_density, surface_tension, "
                        "liquid_density, payload_mass. Device inputs (--design/--example): contact_angle_shift, "
-                       "surface_tension, radius_factor, length_factor, body_mass, payload_mass.")
+                       "surface_tension, radius_factor, length_factor, body_mass, payload_mass. Ball/pad inputs "
+                       "(--element): radius, thickness (pad), contact_angle, surface_tension, material_density, "
+                       "payload_mass.")
     p.add_argument("--vary", action="append", required=True, metavar="NAME=START:STOP:N[:log]",
                    help="input to vary (give once or twice)")
     add_rod_args(p)

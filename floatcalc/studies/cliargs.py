@@ -52,6 +52,9 @@ def add_design_args(p) -> None:
     g = p.add_argument_group("whole device (instead of the rod options)")
     g.add_argument("--design", default=None, help="device design file (TOML); see 'floatcalc device --help'")
     g.add_argument("--example", default=None, help="built-in invented device, e.g. skimmer")
+    g.add_argument("--element", default="rod", help="rod legs (default), or one ball or pad (uses --radius, "
+                   "--contact-angle, --material-density, --payload, --thickness)")
+    g.add_argument("--thickness", default="0.5mm", help="pad thickness (default 0.5mm)")
 
 
 def model_from_args(args, liquid_from_args):
@@ -77,6 +80,18 @@ def model_from_args(args, liquid_from_args):
         if getattr(args, "surface_tension", None) is not None:
             m = _with_base(m, surface_tension=to_si(args.surface_tension, "surface_tension", "surface_tension"))
         return m
+    element = getattr(args, "element", "rod") or "rod"
+    if element in ("ball", "pad"):
+        from .. import _validate as v
+        from .element_model import element_model
+
+        vals = rod_values(args)
+        base = {k: vals[k] for k in ("radius", "contact_angle", "material_density", "payload_mass")}
+        if element == "pad":
+            base["thickness"] = v.length(args.thickness, "thickness")
+        return element_model(element, liquid_from_args(args), **base)
+    if element != "rod":
+        raise input_error("element", "must be rod, ball or pad", repr(element))
     return rod_model(liquid_from_args(args), **rod_values(args))
 
 
