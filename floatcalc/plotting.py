@@ -256,8 +256,8 @@ def force_depth(result: Any, ax=None, load: Any = None, operating_depth: Any = N
 def compare_curves(items: list[tuple[str, Any]], ax=None):
     """Overlaid force–depth curves of several assessed designs (:class:`~floatcalc.report.Assessment`).
 
-    Each element group gets a line ending in its limit marker; the design's total weight is a
-    dotted line in the same colour.
+    Each element group gets a line ending in its limit marker, and the load that curve carries
+    (its share of the design's weight) as a dotted line in the same colour.
     """
     ax = _axes(ax)
     for k, (name, a) in enumerate(items):
@@ -271,11 +271,12 @@ def compare_curves(items: list[tuple[str, Any]], ax=None):
                     lw=1.8, ls=("-", "--", "-.")[j % 3], label=lab)
             ax.scatter([o.result.depth_at_max.to("mm").magnitude], [o.result.max_force.to("mN").magnitude],
                        marker="v", color=col, s=50, zorder=5)
-        ax.axhline(a.total_load.to("mN").magnitude, color=col, lw=0.9, ls=":")
+            ax.axhline((o.load_share / getattr(o, "per_element", 1)).to("mN").magnitude, color=col, lw=0.9,
+                       ls=":")
     ax.axhline(0.0, color="#999999", lw=0.6)
     ax.set_xlabel(DEPTH_LABEL)
     ax.set_ylabel(FORCE_LABEL)
-    ax.set_title("Designs compared: force against depth (▼ limit, dotted: weight carried)",
+    ax.set_title("Designs compared: force against depth (▼ limit, dotted: load each curve carries)",
                  fontsize=10, loc="left")
     ax.legend(fontsize=7.5, frameon=False, loc="upper left")
     _style(ax)
