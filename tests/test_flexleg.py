@@ -148,3 +148,17 @@ def test_leg_whose_tip_snaps_off_still_reaches_its_limit():
     assert np.max(r.shape["depth_m"]) == pytest.approx(r.depth_at_max.to("m").magnitude, rel=1e-8)
     assert any("snapped" in w for w in r.warnings)
     assert math.isfinite(r.payload.magnitude) and r.payload.magnitude > 0
+
+
+def test_device_flexible_leg_needs_a_modulus_or_material():
+    from floatcalc.device.design import design_from_data
+
+    leg = {"kind": "flexible_leg", "name": "f", "position": ["0 mm", "0 mm"], "radius": "0.1 mm",
+           "length": "30 mm", "coating": {"advancing": "150 deg"}, "material_density": "7850 kg/m^3"}
+    data = {"schema_version": 1, "liquid": {"name": "water"},
+            "body": {"mass": "0.1 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": [leg]}
+    with pytest.raises(InputError, match=r"legs\[0\]\.youngs_modulus: required"):
+        design_from_data(data)
+    leg["youngs_modulus"] = "-2 GPa"
+    with pytest.raises(InputError, match=r"legs\[0\]\.youngs_modulus: must be between"):
+        design_from_data(data)

@@ -300,6 +300,19 @@ class FlexibleLegKind(ElementKind):
         "youngs_modulus": Key("str", help="Young's modulus, e.g. '200 GPa' (default: from the material)"),
     }
 
+    def check(self, p, path, problems):
+        from ..errors import InputError
+        from ..materials import youngs_modulus
+
+        if p.get("youngs_modulus") is not None:
+            try:
+                youngs_modulus(p["youngs_modulus"])
+            except InputError as exc:
+                problems.append(f"{path}.{exc}")
+        elif p.get("material_name") is None:
+            problems.append(f"{path}.youngs_modulus: required when no material name is given "
+                            f"(e.g. '200 GPa'), got neither")
+
     def model(self, p, liquid):
         from ..flexleg import flexible_leg_curve
 
