@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from ._common import fmt, liquid_from_args
+from ._common import liquid_from_args
 from .cmd_ball import add_common, limit_rows, liquid_row, output
 
 ORDER = 42
@@ -30,5 +30,4 @@ def run(args) -> int:
             ("stages (contact line)", ""), *stages,
             *limit_rows(r, [("stage at limit", r.stage_at_max)])]
     rows[-1] = ("Bond number", f"{r.bond_number:.3g}  (L = pad radius)")
-    _ = fmt
     return output(args, r, "Flat pad: axisymmetric meniscus with edge pinning (Gibbs' inequality)", rows)

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from ._common import fmt, liquid_from_args
+from ._common import liquid_from_args
 from .cmd_ball import add_common, limit_rows, liquid_row, output
 
 ORDER = 43
@@ -34,5 +34,4 @@ def run(args) -> int:
                 ("limit per wire length", f"{d['max_force_per_length_N_per_m'] * 1e3:.4g} mN/m"),
             ])]
     rows[-1] = ("Bond number", f"{r.bond_number:.3g}  (L = wire radius)")
-    _ = fmt
     return output(args, r, "Ring footpad: outer and enclosed axisymmetric menisci", rows)
