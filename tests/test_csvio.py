@@ -74,3 +74,14 @@ def test_cli_fit_reports_bad_rows(tmp_path, capsys):
     err = capsys.readouterr().err
     assert code == 2
     assert len(err.strip().splitlines()) == 1 and "line 4" in err
+
+
+def test_every_bad_row_is_named_even_when_many():
+    text = "depth [mm],force [mN]\n" + "".join("x,1\n" for _ in range(30)) + "0.1,1\n"
+    with pytest.raises(InputError) as exc:
+        read_table(io.StringIO(text), REQ)
+    msg = str(exc.value)
+    assert "30 bad row(s)" in msg and "\n" not in msg
+    for line in range(2, 32):
+        assert f"{line}" in msg
+    assert "line 32" not in msg and ", 32" not in msg

@@ -31,7 +31,7 @@ from ..errors import input_error
 from ..units import KINDS, to_si
 
 _HEADER = re.compile(r"^\s*([^\[\]]+?)\s*\[\s*([^\[\]]*?)\s*\]\s*$")
-_MAX_LISTED = 12  # bad rows named in one message; the count says how many more
+_MAX_LISTED = 12  # bad rows described in full in one message; the rest are named by line number
 
 
 @dataclass(frozen=True)
@@ -143,7 +143,9 @@ def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = Fals
             values[name].append(x)
     warnings: list[str] = []
     if bad:
-        listed = "; ".join(bad[:_MAX_LISTED]) + (f"; and {len(bad) - _MAX_LISTED} more" if len(bad) > _MAX_LISTED else "")
+        listed = "; ".join(bad[:_MAX_LISTED])
+        if len(bad) > _MAX_LISTED:  # every bad row is still named, by line number only
+            listed += "; also bad: lines " + ", ".join(b.split(":")[0][5:] for b in bad[_MAX_LISTED:])
         if not skip_bad_rows:
             raise input_error(field, f"{len(bad)} bad row(s) ({listed}); fix them or use --skip-bad-rows",
                               f"{len(rows)} data rows")
