@@ -212,7 +212,7 @@ def utilisation(sup: Support, e) -> np.ndarray:
     return (e - d0) / (sup.limit_depth - d0)
 
 
-def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float, *, rtol: float = 1e-9):
+def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float, *, rtol: float = 1e-8):
     """Largest extra load P [σ l_c] at (px, py) before the first point reaches its limit.
 
     The margin g(P) = max_j (e_j − e_lim,j) rises with P; Brent's method on g finds its root.
@@ -297,22 +297,26 @@ def best_capacity(sup: Support, W: float, xg: float, yg: float, at_centre=None):
         # Without coupling e is linear in heave: the deepest admissible heave is explicit.
         # Coupling makes the surface sag a little with depth; a few corrections converge.
         z = float(np.min(sup.limit_depth - p * sup.x - q * sup.y - sup.offset))
-        for _ in range(8):
-            gap = float(np.min(sup.limit_depth - point_state(sup, z, p, q)[1]))
+        for _ in range(6):
+            st = point_state(sup, z, p, q)
+            gap = float(np.min(sup.limit_depth - st[1]))
+            if abs(gap) < 1e-9:
+                return z, st
             z += gap
-            if abs(gap) < 1e-12:
-                break
-        return z - 1e-12
+        return z, point_state(sup, z, p, q)
 
     def neg(t):
-        z = best_heave(*t)
-        return -float(point_state(sup, z, *t)[2].sum())
+        return -float(best_heave(*t)[1][2].sum())
 
-    res = minimize(neg, u0[1:], method="Nelder-Mead",
-                   options={"xatol": 1e-6, "fatol": 1e-9 * max(W, 1e-12), "maxiter": 200})
+    t0 = np.asarray(u0[1:], dtype=float)
+    span = max(float(np.ptp(sup.x)), float(np.ptp(sup.y)), 1e-3)
+    d = 0.05 / span  # initial simplex: tilts that move the far points by 0.05 l_c
+    simplex = np.array([t0, t0 + [d, 0.0], t0 + [0.0, d]])
+    res = minimize(neg, t0, method="Nelder-Mead",
+                   options={"xatol": 1e-4 / span, "fatol": 1e-7 * max(W, 1e-12), "maxiter": 150,
+                            "initial_simplex": simplex})
     t = res.x if -res.fun >= P0 + W else u0[1:]
-    z = best_heave(*t)
-    _, _, F, _ = point_state(sup, z, *t)
+    _, (_, _, F, _) = best_heave(*t)
     if F.sum() - W < P0:  # never report less than the load at the centre of mass
         _, _, F, _ = point_state(sup, *u0)
     P = float(F.sum() - W)

@@ -366,7 +366,7 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span):
     for k in range(1, 9):  # step out in eighths of the span, then Brent
         b = span * k / 8.0
         if g(b) >= 0:
-            return brentq(g, a, b, xtol=1e-6)
+            return brentq(g, a, b, xtol=1e-5)  # 1e-5 l_c: tens of nanometres
         a = b
     return None
 
