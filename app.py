@@ -382,7 +382,8 @@ def results_panel(a: rp.Assessment) -> None:
     for i, o in enumerate(a.elements, 1):
         r = o.result
         od = "sinks" if o.operating_depth is None else f"{o.operating_depth.to('mm').magnitude:.3g}"
-        rows.append({"group": i, "elements": o.label,
+        st.caption(f"group {i}: {o.label}")
+        rows.append({"group": i,
                      "limit force [mN]": f"{o.max_force.to('mN').magnitude:.4g}",
                      "surface-tension part [mN]": f"{o.per_element * r.surface_tension_part.to('mN').magnitude:.4g}",
                      "pressure part [mN]": f"{o.per_element * r.pressure_part.to('mN').magnitude:.4g}",
@@ -602,7 +603,7 @@ def compare_panel(current_name: str, current_key: str | None) -> None:
         except InputError as exc:
             st.error(f"{name}: {exc}", icon="⚠️")
     st.dataframe(rp.comparison_rows([(n, a) for n, _, a in assessed]), hide_index=True, width="stretch")
-    st.image(figure_png("compare", "", 0, json.dumps([(n, kk) for n, kk, _ in assessed])), width="stretch")
+    st.image(figure_png("compare", "", 0, json.dumps([(n, kk) for n, kk, _ in assessed])), width=760)
 
 
 def reports_panel(a, key: str, toml_text: str) -> None:
