@@ -24,7 +24,7 @@ Every kind shares ``position``, ``mount``, ``material`` / ``material_density`` a
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Callable
 
 import numpy as np
@@ -504,7 +504,10 @@ class PinKind(_RoundKind):
     def compute(self, p, th, liquid):
         from .. import round as rd
 
-        return rd.pin(p["radius"], th, length=p["length"], liquid=liquid, material_density=p["density"])
+        res = rd.pin(p["radius"], th, length=p["length"], liquid=liquid, material_density=p["density"])
+        # the device uses the force over tip depth (its curve includes the tip pressure), so
+        # the single-depth note about a tip taken far below does not apply here
+        return replace(res, warnings=tuple(w for w in res.warnings if not w.startswith("tip depth not given")))
 
     def limit_depth(self, p, res, D):
         return float(min(p["length"], D[-1]))
