@@ -72,6 +72,8 @@ def print_device(r, title: str | None = None) -> None:
     ]
     if r.payload.magnitude > 0:
         rows.append(("payload", f"{_mN(r.payload)} = {r.payload.to('N').magnitude / g * 1e3:.4g} g"))
+    pos = r.max_payload_position.to("mm").magnitude
+    where = f"({pos[0]:.2f}, {pos[1]:.2f}) mm" if r.payload.magnitude > 0 else "the centre of mass"
     verdict = r.verdict.upper()
     if r.shortfall is not None:
         verdict += f" (short by {_mN(r.shortfall)} = {r.shortfall.to('N').magnitude / g * 1e3:.4g} g)"
@@ -79,7 +81,7 @@ def print_device(r, title: str | None = None) -> None:
         ("verdict", verdict),
         ("heave (depth at origin)", _mm(r.heave)),
         ("pitch / roll", f"{r.pitch.magnitude:+.3f}° / {r.roll.magnitude:+.3f}° (+: the +x / +y side lower)"),
-        ("extra payload at centre of mass", f"{_mN(r.max_payload)} = {r.max_payload_mass.to('g').magnitude:.4g} g"),
+        (f"largest extra payload at {where}", f"{_mN(r.max_payload)} = {r.max_payload_mass.to('g').magnitude:.4g} g"),
         ("first to give way", r.first_to_fail),
         ("best payload position", f"({r.best_payload_position.to('mm').magnitude[0]:.2f}, "
                                   f"{r.best_payload_position.to('mm').magnitude[1]:.2f}) mm, carries "

@@ -47,6 +47,10 @@ REFERENCES = (
     "Bush & Hu, Annu. Rev. Fluid Mech. 38, 339 (2006): Baudoin number",
 )
 TILT_WARN_DEG = 10.0
+ELECTRONICS_CAUTION = (
+    "Devices with batteries, motors or electronics: keep chargers and mains-powered instruments "
+    "away from the bath, and dry the device before powering it again after it has been in the liquid."
+)
 #: Elements whose footprints come closer than this many capillary lengths get a warning: for
 #: two long parallel rods the superposition is within 2 % of the exact 2D solution at 1.65 l_c
 #: between footprints and 15 % too high at 0.9 l_c (tests/test_device.py).
@@ -169,6 +173,7 @@ class DeviceResult(Result):
     elements: tuple = field(default=())
     max_payload: Any = qfield("N")
     max_payload_mass: Any = qfield("kg")
+    max_payload_position: Any = qfield("m")
     first_to_fail: str = field(default="")
     best_payload: Any = qfield("N")
     best_payload_position: Any = qfield("m")
@@ -330,6 +335,7 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
         heave=Q_(u[0] * lc, "m"), pitch=Q_(pitch, "deg"), roll=Q_(roll, "deg"),
         elements=tuple(states),
         max_payload=Q_(max(Pcap, 0.0) * fs, "N"), max_payload_mass=Q_(max(Pcap, 0.0) * fs / g, "kg"),
+        max_payload_position=Q_(np.array([px, py]), "m"),
         first_to_fail=first,
         best_payload=Q_(max(Pbest, 0.0) * fs, "N"), best_payload_position=Q_(np.array([bx, by]) * lc, "m"),
         stiffness_heave=Q_(kz * s, "N/m"), stiffness_pitch=Q_(kp * s * lc * lc, "N*m/rad"),
@@ -337,7 +343,7 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
         tipping=tuple(tipping), tipping_payload=Q_(P_ref * fs, "N"),
         baudoin_number=W / (s * perim),
         device=dev, contact_depths=contact_depths * lc,
-        warnings=tuple(warnings), cautions=liq.cautions,
+        warnings=tuple(warnings), cautions=(*liq.cautions, ELECTRONICS_CAUTION),
     )
 
 
