@@ -30,6 +30,7 @@ from .units import Q_
 #: Default leg material when none is given: steel, 7850 kg/m³ (common practice).
 DEFAULT_MATERIAL_DENSITY = 7850.0
 END_EFFECT_LIMIT = 20.0  # rod lengths below this many capillary lengths get a warning
+MIN_CONTINUUM_RADIUS = 1e-6  # m; below this the continuum model gets a warning (common practice)
 
 REFERENCES = (
     "Vella, Lee & Kim, Langmuir 22, 5979 (2006): 2D meniscus and force on a floating rod",
@@ -198,6 +199,12 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
             f"length {L * 1e3:.3g} mm is under 20 capillary lengths ({20 * lc * 1e3:.3g} mm): "
             "end effects (meniscus wrapping round the rod ends) are not included here; the end-cap "
             f"model of floatcalc.core.finite_rod adds about {100 * extra:.2g} % (used by 'floatcalc device')"
+        )
+    if R < MIN_CONTINUUM_RADIUS:
+        warnings.append(
+            f"radius {R * 1e6:.3g} µm is below 1 µm: roughness, line tension and coating thickness "
+            "are comparable to the leg there, and the continuum meniscus model is not validated "
+            "(common practice bound)"
         )
     if n > 1:
         warnings.append(f"{n} legs are treated as far apart (several capillary lengths, "
