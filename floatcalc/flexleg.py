@@ -104,7 +104,7 @@ class FlexLegResult(Result):
     pull_off_force: Any = qfield("N", default=None)
     nodes: int = field(default=0)
     shape: dict | None = field(default=None, json=False)
-    length_curve: LengthCurve | None = field(default=None, json=False)
+    length_curve: LengthCurve | None = field(default=None)
     liquid: Liquid | None = field(default=None, json=False)
     warnings: tuple[str, ...] = field(default=())
     cautions: tuple[str, ...] = field(default=())
@@ -316,7 +316,7 @@ def flexible_leg(radius: Any, length: Any, contact_angle: Any, *, youngs_modulus
                         "per cent uncertainty")
     if strain > STRAIN_WARN:
         warnings.append(f"bending strain {strain * 100:.3g} % exceeds 0.5 %: many metal wires yield "
-                        "before this (superelastic NiTi tolerates a few per cent)")
+                        "before this (polymers and superelastic NiTi tolerate a few per cent)")
     if L < END_EFFECT_LIMIT * lc:
         warnings.append(f"length {L * 1e3:.3g} mm is under 20 capillary lengths ({20 * lc * 1e3:.3g} mm): "
                         "end effects at the tip are not included")
