@@ -162,3 +162,10 @@ def test_device_flexible_leg_needs_a_modulus_or_material():
     leg["youngs_modulus"] = "-2 GPa"
     with pytest.raises(InputError, match=r"legs\[0\]\.youngs_modulus: must be between"):
         design_from_data(data)
+
+
+def test_cli_flexible_refuses_spacing(capsys):
+    # Flexible legs are modelled far apart; a shared-meniscus spacing must not be ignored silently.
+    assert main(["leg", "--radius", "0.1mm", "--length", "30mm", "--contact-angle", "150deg",
+                 "--material", "steel", "--spacing", "3mm", "--count", "2"]) == 2
+    assert capsys.readouterr().err.startswith("floatcalc: error: spacing:")

@@ -33,10 +33,10 @@ def register(sub) -> None:
 
 def run(args) -> int:
     liq = liquid_from_args(args)
+    if args.youngs_modulus is not None or args.material is not None:
+        return _run_flexible(args, liq)  # refuses --spacing (flexible legs are modelled far apart)
     if args.spacing is not None:
         return _run_parallel(args, liq)
-    if args.youngs_modulus is not None or args.material is not None:
-        return _run_flexible(args, liq)
     r = rod(args.radius, args.length, args.contact_angle, receding_angle=args.receding_angle,
             liquid=liq, material_density=args.material_density, count=args.count)
     if args.json:
