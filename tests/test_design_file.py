@@ -95,6 +95,12 @@ def test_round_element_keys_validated():
     assert "legs[0].length: unknown key" in str(exc.value)
 
 
+def test_rod_row_spacing_must_clear_the_rods():
+    text = GOOD.replace('kind = "rod"', 'kind = "rod_row"\ncount = 3\nspacing = "0.3 mm"', 1)
+    with pytest.raises(InputError, match=r"legs\[0\].spacing: must exceed twice the radius \(0.4 mm\)"):
+        load_design(None, text=text)
+
+
 def test_schema_version_required_and_checked():
     with pytest.raises(InputError, match="schema_version: this floatcalc reads version 1, got 2"):
         load_design(None, text=GOOD.replace("schema_version = 1", "schema_version = 2"))

@@ -133,6 +133,26 @@ def test_superposition_agrees_with_exact_parallel_rods(spacing_mm, tol):
     assert total == pytest.approx(exact * (1 + ends), rel=tol)
 
 
+def test_rod_row_kind_uses_the_exact_parallel_solution():
+    """A ``rod_row`` element carries the exact parallel-rod limit (adapter consistency), and at
+    3 l_c spacing it agrees with three separate rods and superposed menisci (another method)
+    within 1 % once the separate rods' end caps are removed."""
+    L = 100.0
+    row = design_from_data({"schema_version": 1, "liquid": {"name": "water"},
+                            "body": {"mass": "0.5 g", "centre_of_mass": ["0 mm", "0 mm"]},
+                            "legs": [{"kind": "rod_row", "position": ["0 mm", "0 mm"], "radius": "0.25 mm",
+                                      "length": f"{L} mm", "count": 3, "spacing": "8.2 mm", "material": "steel",
+                                      "coating": {"advancing": f"{THETA} deg"}}]})
+    r = solve_device(row)
+    exact = parallel_rods("0.25 mm", f"{L} mm", f"{THETA} deg", 3, "8.2 mm").max_force.to("N").magnitude
+    carried = (r.weight + r.max_payload).to("N").magnitude
+    assert carried == pytest.approx(exact, rel=1e-5)
+    sep = solve_device(rods([(0, 8.2, 0, L), (0, 0, 0, L), (0, -8.2, 0, L)], radius="0.25 mm", mass="0.5 g"))
+    one = finite_rod.limit(0.25e-3 / LC, math.radians(THETA), L * 1e-3 / LC)
+    ends = one["end_part"] / (one["force"] - one["end_part"])
+    assert (sep.weight + sep.max_payload).to("N").magnitude / (1 + ends) == pytest.approx(carried, rel=0.01)
+
+
 def test_keller_whole_device_by_integrating_the_superposed_meniscus():
     """Keller's theorem (Phys. Fluids 10, 3009, 1998) for the whole device: the surface-tension
     force of all elements equals the weight of liquid displaced by the superposed meniscus,

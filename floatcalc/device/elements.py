@@ -283,6 +283,92 @@ class RodKind(ElementKind):
 register_kind(RodKind())
 
 
+class RodRowKind(ElementKind):
+    """N long parallel rods at equal spacing on one frame: exact 2D shared menisci.
+
+    Uses :mod:`floatcalc.core.parallel2d` (turning-point first integral in each gap), whose law
+    holds for a row level across its rods; if the device rolls across the row, each rod's force
+    is taken from that law at its own depth (an approximation for small tilts). Outer rods carry an outer
+    and an inner side, inner rods two inner sides. Seen from outside, the row's meniscus is that
+    of a strip as wide as the row. End effects are not included (long rods; a warning below
+    20 l_c).
+    """
+
+    name = "rod_row"
+    summary = "row of long parallel rods sharing their menisci (exact 2D)"
+    keys = {
+        **COMMON_KEYS,
+        "radius": Key("length", required=True, help="rod radius"),
+        "length": Key("length", required=True, help="wetted length of each rod"),
+        "count": Key("int", required=True, help="number of rods (2–50)", lo=2, hi=50),
+        "spacing": Key("length", required=True, help="centre-to-centre spacing, more than 2 radii"),
+        "heading": Key("signed_angle", default=0.0, help="direction of the rods' axes in plan, from +x",
+                       lo=-2 * math.pi, hi=2 * math.pi),
+        "segments": Key("int", default=5, help="force points along each rod (2–50)", lo=2, hi=50),
+    }
+
+    def check(self, p, path, problems):
+        if p["spacing"] <= 2 * p["radius"]:
+            problems.append(f"{path}.spacing: must exceed twice the radius ({2 * p['radius'] * 1e3:.4g} mm): "
+                            f"the rods would overlap, got {p['spacing'] * 1e3:.4g} mm")
+        if p["length"] < 4 * p["radius"]:
+            problems.append(f"{path}.length: must be at least 4 radii, got {p['length'] * 1e3:.4g} mm")
+
+    def model(self, p, liquid):
+        from ..core import parallel2d
+
+        lc, s = liquid.lc, liquid.sigma
+        R, L, S, N = p["radius"] / lc, p["length"] / lc, p["spacing"] / lc, p["count"]
+        th = effective_angle(p["coating"]["advancing"], p["coating"])
+        po, co, fo = parallel2d.outer_side(R, th, 1201)
+        pi_, ci, fi, _ = parallel2d.inner_side(R, th, S, 1201)
+        row = parallel2d.row_curve(R, th, S, N, n=2401)
+        c_lim = row["depth"][row["i_max"]] - R
+        c0 = max(co[0], ci[0], -R)
+        c = np.linspace(c0, c_lim, TABLE_POINTS)
+        f_out = np.interp(c, co, fo)
+        f_in = np.interp(c, ci, fi)
+        psi_o = np.interp(c, co, po) + th - np.pi
+        h_out = 2.0 * np.sin(0.5 * psi_o)
+        D = c + R
+        D, h_out, f_out, f_in = from_first_contact(D, h_out, f_out, f_in)
+        n = p["segments"]
+        seg = L / n
+        ux, uy = math.cos(p["heading"]), math.sin(p["heading"])
+        vx, vy = -uy, ux
+        cx, cy = p["position"]
+        along = (np.arange(n) + 0.5) / n * p["length"] - 0.5 * p["length"]
+        across = (np.arange(N) - 0.5 * (N - 1)) * p["spacing"]
+        pts, rows = [], []
+        for k, a in enumerate(across):
+            per_len = (f_out + f_in) if k in (0, N - 1) else 2.0 * f_in
+            for b in along:
+                pts.append((cx + b * ux + a * vx, cy + b * uy + a * vy))
+                rows.append(per_len * seg)
+        m = N * n
+        half_w = 0.5 * (N - 1) * p["spacing"] + p["radius"]
+        half_l = 0.5 * p["length"]
+        corners = np.array([[-half_l, -half_w], [half_l, -half_w], [half_l, half_w], [-half_l, half_w]])
+        foot = np.column_stack([cx + corners[:, 0] * ux + corners[:, 1] * vx,
+                                cy + corners[:, 0] * uy + corners[:, 1] * vy])
+        field_s = _rod_field(cx / lc, cy / lc, ux, uy, 0.5 * L, half_w / lc)
+        warnings = []
+        if L < 20.0:
+            warnings.append(f"rod length {p['length'] * 1e3:.3g} mm is under 20 capillary lengths: end effects "
+                            "of the row are not included")
+        weight = N * p["density"] * math.pi * p["radius"] ** 2 * p["length"] * liquid.g
+        return ElementModel(
+            points=np.array(pts), offsets=np.full(m, -p["mount"]),
+            depth=np.tile(D * lc, (m, 1)), force=np.array(rows) * s * lc, contact=np.tile(h_out * lc, (m, 1)),
+            own_weight=weight, perimeter=N * (2.0 * p["length"] + 2.0 * math.pi * p["radius"]),
+            footprint=foot, field=lambda x, y, f=field_s: f(np.asarray(x) / lc, np.asarray(y) / lc),
+            warnings=warnings, model_name="exact 2D parallel rods (core.parallel2d)",
+        )
+
+
+register_kind(RodRowKind())
+
+
 class FlexibleLegKind(ElementKind):
     """Wire leg clamped at ``position`` that bends under its load (floatcalc.flexleg)."""
 
