@@ -299,3 +299,51 @@ def test_study_sweep_crossing_matches_closed_form_and_reports_progress():
     assert res.crossings[0] == pytest.approx(m_star, rel=3e-3)
     with pytest.raises(InputError):
         rp.study_sweep(s, "colour", "1", "2")
+
+
+# ------------------------------------------------------------------------------------------------
+# Whatever a user types or uploads, the answer is a one-line message or a value, never a crash.
+
+from hypothesis import HealthCheck, given, settings  # noqa: E402
+from hypothesis import strategies as hst  # noqa: E402
+
+_TEXT = hst.one_of(
+    hst.sampled_from(["0.2 mm", "-1 mm", "nan mm", "inf g", "1e400 mm", "3 kg", "150 deg", "200 deg", "",
+                      "abc", "1/0", "2**1000 mm", "20 degC", "-300 degC", "35 g/kg", "0.2 µm", "12", "1e-300 m",
+                      "__import__('os')", "1 mm mm", "steel", "tungstn"]),
+    hst.text(max_size=16),
+)
+
+
+@settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(name=hst.sampled_from(sorted(rp._FIELD_CHECKS)), text=_TEXT)
+def test_check_field_answers_every_text_in_one_line(name, text):
+    msg = rp.check_field(name, text)
+    assert msg is None or (msg.startswith(f"{name}:") or ":" in msg) and "\n" not in msg
+
+
+@settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(data=hst.one_of(hst.binary(max_size=200),
+                       hst.text(max_size=200).map(lambda t: t.encode("utf-8", "surrogatepass")
+                                                  if all(not 0xD800 <= ord(c) <= 0xDFFF for c in t) else b"")))
+def test_read_design_refuses_junk_with_input_error_only(data):
+    try:
+        kind, parsed = ex.read_design(data)
+    except InputError:
+        return
+    assert kind in ("groups", "device") and isinstance(parsed, dict)
+
+
+@settings(max_examples=100, deadline=None, suppress_health_check=[HealthCheck.too_slow])  # ~20 ms each
+@given(radius=_TEXT, length=_TEXT, angle=_TEXT, body=_TEXT)
+def test_assess_gives_finite_numbers_or_one_input_error(radius, length, angle, body):
+    s = ex.example("robot")
+    s["elements"][0].update(radius=radius, length=length, advancing_angle=angle)
+    s["load"]["body_mass"] = body
+    try:
+        a = rp.assess(s)
+    except InputError as exc:
+        assert "\n" not in str(exc)
+        return
+    assert math.isfinite(a.margin) and a.verdict in rp.VERDICTS
+    assert math.isfinite(a.limit_force.to("N").magnitude)
