@@ -543,44 +543,57 @@ STUDY_DEFAULTS = {"radius": ("0.05 mm", "0.5 mm"), "length": ("5 mm", "80 mm"),
                   "payload_mass": ("0 g", "5 g")}
 
 
-def study_panel(current: dict, key: str, sf: float) -> None:
-    """Sweep one input of the first leg group (floatcalc.studies), with a progress bar."""
+DEVICE_STUDY_DEFAULTS = {"payload_mass": ("0 g", "4 g"), "body_mass": ("0.5 g", "4 g"),
+                         "surface_tension": ("30 mN/m", "72 mN/m"), "contact_angle_shift": ("-30 deg", "30 deg"),
+                         "radius_factor": ("0.5", "2"), "length_factor": ("0.5", "2")}
+
+
+def study_panel(current: dict, key: str, sf: float, device: bool = False, payload: str = "0 g") -> None:
+    """Sweep one input (floatcalc.studies) in chunks, with a progress bar, and draw the sweep."""
     ss = st.session_state
+    inputs = rp.DEVICE_STUDY_INPUTS if device else rp.STUDY_INPUTS
+    defaults = DEVICE_STUDY_DEFAULTS if device else STUDY_DEFAULTS
+    pre = "dstudy" if device else "study"
     c1, c2, c3, c4 = st.columns([1.4, 1, 1, 0.8])
-    name = c1.selectbox("Input to vary", list(rp.STUDY_INPUTS), format_func=lambda n: rp.STUDY_INPUTS[n],
-                        key="study_in")
-    lo, hi = STUDY_DEFAULTS[name]
-    start = c2.text_input("From", lo, key=f"study_lo_{name}")
-    stop = c3.text_input("To", hi, key=f"study_hi_{name}")
-    pts = int(c4.number_input("Points", min_value=3, max_value=400, value=60, step=1, key="study_n"))
+    name = c1.selectbox("Input to vary", list(inputs), format_func=lambda n: inputs[n], key=f"{pre}_in")
+    lo, hi = defaults[name]
+    start = c2.text_input("From", lo, key=f"{pre}_lo_{name}")
+    stop = c3.text_input("To", hi, key=f"{pre}_hi_{name}")
+    pts = int(c4.number_input("Points", min_value=3, max_value=100 if device else 400, value=12 if device else 60,
+                              step=1, key=f"{pre}_n"))
+    if device:
+        st.caption("Each point solves the whole device (about a quarter of a second a point).")
     skey = json.dumps([key, name, start, stop, pts])
-    if st.button("Run the sweep", key="study_run"):
+    if st.button("Run the sweep", key=f"{pre}_run"):
         bar = st.progress(0.0, text="sweeping...")
+        prog = lambda f: bar.progress(f, text=f"sweeping... {100 * f:.0f} %")  # noqa: E731
         try:
-            res = rp.study_sweep(current, name, start, stop, pts,
-                                 progress=lambda f: bar.progress(f, text=f"sweeping... {100 * f:.0f} %"))
-            ss.study = (skey, res)
+            if device:
+                res = rp.device_study_sweep(current, name, start, stop, pts, payload=payload, progress=prog)
+            else:
+                res = rp.study_sweep(current, name, start, stop, pts, progress=prog)
+            ss[pre] = (skey, res)
         except InputError as exc:
-            ss.study = None
+            ss[pre] = None
             st.error(str(exc), icon="⚠️")
         bar.empty()
-    if ss.get("study") and ss.study[0] == skey:
+    if ss.get(pre) and ss[pre][0] == skey:
         import io
 
         from floatcalc import plotting
 
-        res = ss.study[1]
-        fig = plotting.sweep_figure(res, "safety_factor", sf)
+        res = ss[pre][1]
+        fig = plotting.sweep_figure(res, "margin" if device else "safety_factor", None if device else sf)
         buf = io.BytesIO()
         fig.savefig(buf, format="png", dpi=90)
-        st.image(buf.getvalue(), width="stretch")
+        st.image(buf.getvalue(), width=720)
         if res.crossings:
             a = res.axes[0]
             shown = ", ".join(f"{float(np.interp(c, a.values, a.shown())):.4g} {a.unit}" for c in res.crossings)
-            st.caption(f"the design just carries its load (margin 1) at {rp.STUDY_INPUTS[name]} = {shown}")
+            st.caption(f"the design just carries its load (limit force = weight) at {inputs[name]} = {shown}")
         for w in res.warnings:
             st.warning(w, icon="⚠️")
-    elif ss.get("study"):
+    elif ss.get(pre):
         st.caption("inputs changed since the last sweep: run it again")
 
 
@@ -776,6 +789,8 @@ def device_page(errors: dict):
             st.subheader("Drawings")
             _guard("Drawings", device_drawings_panel, a, key)
             _guard("Warnings and cautions", notes_panel, a)
+            with st.expander("Design study: sweep one input of the whole device"):
+                _guard("Design study", study_panel, new, key, sf, True, pay)
     toml_text = ""
     if a is not None:
         from floatcalc.device import design_text

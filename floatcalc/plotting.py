@@ -296,6 +296,9 @@ def sweep_figure(result: Any, output: str = "safety_factor", safety_factor: floa
         ax.axhline(1.0, color=VERDICT_COLOURS["sinks"], lw=1.0, ls=":", label="1: limit force = weight")
         ax.set_ylabel("margin = limit force / weight carried [-]")
         ax.legend(loc="best", fontsize=8)
+    elif output == "margin" and len(result.axes) == 1:
+        kind, unit = result.output_units["margin"]
+        ax.set_ylabel(f"payload still possible beyond the design load [{unit}] (below 0: sinks)")
     return fig
 
 

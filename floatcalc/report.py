@@ -516,11 +516,7 @@ def study_sweep(scenario: dict[str, Any], name: str, start: Any, stop: Any, poin
 
     Returns a :class:`~floatcalc.studies.sweep.SweepResult` over the whole range.
     """
-    import dataclasses
-
     from .studies.models import rod_model
-    from .studies.ranges import Axis, parse_axis
-    from .studies.sweep import sweep
 
     if name not in STUDY_INPUTS:
         raise input_error("vary", f"must be one of {', '.join(STUDY_INPUTS)}", repr(name))
@@ -543,6 +539,53 @@ def study_sweep(scenario: dict[str, Any], name: str, start: Any, stop: Any, poin
                 material_density(e.get("material", "steel")), str) else v.density(e["material"], "material")),
             "payload_mass": _mass(load.get("body_mass", "0 g"), "body_mass") + _mass(load.get("payload", "0 g"), "payload")}
     model = rod_model(liquid=liq, **base)
+    return _chunked_sweep(model, name, start, stop, n, progress, chunks)
+
+
+DEVICE_STUDY_INPUTS = {"payload_mass": "payload at the centre of mass", "body_mass": "body mass",
+                       "surface_tension": "liquid surface tension (contamination)",
+                       "contact_angle_shift": "change of every advancing angle",
+                       "radius_factor": "factor on every leg radius", "length_factor": "factor on every leg length"}
+
+
+def device_study_sweep(data: dict[str, Any], name: str, start: Any, stop: Any, points: int = 16,
+                       payload: Any = "0 g", progress=None, chunks: int = 8):
+    """Sweep one input of a whole device (:func:`floatcalc.studies.device_model`), in chunks.
+
+    Output ``margin`` [N] is the largest payload at the centre of mass minus the design payload
+    (negative: sinks); ``progress(fraction)`` is called after each chunk.
+    """
+    from .device.design import design_from_data
+    from .studies.device_model import device_model
+
+    if name not in DEVICE_STUDY_INPUTS:
+        raise input_error("vary", f"must be one of {', '.join(DEVICE_STUDY_INPUTS)}", repr(name))
+    try:
+        n = int(points)
+    except (TypeError, ValueError):
+        raise input_error("points", "must be a whole number from 3 to 100", repr(points)) from None
+    if not 3 <= n <= 100:
+        raise input_error("points", "must be a whole number from 3 to 100", repr(points))
+    model = device_model(design_from_data(data))
+    mp = _mass(payload, "payload")
+    if mp:
+        model = dataclasses_replace_base(model, payload_mass=mp)
+    return _chunked_sweep(model, name, start, stop, n, progress, chunks)
+
+
+def dataclasses_replace_base(model, **base):
+    """The study model with some base values replaced (SI)."""
+    import dataclasses
+
+    return dataclasses.replace(model, base={**model.base, **base})
+
+
+def _chunked_sweep(model, name: str, start: Any, stop: Any, n: int, progress, chunks: int):
+    import dataclasses
+
+    from .studies.ranges import parse_axis
+    from .studies.sweep import sweep
+
     cat = model.axis_catalogue()
     for what, txt in (("start", start), ("stop", stop)):
         if not isinstance(txt, str) or not txt.strip() or ":" in txt or "=" in txt:
@@ -872,4 +915,4 @@ def pdf_bytes(a: Assessment, others: list[tuple[str, Assessment]] = ()) -> bytes
 __all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "assess", "Assessment",
            "DeviceAssessment", "assess_device", "device_element_table", "is_device_data", "device_input_rows", "device_result_rows",
            "ElementOutcome", "make_liquid", "curve_tables", "csv_zip", "write_csv_dir", "write_pdf",
-           "pdf_bytes", "study_sweep", "STUDY_INPUTS", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]
+           "pdf_bytes", "study_sweep", "STUDY_INPUTS", "device_study_sweep", "DEVICE_STUDY_INPUTS", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]

@@ -197,3 +197,11 @@ def test_design_study_sweep_with_progress_and_bad_range():
     _no_exception(at)
     assert any("count" in e.value for e in at.error)
     assert any(s.value == "Reports" for s in at.subheader)  # the rest of the page still drawn
+
+
+def test_device_design_study_on_the_page():
+    at = AppTest.from_file(APP, default_timeout=TIMEOUT).run()
+    at.number_input(key="dstudy_n").set_value(4).run()
+    at.button(key="dstudy_run").click().run()
+    _no_exception(at)
+    assert any("just carries its load" in c.value for c in at.caption)

@@ -247,6 +247,17 @@ def test_device_verdict_agrees_with_the_device_solver_at_its_capacity(skimmer_ca
     assert sum(e.share for e in under.result.elements) == pytest.approx(1.0, rel=1e-9)
 
 
+def test_device_sweep_crossing_is_the_device_capacity(skimmer_capacity):
+    # Two routes to the same number: the study's sweep of the payload crosses zero margin where
+    # the device solver's capacity lies (margin is linear in the payload, so interpolation is exact).
+    W, Pmax = skimmer_capacity
+    seen = []
+    res = rp.device_study_sweep(_skimmer(), "payload_mass", "0 g", "4 g", 5, progress=seen.append, chunks=2)
+    assert seen == [0.5, 1.0]
+    assert len(res.crossings) == 1
+    assert res.crossings[0] == pytest.approx(Pmax / G0, rel=1e-3)
+
+
 def test_device_report_has_plan_view_page(tmp_path):
     out = tmp_path / "dev.pdf"
     csv_dir = tmp_path / "c"
