@@ -95,6 +95,17 @@ def test_round_element_keys_validated():
     assert "legs[0].length: unknown key" in str(exc.value)
 
 
+def test_pending_kind_refuses_clearly():
+    from floatcalc.device import elements
+
+    elements.register_kind(elements.PendingKind("test_foot", "test foot", "floatcalc.nothing"))
+    try:
+        with pytest.raises(InputError, match=r"legs\[0\].kind: element kind 'test_foot' needs floatcalc.nothing"):
+            load_design(None, text=GOOD.replace('kind = "rod"', 'kind = "test_foot"', 1))
+    finally:
+        elements._KINDS.pop("test_foot")
+
+
 def test_rod_row_spacing_must_clear_the_rods():
     text = GOOD.replace('kind = "rod"', 'kind = "rod_row"\ncount = 3\nspacing = "0.3 mm"', 1)
     with pytest.raises(InputError, match=r"legs\[0\].spacing: must exceed twice the radius \(0.4 mm\)"):

@@ -175,7 +175,8 @@ def row_curve(R: float, theta: float, S: float, N: int, n: int = 1201):
 def row_limit(R: float, theta: float, S: float, N: int):
     """Limit of a level row of N rods: force per length [σ] (all rods), depth [l_c], parts.
 
-    The curve is tabulated densely, then the maximum is refined on a finer local table.
+    The curve is tabulated densely (2401 centre depths) and its largest value taken; the force
+    is stationary there, so the tabulation error of the limit force is second order (≲ 1e-6).
 
     >>> lim = row_limit(0.1, np.radians(120), 200.0, 2)   # far apart: twice one rod
     >>> one = rod2d.limit_force(0.1, np.radians(120))

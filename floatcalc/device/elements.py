@@ -606,14 +606,18 @@ for _k in (BallKind(), PadKind(), RingKind(), PinKind()):
     register_kind(_k)
 
 
-class _PendingKind(ElementKind):
-    """A round element kind whose model has not landed yet: refuses clearly instead of guessing."""
+class PendingKind(ElementKind):
+    """Placeholder for a kind whose model is not available: design files naming it get a clear
+    ``legs[i].kind: element kind 'NAME' needs MODULE ...`` line instead of a guess.
 
-    def __init__(self, name: str, summary: str):
+    ``register_kind(PendingKind("flexible_rod", "flexible wire leg", "floatcalc.flexleg"))``
+    """
+
+    def __init__(self, name: str, summary: str, needs: str = "floatcalc.round"):
         self.name = name
         self.summary = summary + " (not yet available)"
         self.keys = {**COMMON_KEYS}
-        self.unavailable = f"element kind '{name}' needs floatcalc.round, which this version does not have yet"
+        self.unavailable = f"element kind '{name}' needs {needs}, which this version does not have yet"
 
     def model(self, p, liquid):
         from ..errors import input_error
