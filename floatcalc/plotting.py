@@ -128,8 +128,8 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
         X = max(3.0 * R, 1.6 * abs(cx), 0.2 * lc)
         bottom, top = zc_centre - 0.75 * X, zc_centre + 0.75 * X
         ax.plot([-X, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
-        ax.text(-0.95 * X, low, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
-                fontsize=8.5, va="bottom", ha="left", zorder=6)
+        ax.text(-0.95 * X, low - 0.02 * X, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
+                fontsize=8.5, va="top", ha="left", zorder=6)
     ax.set_xlim(-X, X)
     ax.set_ylim(bottom, top)
     ax.set_aspect("equal")
@@ -191,8 +191,8 @@ def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
         mid = 0.5 * (low + top_s)
         bottom, top = mid - 0.75 * X, mid + 0.75 * X
         ax.plot([-X, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
-        ax.text(-0.95 * X, low, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
-                va="bottom", ha="left", zorder=6)
+        ax.text(-0.95 * X, low - 0.02 * X, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
+                fontsize=8.5, va="top", ha="left", zorder=6)
     else:
         xd = -X * 0.82
         ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),

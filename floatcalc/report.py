@@ -865,9 +865,9 @@ def write_pdf(a: Assessment, target: Any, others: list[tuple[str, Assessment]] =
             fig.text(0.07, 0.955, HEADINGS[1] + (f" (element group {i})" if len(a.elements) > 1 else ""),
                      fontsize=15, weight="bold", color="#1f3b4d")
             fig.text(0.07, 0.93, o.label, fontsize=8.5)
-            ax1 = fig.add_axes([0.12, 0.64, 0.8, 0.26])
+            ax1 = fig.add_axes([0.12, 0.67, 0.8, 0.24])
             plotting.meniscus_section(o.result, ax=ax1)
-            ax3 = fig.add_axes([0.12, 0.40, 0.8, 0.2])
+            ax3 = fig.add_axes([0.12, 0.40, 0.8, 0.19])
             plotting.meniscus_section(o.result, ax=ax3, zoom=True)
             ax2 = fig.add_axes([0.12, 0.07, 0.8, 0.26])
             plotting.force_depth(o.result, ax=ax2, load=o.load_share / o.per_element,
