@@ -71,8 +71,11 @@ def run(quick: bool = False) -> dict:
     device_model("skimmer").evaluate({})  # warm imports and the design
     t_ds, ds = _timed(_device_study, n, "serial")
     t_dl, dl = _timed(_device_study, n, "local")
-    same = bool(np.array_equal(rs.capacity_samples, rl.capacity_samples)
-                and np.array_equal(ds.capacity_samples, dl.capacity_samples))
+    rod_same = bool(np.array_equal(rs.capacity_samples, rl.capacity_samples))
+    dev_same = bool(np.array_equal(ds.capacity_samples, dl.capacity_samples))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rel = np.abs(ds.capacity_samples - dl.capacity_samples) / np.abs(ds.capacity_samples)
+    same = rod_same and dev_same
     return {
         "cores": os.cpu_count(),
         "rod_uncertainty_10k_serial_s": t_rs,
@@ -87,6 +90,10 @@ def run(quick: bool = False) -> dict:
         "uncertainty_10k_s": t_dl * 10_000 / n,
         "uncertainty_10k_extrapolated": n != 10_000,
         "serial_equals_parallel": same,
+        "rod_serial_equals_parallel": rod_same,
+        "device_serial_equals_parallel": dev_same,
+        "device_samples_differing": int(np.count_nonzero(ds.capacity_samples != dl.capacity_samples)),
+        "device_max_rel_diff": float(np.nanmax(rel)) if rel.size else 0.0,
     }
 
 
