@@ -168,6 +168,13 @@ def k(name: str) -> str:
     return f"{name}@{st.session_state.ver}"
 
 
+def text_field(label: str, default: str, key: str, **kw) -> str:
+    """A text input whose starting value is ``default`` unless a callback already set its state."""
+    if key in st.session_state:
+        return st.text_input(label, key=key, **kw)
+    return st.text_input(label, default, key=key, **kw)
+
+
 def field_error(box, name: str, value, errors: dict) -> None:
     """Check one field with floatcalc's own parser; show the problem beside it."""
     msg = rp.check_field(name, value)
@@ -258,10 +265,10 @@ def rod_panel(i: int, spec: dict, errors: dict, with_count: bool = True) -> dict
         e["coating"] = st.selectbox("Coating", coats, index=coats.index(cdef) if cdef in coats else len(coats) - 1,
                                     key=k(f"coat{i}"), on_change=_coating_changed, args=(i,),
                                     help="sets typical angles (from memory); enter measured ones")
-        e["advancing_angle"] = st.text_input("Advancing contact angle", spec.get("advancing_angle", "110 deg"),
+        e["advancing_angle"] = text_field("Advancing contact angle", spec.get("advancing_angle", "110 deg"),
                                              key=k(f"adv{i}"), help="sets the load limit, e.g. 115 deg")
         field_error(st, "advancing_angle", e["advancing_angle"], errors)
-        e["receding_angle"] = st.text_input("Receding contact angle (optional)", spec.get("receding_angle", ""),
+        e["receding_angle"] = text_field("Receding contact angle (optional)", spec.get("receding_angle", ""),
                                             key=k(f"rec{i}"), help="for pull-off; at most the advancing angle")
         if e["receding_angle"].strip():
             field_error(st, "receding_angle", e["receding_angle"], errors)
@@ -301,10 +308,10 @@ def round_panel(kind: str):
             cdef = spec.get("coating", "custom")
             e["coating"] = st.selectbox("Coating", coats, index=coats.index(cdef) if cdef in coats else len(coats) - 1,
                                         key=k(f"coat{i}"), on_change=_coating_changed, args=(i,))
-            e["advancing_angle"] = st.text_input("Advancing contact angle", spec.get("advancing_angle", "110 deg"),
+            e["advancing_angle"] = text_field("Advancing contact angle", spec.get("advancing_angle", "110 deg"),
                                                  key=k(f"adv{i}"))
             field_error(st, "advancing_angle", e["advancing_angle"], errors)
-            e["receding_angle"] = st.text_input("Receding contact angle (optional)", spec.get("receding_angle", ""),
+            e["receding_angle"] = text_field("Receding contact angle (optional)", spec.get("receding_angle", ""),
                                                 key=k(f"rec{i}"))
             if e["receding_angle"].strip():
                 field_error(st, "receding_angle", e["receding_angle"], errors)
