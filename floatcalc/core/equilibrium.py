@@ -76,7 +76,8 @@ class Support:
     def lookup(self, e, slopes: bool = False):
         """Force and contact depth of every point at effective depths e (linear, clamped at the
         limit, zero before first contact); with ``slopes`` also dF/de."""
-        u = np.minimum(np.maximum(np.nan_to_num((e - self._d0) / self._step, nan=-1.0), -1.0), float(self._n))
+        u = (e - self._d0) / self._step
+        u = np.minimum(np.maximum(np.where(u == u, u, -1.0), -1.0), float(self._n))  # NaN -> not touching
         k = np.minimum(np.maximum(u.astype(int), 0), self._n - 2)
         t = np.minimum(np.maximum(u - k, 0.0), 1.0)
         T0 = self._FH[:, self._rows, k]
