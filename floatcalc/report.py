@@ -106,6 +106,12 @@ def material_density(value: Any) -> Any:
     return value
 
 
+def _density_si(material: Any) -> float:
+    """Density [kg/m³] of a material name or density text."""
+    rho = material_density(material)
+    return float(v.density(rho, "material") if isinstance(rho, str) else rho)
+
+
 _FIELD_CHECKS = {
     "radius": lambda x: v.length(x, "radius"),
     "thickness": lambda x: v.length(x, "thickness"),
@@ -535,8 +541,7 @@ def study_sweep(scenario: dict[str, Any], name: str, start: Any, stop: Any, poin
     base = {"radius": v.length(e["radius"], "radius"), "length": v.length(e["length"], "length"),
             "contact_angle": v.angle(e["advancing_angle"], "advancing_angle"),
             "count": float(v.count(e.get("count", 1))),
-            "material_density": float(material_density(e.get("material", "steel")) if not isinstance(
-                material_density(e.get("material", "steel")), str) else v.density(e["material"], "material")),
+            "material_density": _density_si(e.get("material", "steel")),
             "payload_mass": _mass(load.get("body_mass", "0 g"), "body_mass") + _mass(load.get("payload", "0 g"), "payload")}
     model = rod_model(liquid=liq, **base)
     return _chunked_sweep(model, name, start, stop, n, progress, chunks)
