@@ -4,7 +4,8 @@ An adapter turns the validated parameters of one support element (SI floats) int
 :class:`ElementModel`: force points in plan with their force–depth tables (precomputed once,
 vectorised, interpolated later by :mod:`floatcalc.core.equilibrium`), own weight, limit force
 and depth, contact perimeter, plan footprint (for drawing and overlap checks) and the outer
-meniscus field used to superpose neighbours.
+meniscus field used to superpose neighbours. :meth:`ElementModel.force_at_depth` gives the
+element's force at a depth and tilt in SI, for plotting or checks outside the device solve.
 
 Adding a kind takes a few lines::
 
@@ -98,7 +99,34 @@ class ElementModel:
 
     @property
     def limit_force(self) -> float:
+        """Force at the limit [N] (all points at their limit depths)."""
         return float(self.force[:, -1].sum())
+
+    def force_at_depth(self, depth, tilt: float = 0.0) -> np.ndarray:
+        """Total force [N] at depths [m] of the element's reference point, with the element
+        tilted by ``tilt`` [rad] along the direction in which its force points are spread (for
+        a rod: its axis; the points further along that direction go deeper).
+
+        Points not yet touching give zero; points past their limit are held at their limit
+        force (the element has then given way).
+
+        >>> m = get_kind("rod").model(_EXAMPLE_ROD, __import__("floatcalc").water())
+        >>> bool(m.force_at_depth(0.5e-3) < m.force_at_depth(1.0e-3) <= m.limit_force)
+        True
+        """
+        d = np.atleast_1d(np.asarray(depth, dtype=float))
+        c = self.points.mean(axis=0)
+        rel = self.points - c
+        spread = rel[np.argmax(np.hypot(rel[:, 0], rel[:, 1]))] if len(rel) > 1 else np.array([1.0, 0.0])
+        nrm = np.hypot(*spread)
+        u = spread / nrm if nrm > 0 else np.array([1.0, 0.0])
+        off = self.offsets + math.tan(tilt) * (rel @ u)
+        out = np.zeros(d.shape)
+        for j in range(len(self.points)):
+            e = d + off[j]
+            f = np.interp(e, self.depth[j], self.force[j], left=0.0, right=self.force[j, -1])
+            out += np.where(e < self.depth[j, 0], 0.0, f)
+        return out if np.ndim(depth) else float(out[0])
 
     @property
     def limit_depth(self) -> float:
@@ -281,6 +309,11 @@ class RodKind(ElementKind):
 
 
 register_kind(RodKind())
+
+#: A rod for examples (SI values, as the design loader produces them).
+_EXAMPLE_ROD = {"kind": "rod", "name": "", "position": (0.0, 0.0), "mount": 0.0, "radius": 1.5e-4, "length": 0.02,
+                "heading": 0.0, "tilt": 0.0, "segments": 5, "density": 7850.0,
+                "coating": {"advancing": math.radians(115), "texture": "none"}}
 
 
 class RodRowKind(ElementKind):
