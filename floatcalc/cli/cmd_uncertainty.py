@@ -53,6 +53,7 @@ def run(args) -> int:
     title = "Monte Carlo uncertainty of rod legs (exact 2D rod law)"
     if args.demo:
         args.design = args.example = None
+        args.element = "rod"
         for k, val in DEMO["values"].items():
             setattr(args, k, val)
         dist_specs = DEMO["dist"] + dist_specs
