@@ -107,3 +107,22 @@ def test_bad_requests(kw):
     with pytest.raises(InputError) as exc:
         optimise_rods(args.pop("payload_mass"), **args)
     assert "\n" not in str(exc.value)
+
+
+def test_device_length_scale_against_grid():
+    # Brute force: the requirement W + P_max ≥ k (W + P) evaluated on a fine grid of the length
+    # factor with the device study model; the optimiser's least factor must lie between the last
+    # infeasible and the first feasible grid point.
+    from floatcalc.studies.device_model import device_model
+    from floatcalc.studies.optimise import optimise_device_scale
+
+    Mp, k = 1e-3, 1.5
+    r = optimise_device_scale("skimmer", Mp, safety_factor=k, bounds=(0.5, 1.5))
+    m = device_model("skimmer")
+    grid = np.linspace(0.7, 1.0, 13)
+    out = m.evaluate({"length_factor": grid, "payload_mass": Mp})
+    ok = out["weight"] + out["max_payload"] >= k * (out["weight"] + Mp * 9.80665)
+    i = int(np.argmax(ok))
+    assert ok[i] and not ok[i - 1]
+    assert grid[i - 1] <= r.factor <= grid[i]
+    assert r.safety_factor == pytest.approx(k, rel=1e-6) and "load" in r.binding

@@ -338,3 +338,116 @@ def _explain(P, n, R, L, sf, spare, Rb, Lb, nb, S, S_b, objective):
     if objective == "mass":
         expl.append("counts that reach the same least mass tie; the fewest legs are chosen")
     return binding, expl
+
+
+@dataclass(frozen=True, kw_only=True)
+class DeviceScaleResult(Result):
+    """Least common scale of the elements of a device that carries a payload (see
+    :func:`optimise_device_scale`)."""
+
+    input: str = field(default="length_factor")
+    factor: float = field(default=1.0)
+    payload_mass: Any = qfield("kg")
+    max_payload_mass: Any = qfield("kg")
+    weight: Any = qfield("N")
+    safety_factor: float = field(default=1.0)
+    required_safety_factor: float = field(default=1.0)
+    binding: tuple[str, ...] = field(default=())
+    explanation: tuple[str, ...] = field(default=())
+    warnings: tuple[str, ...] = field(default=())
+    cautions: tuple[str, ...] = field(default=())
+    references: tuple[str, ...] = field(default=())
+
+
+def optimise_device_scale(design: Any, payload_mass: Any, *, safety_factor: float = 2.0,
+                          input: str = "length_factor", bounds: tuple[float, float] = (0.25, 4.0),
+                          scan: int = 9) -> DeviceScaleResult:
+    """Least common factor on every element's length (or radius) for a device to carry a payload.
+
+    Requirement, with W the weight of body and legs (it changes with the factor) and P the
+    payload weight placed at the centre of mass:
+
+    .. math:: W + P_{max}(s) \\ge k\\,(W + P),
+
+    i.e. the largest total load the device carries is at least k times its loaded weight.
+    :math:`P_{max}` comes from the device equilibrium (:mod:`floatcalc.studies.device_model`).
+    The factor s is scanned at ``scan`` log-spaced points in ``bounds``; the least feasible
+    one is refined with :func:`scipy.optimize.brentq` between it and the infeasible point
+    below (so if the requirement is not monotone in s, the answer is the least feasible
+    factor to the scan resolution).
+
+    Validity: that of :func:`floatcalc.device.solve_device` at every factor.
+    """
+    from scipy.optimize import brentq
+
+    from .device_model import device_model
+
+    if input not in ("length_factor", "radius_factor"):
+        raise input_error("input", "must be length_factor or radius_factor", repr(input))
+    Mp = v.positive(payload_mass, "mass", "payload_mass", show="g", upper=1e3)
+    try:
+        k = float(safety_factor)
+    except (TypeError, ValueError):
+        raise input_error("safety_factor", "must be a number from 1 to 100", repr(safety_factor)) from None
+    if not 1.0 <= k <= 100.0:
+        raise input_error("safety_factor", "must be a number from 1 to 100", repr(safety_factor))
+    lo, hi = (float(b) for b in bounds)
+    if not (0.1 <= lo < hi <= 10.0):
+        raise input_error("bounds", "must satisfy 0.1 ≤ low < high ≤ 10", f"{lo:g}:{hi:g}")
+    m = device_model(design)
+    g = 9.80665 if not hasattr(m.func, "design") else m.func.design.liquid.g
+
+    from ..errors import InputError
+
+    unbuildable: list[float] = []
+
+    def slack(s):
+        try:
+            out = m.evaluate({input: s, "payload_mass": Mp})
+        except InputError:  # e.g. scaled elements overlap: not a design, so not feasible
+            unbuildable.append(float(s))
+            return -math.inf, math.nan, math.nan
+        W, Pmax = float(out["weight"]), float(out["max_payload"])
+        return W + Pmax - k * (W + Mp * g), W, Pmax
+
+    grid = np.geomspace(lo, hi, scan)
+    vals = [slack(s)[0] for s in grid]
+    ok = [i for i, val in enumerate(vals) if val >= 0]
+    note = ([f"{input} {min(unbuildable):.3g} and above (some) give no valid design (elements overlap); "
+             "treated as infeasible"] if unbuildable else [])
+    if not ok:
+        finite = [i for i, val in enumerate(vals) if math.isfinite(val)]
+        if not finite:
+            raise input_error(input, f"no factor in {lo:g}–{hi:g} gives a valid design", f"{lo:g}:{hi:g}")
+        best = float(grid[max(finite, key=lambda i: vals[i])])
+        _, W, Pmax = slack(best)
+        raise input_error("payload_mass", f"no {input} in {lo:g}–{hi:g} carries it with safety factor {k:g}; "
+                          f"the best ({best:.3g}) gives {(W + Pmax) / (W + Mp * g):.3g}", f"{Mp * 1e3:.4g} g")
+    i = ok[0]
+    binding = ["load"]
+    if i == 0:
+        s = lo
+        binding = [f"{input} lower bound"]
+    elif not math.isfinite(vals[i - 1]):
+        s = float(grid[i])
+        binding = []
+        note.append(f"the factor below ({grid[i - 1]:.3g}) gives no valid design: answer good to the scan step only")
+    else:
+        s = brentq(lambda t: slack(t)[0], float(grid[i - 1]), float(grid[i]), xtol=1e-6, rtol=1e-8)
+        if slack(s)[0] < 0:  # land on the feasible side of the root
+            s = s * (1 + 1e-7)
+    val, W, Pmax = slack(s)
+    sf = (W + Pmax) / (W + Mp * g)
+    expl = [f"{input} {s:.5g}: the device carries {(W + Pmax) / g * 1e3:.4g} g in all against "
+            f"{(W + Mp * g) / g * 1e3:.4g} g loaded, safety factor {sf:.4g} (required {k:g})"]
+    if binding == ["load"]:
+        expl.append(f"load binds: a smaller {input} would fall below the required safety factor")
+    elif binding:
+        expl.append(f"{input} sits on its lower bound; the load does not bind")
+    expl.extend(note)
+    return DeviceScaleResult(
+        input=input, factor=float(s), payload_mass=Q_(Mp, "kg"), max_payload_mass=Q_(Pmax / g, "kg"),
+        weight=Q_(W, "N"), safety_factor=sf, required_safety_factor=k, binding=tuple(binding),
+        explanation=tuple(expl), warnings=tuple(m.warnings({input: s})), cautions=m.cautions,
+        references=m.references,
+    )
