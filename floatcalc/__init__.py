@@ -45,6 +45,7 @@ _EXPORTS = {
     "parallel_rods": "device", "ParallelRodsResult": "device",
     # design studies: sweeps, optimiser, Monte Carlo uncertainty, calibration fits
     "sweep": "studies.sweep", "optimise_rods": "studies.optimise", "uncertainty": "studies.uncertainty",
+    "optimise_device_scale": "studies.optimise",
     "fit_rod": "studies.fit", "rod_model": "studies.models", "device_model": "studies.device_model",
 }
 
