@@ -32,6 +32,7 @@ from ..units import KINDS, to_si
 
 _HEADER = re.compile(r"^\s*([^\[\]]+?)\s*\[\s*([^\[\]]*?)\s*\]\s*$")
 _MAX_LISTED = 12  # bad rows described in full in one message; the rest are named by line number
+MAX_BYTES = 5_000_000  # force-depth data sets are a few kB; larger input is refused, not read whole
 
 
 @dataclass(frozen=True)
@@ -77,10 +78,12 @@ def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = Fals
     """
     fh, close = _open(src)
     try:
-        text = fh.read()
+        text = fh.read(MAX_BYTES + 1)
     finally:
         if close:
             fh.close()
+    if len(text) > MAX_BYTES:
+        raise input_error(field, f"must be at most {MAX_BYTES // 1_000_000} MB of CSV text", "a larger file")
     comments: list[str] = []
     header: list[str] | None = None
     header_line = 0
@@ -166,6 +169,11 @@ def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = Fals
             q = Q_(mag, unit.replace("µ", "u").replace("μ", "u"))
         except Exception:
             raise input_error(field, f"column '{name}': unknown unit", repr(unit)) from None
+        try:  # dimension checked on a scalar so the message shows the unit, not an array
+            to_si(Q_(1.0, q.units), kind, name)
+        except ValueError:
+            raise input_error(field, f"column '{name}' must be a {kind} unit, e.g. '{KINDS[kind][2]}'",
+                              repr(unit)) from None
         out[name] = np.asarray(to_si(q, kind, f"{field} column '{name}'", array=True), dtype=float)
         unit_of[name] = unit
     return Table(columns=out, units=unit_of, lines=np.asarray(good_lines), warnings=tuple(warnings),
