@@ -166,7 +166,7 @@ def _cas(name):
 def test_organic_surface_tension_matches_jasper_table_in_chemicals(name):
     # Source: Jasper, J. Phys. Chem. Ref. Data 1, 841 (1972), as tabulated independently in
     # `chemicals.interface.sigma_data_Jasper_Lange` (σ = a − b t, mN/m, t in °C). floatcalc
-    # cites the same fit, so the check is the transcription: tolerance 1e-4 mN/m.
+    # cites the same fit, so the check is that the coefficients were copied correctly: tolerance 1e-4 mN/m.
     row = chemicals.interface.sigma_data_Jasper_Lange.loc[_cas(name)]
     liq_range = next(r["range"] for r in fc.list_liquids() if r["name"] == name)
     t_lo, t_hi = (float(x) for x in liq_range.replace("°C", "").split(" to "))
