@@ -1,0 +1,270 @@
+"""Capacity of many devices at once: the heave/pitch/roll balance of :mod:`.equilibrium`,
+vectorised over samples.
+
+Scaled variables as in :mod:`floatcalc.core.equilibrium` (lengths in l_c, forces in σ l_c).
+
+Every sample s is a device of the same layout (the same m force points, owners and table
+rows) with its own positions, offsets, tables and coupling. The point law is exactly that of
+:class:`~floatcalc.core.equilibrium.Support`: each table resampled on a uniform depth grid of
+its own, read by linear interpolation, zero before first contact and held at the limit
+beyond it; the neighbours' superposed menisci enter through the same three fixed-point
+sweeps :math:`s \\leftarrow C\\,\\bar h(d - s)` starting from s = 0.
+
+Capacity at the centre of mass
+------------------------------
+With the payload at the centre of mass (x_G, y_G), the total load W + P acts at (x_G, y_G)
+whatever P is. The capacity is the load at which the first point reaches its limit depth, so
+instead of a root search on P with an equilibrium solve at every step (the scalar
+:func:`~floatcalc.core.equilibrium.capacity`), the conditions are solved together for
+(z, p, q):
+
+.. math::
+
+    \\max_j (e_j - e_{lim,j}) = 0,\\qquad \\sum_j F_j (x_j - x_G) = 0,\\qquad
+    \\sum_j F_j (y_j - y_G) = 0,
+
+and then :math:`P = \\sum_j F_j - W`. It is the same root as the scalar one: there, P solves
+g(P) = max_j(e_j − e_lim,j) = 0 where (z, p, q) balance W + P at (x_G, y_G), which are these
+equations. Newton's method on (z, p, q), batched with :func:`numpy.linalg.solve` on (S, 3, 3),
+uses the exact Jacobian of the piecewise-linear point law *including* the three coupling
+sweeps (forward-mode derivatives through them), so it converges in a few steps; a step
+limit (no point moves more than 0.25 l_c) and step halving on the residual norm guard it.
+
+Samples that do not converge, or that fail under their own weight (P ≤ 0), are reported in
+``ok`` so that the caller can hand them to the scalar solver.
+
+Validity: that of :mod:`floatcalc.core.equilibrium`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+
+@dataclass
+class BatchSupport:
+    """Force points of S devices of one layout (see module docstring).
+
+    Attributes
+    ----------
+    x, y, offset : ndarray (S, m) [l_c]
+    d0, step : ndarray (S, m) [l_c]
+        First depth and spacing of each point's resampled table.
+    n : ndarray (S, m) int
+        Number of points of each point's table (2 ≤ n ≤ width).
+    force, contact : ndarray (S, r, width)
+        Resampled force [σ l_c] and contact-depth [l_c] tables, one per row.
+    row : ndarray (m,) int
+        Table row of each point (shared by all samples).
+    limit_depth, limit_force : ndarray (S, m)
+        Last depth and force of each point's original table.
+    owner : ndarray (m,) int
+    coupling : ndarray (S, m, E)
+        Outer field of element e at point j per unit contact depth (zero for own points).
+    """
+
+    x: np.ndarray
+    y: np.ndarray
+    offset: np.ndarray
+    d0: np.ndarray
+    step: np.ndarray
+    n: np.ndarray
+    force: np.ndarray
+    contact: np.ndarray
+    row: np.ndarray
+    limit_depth: np.ndarray
+    limit_force: np.ndarray
+    owner: np.ndarray
+    coupling: np.ndarray
+    coupling_iters: int = 3
+
+    def __post_init__(self):
+        S, r, w = self.force.shape
+        m = self.x.shape[1]
+        n_el = self.coupling.shape[2]
+        counts = np.bincount(self.owner, minlength=n_el).astype(float)
+        A = np.zeros((n_el, m))
+        A[self.owner, np.arange(m)] = 1.0 / counts[self.owner]
+        self._A = A
+        self._coupled = bool(np.any(self.coupling))
+        # flat index of (sample, row, 0) for every point
+        self._base = (np.arange(S)[:, None] * r + self.row[None, :]) * w
+        self._FH = np.stack([self.force.reshape(-1), self.contact.reshape(-1)])
+        self._nf = self.n.astype(float)
+
+    @property
+    def samples(self) -> int:
+        return self.x.shape[0]
+
+    def take(self, idx) -> "BatchSupport":
+        """The sub-batch of samples ``idx``."""
+        return BatchSupport(x=self.x[idx], y=self.y[idx], offset=self.offset[idx], d0=self.d0[idx],
+                            step=self.step[idx], n=self.n[idx], force=self.force[idx],
+                            contact=self.contact[idx], row=self.row, limit_depth=self.limit_depth[idx],
+                            limit_force=self.limit_force[idx], owner=self.owner,
+                            coupling=self.coupling[idx], coupling_iters=self.coupling_iters)
+
+    def lookup(self, e):
+        """Force F, contact depth H and their slopes dF/de, dH/de at effective depths e (S, m).
+
+        The same piecewise-linear law as :meth:`floatcalc.core.equilibrium.Support.lookup`.
+        """
+        u = (e - self.d0) / self.step
+        u = np.minimum(np.maximum(np.where(u == u, u, -1.0), -1.0), self._nf)
+        k = np.minimum(np.maximum(u.astype(np.int64), 0), self.n - 2)
+        t = np.minimum(np.maximum(u - k, 0.0), 1.0)
+        flat = self._base + k
+        T0 = self._FH[:, flat]
+        T1 = self._FH[:, flat + 1]
+        on = u >= 0.0
+        F, H = (T0 + t * (T1 - T0)) * on
+        inside = on & (u < self._nf - 1.0)
+        dF, dH = (T1 - T0) / self.step * inside
+        return F, H, dF, dH
+
+    def _spread(self, h):
+        """C · (mean of h over each element's points), for h of shape (S, m) or (S, m, k)."""
+        if h.ndim == 2:
+            he = h @ self._A.T                           # (S, E)
+            return np.matmul(self.coupling, he[..., None])[..., 0]
+        he = np.einsum("smk,em->sek", h, self._A)
+        return np.matmul(self.coupling, he)
+
+    def state(self, z, p, q, derivatives: bool = False):
+        """Depths d, effective depths e, forces F (and with ``derivatives`` de/du and dF/du
+        with respect to u = (z, p, q), shape (S, m, 3)), for z, p, q of shape (S,)."""
+        d = z[:, None] + p[:, None] * self.x + q[:, None] * self.y + self.offset
+        if derivatives:
+            dd = np.stack([np.ones_like(self.x), self.x, self.y], axis=-1)
+        if not self._coupled:
+            F, _, dF, _ = self.lookup(d)
+            if derivatives:
+                return d, d, F, dd, dF[..., None] * dd
+            return d, d, F
+        s = np.zeros_like(d)
+        ds = np.zeros(d.shape + (3,)) if derivatives else None
+        for _ in range(self.coupling_iters):
+            _, h, _, dh = self.lookup(d - s)
+            if derivatives:
+                ds = self._spread(dh[..., None] * (dd - ds))
+            s = self._spread(h)
+        e = d - s
+        F, _, dF, _ = self.lookup(e)
+        if derivatives:
+            de = dd - ds
+            return d, e, F, de, dF[..., None] * de
+        return d, e, F
+
+
+def from_supports(sups) -> BatchSupport:
+    """Stack scalar :class:`~floatcalc.core.equilibrium.Support` objects of one layout
+    (same number of points and owners) into a :class:`BatchSupport`."""
+    sups = list(sups)
+    m = sups[0].x.size
+    width = max(s._n for s in sups)
+    S = len(sups)
+    F = np.zeros((S, m, width))
+    H = np.zeros((S, m, width))
+    for i, s in enumerate(sups):
+        F[i, :, : s._n] = s._F
+        H[i, :, : s._n] = s._H
+    return BatchSupport(
+        x=np.stack([s.x for s in sups]), y=np.stack([s.y for s in sups]),
+        offset=np.stack([s.offset for s in sups]), d0=np.stack([s._d0 for s in sups]),
+        step=np.stack([s._step for s in sups]),
+        n=np.array([[s._n] * m for s in sups], dtype=np.int64), force=F, contact=H, row=np.arange(m),
+        limit_depth=np.stack([s.limit_depth for s in sups]), limit_force=np.stack([s.limit_force for s in sups]),
+        owner=sups[0].owner, coupling=np.stack([s.coupling for s in sups]),
+        coupling_iters=sups[0].coupling_iters,
+    )
+
+
+def _residual(bs: BatchSupport, u, W, xg, yg, derivatives=False):
+    st = bs.state(u[:, 0], u[:, 1], u[:, 2], derivatives=derivatives)
+    e, F = st[1], st[2]
+    gap = e - bs.limit_depth
+    j = np.argmax(gap, axis=1)
+    rows = np.arange(gap.shape[0])
+    ax = bs.x - xg[:, None]
+    ay = bs.y - yg[:, None]
+    r = np.stack([gap[rows, j], (F * ax).sum(axis=1) / W, (F * ay).sum(axis=1) / W], axis=1)
+    if not derivatives:
+        return r, F
+    de, dF = st[3], st[4]
+    J = np.stack([de[rows, j, :], np.einsum("sm,smk->sk", ax, dF) / W[:, None],
+                  np.einsum("sm,smk->sk", ay, dF) / W[:, None]], axis=1)
+    return r, F, J
+
+
+def capacity_at_centre(bs: BatchSupport, W, xg, yg, *, tol: float = 1e-12, max_iter: int = 60):
+    """Largest extra load P [σ l_c] at the centre of mass of each sample before its first point
+    reaches its limit (see module docstring).
+
+    Parameters
+    ----------
+    bs : BatchSupport
+    W, xg, yg : ndarray (S,)
+        Own weight [σ l_c] and centre of mass [l_c] of each sample.
+    tol : float
+        Convergence: every residual (depth gap [l_c], moments / W [l_c]) below ``tol``.
+
+    Returns
+    -------
+    P : ndarray (S,)
+        Capacity (NaN where not ``ok``).
+    u : ndarray (S, 3)
+        (z, p, q) at capacity.
+    ok : ndarray (S,) bool
+        Converged with P > 0; the other samples need the scalar solver.
+    """
+    W = np.asarray(W, dtype=float)
+    xg = np.asarray(xg, dtype=float)
+    yg = np.asarray(yg, dtype=float)
+    S = bs.samples
+    # level start with the deepest point just at its limit (the coupling only lifts e)
+    u = np.zeros((S, 3))
+    u[:, 0] = np.min(bs.limit_depth - bs.offset, axis=1)
+    P = np.full(S, np.nan)
+    ok = np.zeros(S, dtype=bool)
+    idx = np.arange(S)
+    sub = bs
+    ua, Wa, xa, ya = u, W, xg, yg
+    r, F, J = _residual(sub, ua, Wa, xa, ya, derivatives=True)
+    for _ in range(max_iter):
+        nr = np.max(np.abs(r), axis=1)
+        done = nr < tol
+        if done.any():
+            ok[idx[done]] = True
+            P[idx[done]] = F[done].sum(axis=1) - Wa[done]
+            u[idx[done]] = ua[done]
+            keep = ~done
+            if not keep.any():
+                break
+            idx = idx[keep]
+            sub = sub.take(keep)
+            ua, Wa, xa, ya, r, J, nr = ua[keep], Wa[keep], xa[keep], ya[keep], r[keep], J[keep], nr[keep]
+        bad = ~(np.abs(np.linalg.det(J)) > 1e-280)
+        if bad.any():
+            J = J.copy()
+            J[bad] += 1e-9 * np.eye(3)
+        step = np.linalg.solve(J, -r[..., None])[..., 0]
+        move = np.max(np.abs(step[:, :1] + step[:, 1:2] * sub.x + step[:, 2:3] * sub.y), axis=1)
+        lam = np.where(move > 0.25, 0.25 / np.maximum(move, 1e-300), 1.0)
+        un = ua + lam[:, None] * step
+        rn, Fn, Jn = _residual(sub, un, Wa, xa, ya, derivatives=True)
+        for _ in range(12):  # step halving where the residual did not fall
+            worse = ~(np.max(np.abs(rn), axis=1) < nr * (1.0 - 1e-4 * lam))
+            if not worse.any():
+                break
+            lam = np.where(worse, 0.5 * lam, lam)
+            w = np.flatnonzero(worse)
+            part = sub.take(w)
+            ut = ua[w] + lam[w, None] * step[w]
+            rw, Fw, Jw = _residual(part, ut, Wa[w], xa[w], ya[w], derivatives=True)
+            un[w], rn[w], Fn[w], Jn[w] = ut, rw, Fw, Jw
+        ua, r, F, J = un, rn, Fn, Jn
+    ok &= P > 0.0
+    P = np.where(ok, P, np.nan)
+    return P, u, ok
