@@ -110,3 +110,48 @@ def limit(R: float, theta: float, L: float, n: int = 4001):
         p = phi[k]
     a, b, d = force_parts(p, R, theta, L)
     return {"phi": float(p), "force": float(a + b), "end_part": float(b), "depth": float(d)}
+
+
+def limit_many(R, theta, L, n: int = 4001, stride: int = 40):
+    """Contact position φ of :func:`limit` for arrays of rods at once (same grid, same result).
+
+    :func:`limit` takes the largest F(φ) on the grid ``linspace(0, π, n)`` and refines it by a
+    parabola. F has one maximum on [0, π] (it rises, then falls), so the grid maximum lies
+    within one coarse step of the maximum over every ``stride``-th grid point; only that
+    window of the fine grid is evaluated here, and the same parabola is taken.
+
+    Parameters
+    ----------
+    R, theta, L : array_like (broadcast together)
+        Radius [l_c], contact angle [rad], length [l_c].
+
+    Returns
+    -------
+    phi : ndarray [rad]
+
+    >>> R, th, L = np.array([0.05, 0.1]), np.radians([115.0, 150.0]), np.array([7.0, 20.0])
+    >>> bool(np.allclose(limit_many(R, th, L), [limit(*a)["phi"] for a in zip(R, th, L)], rtol=0, atol=1e-14))
+    True
+    """
+    R, theta, L = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (R, theta, L)))
+    shape = R.shape
+    R, theta, L = (a.reshape(-1, 1) for a in (R, theta, L))
+    grid = np.linspace(0.0, np.pi, n)
+
+    def F(i):
+        a, b, _ = force_parts(grid[i], R, theta, L)
+        return a + b
+
+    coarse = np.unique(np.r_[np.arange(0, n, stride), n - 1])
+    kc = coarse[np.argmax(F(coarse[None, :]), axis=1)]
+    win = np.clip(kc[:, None] + np.arange(-stride - 8, stride + 9), 0, n - 1)
+    k = win[np.arange(win.shape[0]), np.argmax(F(win), axis=1)]
+    inner = (k > 0) & (k < n - 1)
+    kk = np.clip(k, 1, n - 2)[:, None] + np.array([-1, 0, 1])
+    f = F(kk)
+    f0, f1, f2 = f[:, 0], f[:, 1], f[:, 2]
+    den = f0 - 2 * f1 + f2
+    with np.errstate(divide="ignore", invalid="ignore"):
+        dk = np.where(den < 0, 0.5 * (f0 - f2) / np.where(den < 0, den, -1.0), 0.0)
+    p = np.where(inner, grid[k] + dk * (grid[1] - grid[0]), grid[k])
+    return p.reshape(shape)
