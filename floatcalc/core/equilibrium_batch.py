@@ -129,8 +129,7 @@ class BatchSupport:
         if h.ndim == 2:
             he = h @ self._A.T                           # (S, E)
             return np.matmul(self.coupling, he[..., None])[..., 0]
-        he = np.einsum("smk,em->sek", h, self._A)
-        return np.matmul(self.coupling, he)
+        return np.matmul(self.coupling, np.matmul(self._A, h))
 
     def state(self, z, p, q, derivatives: bool = False):
         """Depths d, effective depths e, forces F (and with ``derivatives`` de/du and dF/du
@@ -193,8 +192,8 @@ def _residual(bs: BatchSupport, u, W, xg, yg, derivatives=False):
     if not derivatives:
         return r, F
     de, dF = st[3], st[4]
-    J = np.stack([de[rows, j, :], np.einsum("sm,smk->sk", ax, dF) / W[:, None],
-                  np.einsum("sm,smk->sk", ay, dF) / W[:, None]], axis=1)
+    J = np.stack([de[rows, j, :], np.matmul(ax[:, None, :], dF)[:, 0] / W[:, None],
+                  np.matmul(ay[:, None, :], dF)[:, 0] / W[:, None]], axis=1)
     return r, F, J
 
 

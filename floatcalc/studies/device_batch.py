@@ -220,11 +220,12 @@ def _geometry_clear(lay: _Layout, half_l, half_w, xb, yb) -> np.ndarray:
     ok = np.ones(S, dtype=bool)
     if E > 1:
         i, j = np.triu_indices(E, 1)
-        axes = np.stack([np.stack([lay.ux, lay.uy], -1), np.stack([-lay.uy, lay.ux], -1)], axis=1)  # (E, 2, 2)
-        ax = np.concatenate([axes[i], axes[j]], axis=1)           # (P, 4, 2)
-        pi = np.einsum("spcx,pax->spac", C[:, i], ax)              # (S, P, 4 axes, 4 corners)
-        pj = np.einsum("spcx,pax->spac", C[:, j], ax)
-        gap = np.maximum(pj.min(-1) - pi.max(-1), pi.min(-1) - pj.max(-1))   # (S, P, 4)
+        # separating axes of rectangles: each one's two edge directions (2E axes in all)
+        axes = np.stack([lay.ux, lay.uy, -lay.uy, lay.ux], -1).reshape(2 * E, 2)
+        proj = np.matmul(C, axes.T)                                   # (S, E, 4 corners, 2E axes)
+        lo, hi = proj.min(axis=2), proj.max(axis=2)                   # (S, E, 2E)
+        a = np.concatenate([2 * i[:, None] + [0, 1], 2 * j[:, None] + [0, 1]], axis=1)   # (P, 4)
+        gap = np.maximum(lo[:, j[:, None], a] - hi[:, i[:, None], a], lo[:, i[:, None], a] - hi[:, j[:, None], a])
         scale = np.max(np.abs(C), axis=(1, 2, 3))
         ok &= np.all(np.max(gap, axis=-1) > 1e-9 * scale[:, None], axis=1)
     # the polygon of the nominal hull's corners lies inside this sample's hull: containing
