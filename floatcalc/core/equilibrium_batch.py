@@ -30,8 +30,10 @@ uses the exact Jacobian of the piecewise-linear point law *including* the three 
 sweeps (forward-mode derivatives through them), so it converges in a few steps; a step
 limit (no point moves more than 0.25 l_c) and step halving on the residual norm guard it.
 
-Samples that do not converge, or that fail under their own weight (P ≤ 0), are reported in
-``ok`` so that the caller can hand them to the scalar solver.
+A device too heavy for its legs gives P < 0 from the same equations (the scalar solver finds
+that root by lightening the device). Samples that do not converge, or whose legs carry less
+than a thousandth of the own weight at capacity, are reported in ``ok`` so that the caller
+can hand them to the scalar solver.
 
 Validity: that of :mod:`floatcalc.core.equilibrium`.
 """
@@ -212,11 +214,11 @@ def capacity_at_centre(bs: BatchSupport, W, xg, yg, *, tol: float = 1e-12, max_i
     Returns
     -------
     P : ndarray (S,)
-        Capacity (NaN where not ``ok``).
+        Capacity, negative for a device that sinks under its own weight (NaN where not ``ok``).
     u : ndarray (S, 3)
         (z, p, q) at capacity.
     ok : ndarray (S,) bool
-        Converged with P > 0; the other samples need the scalar solver.
+        Converged with P + W > 10⁻³ W; the other samples need the scalar solver.
     """
     W = np.asarray(W, dtype=float)
     xg = np.asarray(xg, dtype=float)
@@ -264,6 +266,6 @@ def capacity_at_centre(bs: BatchSupport, W, xg, yg, *, tol: float = 1e-12, max_i
             rw, Fw, Jw = _residual(part, ut, Wa[w], xa[w], ya[w], derivatives=True)
             un[w], rn[w], Fn[w], Jn[w] = ut, rw, Fw, Jw
         ua, r, F, J = un, rn, Fn, Jn
-    ok &= P > 0.0
+    ok &= P + W > 1e-3 * W   # a device that carries next to nothing: leave it to the scalar solver
     P = np.where(ok, P, np.nan)
     return P, u, ok
