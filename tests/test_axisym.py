@@ -171,3 +171,14 @@ def test_depth_bounded_by_2d_and_monotone(lnr, psi):
     assert -float(ax.contact_height(r, psi + 0.01)) > d
     assert -float(ax.contact_height(r * 1.01, psi)) > d
     assert float(ax.contact_height(r, -psi)) == pytest.approx(d, rel=1e-12)
+
+
+def test_shooting_restarts_a_collapsed_secant():
+    """A coarse shot that lands exactly on the target (f = 0) made the next secant step zero, so
+    the two iterates coincided and the fine iterations never moved (ConvergenceError). Found
+    through a small ring footpad (R_r = 0.01, b = 0.005 l_c, θ = 150°), whose inner line sits
+    here. At ψ ≈ 3e-5 the linearised interior solution z = −tan ψ I0(r)/I1(r) (textbook Bessel
+    solution of ∇²z = z, regular at the centre) is exact to O(ψ²) ≈ 1e-9 relative."""
+    rc, psi = 0.007500142130666311, 3.2823360376355026e-05
+    z = float(ax.solve(rc, psi, side="inner", steps=300)["height"])
+    assert z == pytest.approx(-math.tan(psi) * i0e(rc) / i1e(rc), rel=1e-8)

@@ -335,12 +335,16 @@ def solve(rc, psi, *, side: str = "outer", tight: bool = True, steps: int = STEP
             fine[work] = fw | (np.abs(f1) < 1e-6)
             denom = f1 - f0[work]
             safe = np.where(np.abs(denom) > 1e-300, denom, 1e-300)
+            # A secant pair that has collapsed (the previous step was exactly zero, e.g. a
+            # coarse shot that hit f = 0 before the switch to fine shots) carries no slope and
+            # would never move again: restart it with a small offset.
             if inner:  # iterate on ln rs (start radius spans decades)
                 lx1, lx0 = np.log(x1[work]), np.log(x0[work])
-                step = -f1 * (lx1 - lx0) / safe
+                step = np.where(lx1 == lx0, 1e-7, -f1 * (lx1 - lx0) / safe)
                 xn = np.exp(lx1 + np.clip(step, -3.0, 3.0))
             else:
-                step = -f1 * (x1[work] - x0[work]) / safe
+                same = x1[work] == x0[work]
+                step = np.where(same, 1e-7, -f1 * (x1[work] - x0[work]) / safe)
                 xn = np.maximum(x1[work] + np.clip(step, -3.0, 3.0), r_t[work] * (1 + 1e-12))
             x0[work], f0[work] = x1[work], f1
             x1[work] = xn
