@@ -458,7 +458,8 @@ def ring(ring_radius: Any, wire_radius: Any, contact_angle: Any, *, liquid: Liqu
 
     The inner pull 2πσ r_i sin ψ_i equals the weight of the depressed liquid enclosed by the
     ring (Keller), reported as ``details["enclosed_liquid_force_N"]``. Limit = max over the
-    curve, which ends when either side floods (φ = π).
+    curve, which follows the push-down branch: it ends when either side floods (φ = π) or,
+    earlier, where the lowest-point depth stops rising.
 
     Parameters
     ----------

@@ -180,3 +180,26 @@ def test_extreme_contact_angles_are_finite(theta_deg):
         assert math.isfinite(r.max_force.magnitude) and math.isfinite(r.depth_at_max.magnitude)
     if theta_deg == 180.0:
         assert b.max_force > ball("1 mm", "0 deg").max_force
+
+
+def test_ring_curve_follows_the_push_down_branch():
+    """The ring's force-depth curve ran on past the deepest state of its outer side (the outer
+    contact line climbing towards the top of the wire lifts the wire again), so its depths were
+    not increasing and ``force_at_depth`` failed inside SciPy. Like the ball, the curve must
+    end at the deepest state reachable by pushing down. Independent check of where that is: at
+    given φ_o the outer side alone fixes the lowest-point depth, D = d_o + b(1 − cos φ_o), with
+    d_o from the direct outer solve on a fine φ_o grid here (not the table, not the ring code)."""
+    w = water()
+    lc = w.lc
+    Rr, b, th = 1.0, 0.3, math.radians(170)
+    r = ring(Rr * lc, b * lc, th, liquid=w)
+    D = r.curve.depth.to("m").magnitude
+    F = r.curve.force.to("N").magnitude
+    assert np.all(np.diff(D) > 0)
+    phi = np.linspace(2.4, 3.0, 121)
+    Do = -ax.contact_height_direct(Rr + b * np.sin(phi), phi + th - np.pi) + b * (1 - np.cos(phi))
+    # the curve's 3° grid lands within about 1e-3 l_c of the flat maximum
+    assert Do.max() - 2e-3 < D[-1] / lc <= Do.max() + 1e-9
+    assert np.allclose(r.curve.force_at_depth(D).to("N").magnitude, F, rtol=1e-12)
+    # the limit (refined between curve points) lies on this branch
+    assert F.max() <= r.max_force.to("N").magnitude <= F.max() * (1 + 1e-3)

@@ -99,11 +99,17 @@ def ball_curve(R: float, theta: float, n: int = 241):
     # pushing down: a non-wetting ball first touching has a raised neck (ψ < 0) and is drawn
     # in (depth falling below zero as φ grows), and a thin ball near full immersion can rise
     # again as φ → π. States where depth falls with φ are unstable under depth control.
-    up = np.diff(cur["depth"]) > 0
+    sl = _rising_branch(cur["depth"])
+    return {k: val[sl] for k, val in cur.items()}
+
+
+def _rising_branch(depth):
+    """Slice of the first run of increasing depth (from its first rise to its first fall)."""
+    up = np.diff(depth) > 0
     i0 = int(np.argmax(up)) if up.any() else 0
     rest = up[i0:]
-    m = cur["depth"].size if rest.all() else i0 + int(np.argmin(rest)) + 1
-    return {k: val[i0:m] for k, val in cur.items()}
+    m = depth.size if rest.all() else i0 + int(np.argmin(rest)) + 1
+    return slice(i0, m)
 
 
 def ball_limit(R: float, theta: float, n: int = 241):
@@ -332,7 +338,8 @@ def _ring_states(Rr, b, theta, phi_o, inv):
 
 
 def ring_curve(Rr: float, b: float, theta: float, n: int = 61):
-    """Force–depth curve of a ring footpad from first contact until one side floods (φ = π).
+    """Force–depth curve of a ring footpad from first contact until one side floods (φ = π)
+    or, earlier, the lowest-point depth stops rising with φ_o (end of the push-down branch).
 
     Returns dict of arrays ``depth``, ``phi_outer``, ``phi_inner``, ``psi_outer``,
     ``psi_inner``, ``d_outer``, ``d_inner``, ``surface_tension`` (both lines), ``pressure``
@@ -348,7 +355,11 @@ def _ring_curve(Rr, b, theta, n):
     phi = np.linspace(0.0, PI, n)
     Do = depth_outer(Rr + b * np.sin(phi), phi + theta - PI) + b * (1.0 - np.cos(phi))
     keep = (Do >= lo) & (Do <= hi)
-    return _ring_states(Rr, b, theta, phi[keep], inv), inv
+    # as for the ball, follow the push-down branch only: it ends where the depth stops rising
+    # (the outer line climbing towards the top of the wire lifts it again; a wetting ring is
+    # first drawn in)
+    phi, Do = phi[keep], Do[keep]
+    return _ring_states(Rr, b, theta, phi[_rising_branch(Do)], inv), inv
 
 
 def ring_limit(Rr: float, b: float, theta: float, n: int = 61):
