@@ -28,7 +28,12 @@ g(P) = max_j(e_j − e_lim,j) = 0 where (z, p, q) balance W + P at (x_G, y_G), w
 equations. Newton's method on (z, p, q), batched with :func:`numpy.linalg.solve` on (S, 3, 3),
 uses the exact Jacobian of the piecewise-linear point law *including* the three coupling
 sweeps (forward-mode derivatives through them), so it converges in a few steps; a step
-limit (no point moves more than 0.25 l_c) and step halving on the residual norm guard it.
+limit (no point moves more than 0.25 l_c), step halving on the residual and the slope floor
+of the scalar solver (force slopes of at least 10⁻³ of their mean) guard it. Past its limit
+a point's force is held, but its slope in the Jacobian is that of the table's last segment:
+a symmetric device puts all its points past their limits at once, where held forces alone
+would leave the moments without a derivative. It starts level,
+half-way down to the shallowest limit.
 
 A device too heavy for its legs gives P < 0 from the same equations (the scalar solver finds
 that root by lightening the device). Samples that do not converge, or whose legs carry less
@@ -108,10 +113,12 @@ class BatchSupport:
                             limit_force=self.limit_force[idx], owner=self.owner,
                             coupling=self.coupling[idx], coupling_iters=self.coupling_iters)
 
-    def lookup(self, e):
+    def lookup(self, e, extend: bool = False):
         """Force F, contact depth H and their slopes dF/de, dH/de at effective depths e (S, m).
 
         The same piecewise-linear law as :meth:`floatcalc.core.equilibrium.Support.lookup`.
+        With ``extend`` the force slope past the limit is that of the table's last segment
+        (for steering Newton's method back from beyond the limit; F itself stays clamped).
         """
         u = (e - self.d0) / self.step
         u = np.minimum(np.maximum(np.where(u == u, u, -1.0), -1.0), self._nf)
@@ -124,6 +131,8 @@ class BatchSupport:
         F, H = (T0 + t * (T1 - T0)) * on
         inside = on & (u < self._nf - 1.0)
         dF, dH = (T1 - T0) / self.step * inside
+        if extend:
+            dF = (T1[0] - T0[0]) / self.step * on
         return F, H, dF, dH
 
     def _spread(self, h):
@@ -140,9 +149,9 @@ class BatchSupport:
         if derivatives:
             dd = np.stack([np.ones_like(self.x), self.x, self.y], axis=-1)
         if not self._coupled:
-            F, _, dF, _ = self.lookup(d)
+            F, _, dF, _ = self.lookup(d, extend=derivatives)
             if derivatives:
-                return d, d, F, dd, dF[..., None] * dd
+                return d, d, F, dd, _floored(dF)[..., None] * dd
             return d, d, F
         s = np.zeros_like(d)
         ds = np.zeros(d.shape + (3,)) if derivatives else None
@@ -152,11 +161,18 @@ class BatchSupport:
                 ds = self._spread(dh[..., None] * (dd - ds))
             s = self._spread(h)
         e = d - s
-        F, _, dF, _ = self.lookup(e)
+        F, _, dF, _ = self.lookup(e, extend=derivatives)
         if derivatives:
             de = dd - ds
-            return d, e, F, de, dF[..., None] * de
+            return d, e, F, de, _floored(dF)[..., None] * de
         return d, e, F
+
+
+def _floored(k):
+    """Force slopes with the floor of :func:`floatcalc.core.equilibrium.solve` (10⁻³ of the mean
+    slope): points past their limit or not yet touching have none, and the force is stationary
+    at the limit; the floor keeps the Jacobian regular (it only steers the iteration)."""
+    return np.maximum(k, 1e-3 * np.maximum(np.mean(np.abs(k), axis=1, keepdims=True), 1e-12))
 
 
 def from_supports(sups) -> BatchSupport:
@@ -224,9 +240,10 @@ def capacity_at_centre(bs: BatchSupport, W, xg, yg, *, tol: float = 1e-12, max_i
     xg = np.asarray(xg, dtype=float)
     yg = np.asarray(yg, dtype=float)
     S = bs.samples
-    # level start with the deepest point just at its limit (the coupling only lifts e)
+    # level start half-way to the shallowest limit: every touching point still has a slope
+    # (the force is stationary at the limit, so a start there gives a singular Jacobian)
     u = np.zeros((S, 3))
-    u[:, 0] = np.min(bs.limit_depth - bs.offset, axis=1)
+    u[:, 0] = np.min(0.5 * (bs.d0 + bs.limit_depth) - bs.offset, axis=1)
     P = np.full(S, np.nan)
     ok = np.zeros(S, dtype=bool)
     idx = np.arange(S)

@@ -23,7 +23,9 @@ compares the two on random perturbations).
 Samples for which the batch cannot vouch for the scalar answer are handed to the scalar
 model unchanged: footprints that come within rounding of overlapping, a centre of mass not
 clearly inside the support polygon (the scalar model then gives its one-line InputError),
-and capacities that did not converge or are not positive.
+capacities that did not converge or devices that carry next to nothing, and samples whose rod
+types get tables of different lengths (the scalar path stacks the tables of all elements, so it
+needs equal lengths; it is left to decide what happens there).
 """
 
 from __future__ import annotations
@@ -129,11 +131,13 @@ def _field(X, Y, cx, cy, ux, uy, half, w):
     a = (X - cx) * ux + (Y - cy) * uy
     b = np.abs(-(X - cx) * uy + (Y - cy) * ux)
     beyond = np.maximum(np.abs(a) - half, 0.0)
-    r = np.hypot(beyond, b)
-    side = np.exp(-np.maximum(b - w, 0.0))
-    rr = np.maximum(r, w)
-    cap = k0e(rr) * np.exp(w - rr) / k0e(w)
-    return np.where(beyond > 0.0, cap, side)
+    w = np.broadcast_to(w, beyond.shape)
+    out = np.exp(-np.maximum(b - w, 0.0))            # beside the rod
+    end = beyond > 0.0                                # round its ends
+    wb = w[end]
+    rr = np.maximum(np.hypot(beyond[end], b[end]), wb)
+    out[end] = k0e(rr) * np.exp(wb - rr) / k0e(wb)
+    return out
 
 
 @dataclass(frozen=True)
@@ -294,6 +298,9 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
     xgs = (wb * xb + (own * cxm).sum(axis=1)) / wt
     ygs = (wb * yb + (own * cym).sum(axis=1)) / wt
     clear = _geometry_clear(lay, 0.5 * length, radius, xb, yb)
+    # Device.support stacks the element tables, so the scalar model needs tables of one length;
+    # samples whose rods differ go to it as they are (it decides what happens).
+    clear &= np.all(n == n[:, :1], axis=1)
     return bs, weight / fs, xgs / lc, ygs / lc, weight, fs, clear
 
 
