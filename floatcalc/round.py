@@ -189,7 +189,8 @@ def pin(radius: Any, contact_angle: Any, *, depth: Any | None = None, length: An
         Advancing contact angle θ (pushing down).
     depth : [m], optional
         Depth of the flat tip below the undisturbed surface (≥ 0). If not given, the tip is
-        taken as far below and only the surface-tension force is reported.
+        taken as far below and ``vertical_force`` is the surface-tension force only (the
+        ``curve`` still includes the pressure on the tip at each of its depths).
     length : [m], optional
         Pin length, for its own weight (omitted, with a warning, if not given).
     liquid : Liquid, optional
@@ -204,7 +205,7 @@ def pin(radius: Any, contact_angle: Any, *, depth: Any | None = None, length: An
         upward (negative: the liquid pulls the pin down), its parts, the Wilhelmy force
         σ P cos θ, meniscus volume, own weight, payload, profile, and ``curve``: force against
         tip depth from first contact to the pin length (if given; else max(2 l_c, 4b) past
-        the start of the side stage).
+        the start of the side stage, or the tip depth if that is deeper).
 
     Notes
     -----
@@ -242,7 +243,9 @@ def pin(radius: Any, contact_angle: Any, *, depth: Any | None = None, length: An
     if D is None:
         st = rb.pin_state(bs, th, math.inf)
         st["pressure"], st["force"] = 0.0, st["surface_tension"]
-        warnings.append("tip depth not given: contact line taken on the side; pressure on the tip not included")
+        warnings.append("tip depth not given: contact line taken on the side; the vertical force is the "
+                        "surface-tension pull only (no pressure on the tip), the force-depth curve includes "
+                        "the tip pressure at each depth")
     else:
         st = rb.pin_state(bs, th, D / lc)
     if L is None:
@@ -251,6 +254,8 @@ def pin(radius: Any, contact_angle: Any, *, depth: Any | None = None, length: An
     else:
         weight = rho_s * math.pi * b * b * L * liq.g
     cur = rb.pad_curve(bs, math.inf, th, depth_max=None if L is None else L / lc)
+    if L is None and D is not None and cur["depth"][-1] < D / lc:  # reach the given tip depth
+        cur = rb.pad_curve(bs, math.inf, th, depth_max=D / lc)
     stage_names = [rb.STAGES[int(k)] for k in cur["stage"]]
     h = -st["d"]
     from .core import axisym

@@ -203,3 +203,24 @@ def test_ring_curve_follows_the_push_down_branch():
     assert np.allclose(r.curve.force_at_depth(D).to("N").magnitude, F, rtol=1e-12)
     # the limit (refined between curve points) lies on this branch
     assert F.max() <= r.max_force.to("N").magnitude <= F.max() * (1 + 1e-3)
+
+
+def test_pin_curve_covers_the_tip_depth_and_says_what_it_includes():
+    """Two pin inconsistencies. (1) With a tip depth but no length the curve stopped at
+    max(2 l_c, 4b) past the side stage, so ``curve.force_at_depth(result.depth)`` refused the
+    pin's own depth. (2) Without a depth the result warned "pressure on the tip not included",
+    true of ``vertical_force`` but not of the curve, which does include it. Independent figures:
+    Wilhelmy pull −σ 2πb cos θ (Wilhelmy 1863) plus the hydrostatic pressure ρ g D on the flat
+    tip of area πb², written out here."""
+    w = water()
+    b, th, D = 0.1e-3, math.radians(60), 20e-3
+    r = pin(b, th, depth=D, liquid=w)
+    expect = -w.sigma * 2 * math.pi * b * math.cos(th) + w.rho * w.g * D * math.pi * b * b
+    assert r.vertical_force.to("N").magnitude == pytest.approx(expect, rel=1e-12)
+    assert r.curve.force_at_depth([D]).to("N").magnitude[0] == pytest.approx(expect, rel=1e-9)
+    free = pin(b, th, liquid=w)
+    assert free.pressure_part.magnitude == 0.0
+    Dc = free.curve.depth.to("m").magnitude
+    assert np.allclose(free.curve.pressure.to("N").magnitude, w.rho * w.g * Dc * math.pi * b * b, rtol=1e-12)
+    (msg,) = [m for m in free.warnings if "tip depth not given" in m]
+    assert "vertical force" in msg and "curve includes" in msg
