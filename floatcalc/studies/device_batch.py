@@ -131,12 +131,13 @@ def _field(X, Y, cx, cy, ux, uy, half, w):
     a = (X - cx) * ux + (Y - cy) * uy
     b = np.abs(-(X - cx) * uy + (Y - cy) * ux)
     beyond = np.maximum(np.abs(a) - half, 0.0)
+    k0w = np.broadcast_to(k0e(w), beyond.shape)      # w varies by element, not by point
     w = np.broadcast_to(w, beyond.shape)
     out = np.exp(-np.maximum(b - w, 0.0))            # beside the rod
     end = beyond > 0.0                                # round its ends
     wb = w[end]
     rr = np.maximum(np.hypot(beyond[end], b[end]), wb)
-    out[end] = k0e(rr) * np.exp(wb - rr) / k0e(wb)
+    out[end] = k0e(rr) * np.exp(wb - rr) / k0w[end]
     return out
 
 
