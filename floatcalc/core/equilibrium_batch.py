@@ -235,6 +235,19 @@ def capacity_at_centre(bs: BatchSupport, W, xg, yg, *, tol: float = 1e-12, max_i
         (z, p, q) at capacity.
     ok : ndarray (S,) bool
         Converged with P + W > 10⁻³ W; the other samples need the scalar solver.
+
+    Four linear springs of limit force 2 at depth 1 (as in the example of
+    :func:`floatcalc.core.equilibrium.solve`): centred, they carry 8 in all; with the centre
+    of mass at x = 0.5 the two springs at x = +1 reach their limits first, at a total of 16/3.
+
+    >>> from floatcalc.core.equilibrium import Support
+    >>> D = np.tile(np.linspace(0.0, 1.0, 11), (4, 1))
+    >>> sup = Support(x=np.array([1., -1, 1, -1]), y=np.array([1., 1, -1, -1]), offset=np.zeros(4),
+    ...               depth=D, force=2.0 * D, contact=D, owner=np.arange(4), coupling=np.zeros((4, 4)))
+    >>> P, u, ok = capacity_at_centre(from_supports([sup, sup]), np.array([1.0, 1.0]), np.array([0.0, 0.5]),
+    ...                               np.zeros(2))
+    >>> [round(float(v), 9) for v in P + 1.0], bool(ok.all())
+    ([8.0, 5.333333333], True)
     """
     W = np.asarray(W, dtype=float)
     xg = np.asarray(xg, dtype=float)

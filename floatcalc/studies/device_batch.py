@@ -314,7 +314,19 @@ def _avg(owner, E):
 
 @dataclass(frozen=True)
 class DeviceBatchFunc:
-    """Vectorised study callable of an all-rod design (see module docstring); picklable."""
+    """Vectorised study callable of an all-rod design (see module docstring); picklable.
+
+    Takes the inputs of :data:`INPUTS` as broadcastable SI arrays and returns arrays of the
+    broadcast shape.
+
+    >>> from floatcalc.device import example
+    >>> d = example("twin_rod")
+    >>> f = DeviceBatchFunc(d)
+    >>> out = f({"contact_angle_shift": np.radians([-10.0, 0.0, 10.0]), "surface_tension": d.liquid.sigma,
+    ...          "radius_factor": 1.0, "length_factor": 1.0, "body_mass": 8e-4, "payload_mass": 0.0})
+    >>> out["max_payload"].shape, bool(np.all(np.diff(out["max_payload"]) > 0))
+    ((3,), True)
+    """
 
     design: Any
     block: int = BLOCK
