@@ -182,3 +182,29 @@ def test_shooting_restarts_a_collapsed_secant():
     rc, psi = 0.007500142130666311, 3.2823360376355026e-05
     z = float(ax.solve(rc, psi, side="inner", steps=300)["height"])
     assert z == pytest.approx(-math.tan(psi) * i0e(rc) / i1e(rc), rel=1e-8)
+
+
+def test_shooting_near_psi_pi_accepts_the_round_off_floor():
+    """Inside a tiny ring at ψ → π (r_c = 2e-4, clamped to π − 1e-6) the shooting residual
+    stalls at round-off (~3e-12 in ln r) above the 1e-13 tolerance, and the solver raised
+    ConvergenceError at some step counts (so ring("0.0002 l_c", "0.0001 l_c", 180°) failed).
+    Reference: an independent shooting in the arclength form from the centre (series start
+    z ≈ z0 (1 + r²/4)), scipy DOP853 at rtol 1e-13 up to the event ψ_o = −(π − 1e-6), brentq on
+    ln(−z0) so that r there is r_c. Tolerance 1e-7: the Richardson pair at 1000 steps agrees
+    with the 4000-step one to ~1e-9 here."""
+    rc, target = 2e-4, math.pi - 1e-6
+
+    def at_event(z0):
+        r0 = 1e-6 / abs(z0)
+        y0 = [r0, z0 * (1 + r0 * r0 / 4), z0 * r0 / 2]
+        ev = lambda s, y: y[2] + target  # noqa: E731
+        ev.terminal = True
+        sol = solve_ivp(ax.arclength_rhs, (0, 50), y0, method="DOP853", rtol=1e-13, atol=1e-15, events=ev)
+        return sol.y_events[0][0]
+
+    lz = brentq(lambda lz: at_event(-math.exp(lz))[0] - rc, 4.0, 5.5, xtol=1e-13)
+    ref = at_event(-math.exp(lz))[1]
+    for steps in (1000, 2000):
+        assert float(ax.solve(rc, math.pi, side="inner", steps=steps)["height"]) == pytest.approx(ref, rel=1e-7)
+    coarse = float(ax.solve(rc, math.pi, side="inner", steps=300, tight=False)["height"])  # ring's first guesses
+    assert coarse == pytest.approx(ref, rel=1e-3)
