@@ -224,3 +224,22 @@ def test_pin_curve_covers_the_tip_depth_and_says_what_it_includes():
     assert np.allclose(free.curve.pressure.to("N").magnitude, w.rho * w.g * Dc * math.pi * b * b, rtol=1e-12)
     (msg,) = [m for m in free.warnings if "tip depth not given" in m]
     assert "vertical force" in msg and "curve includes" in msg
+
+
+def test_thick_ring_matches_both_sides():
+    """A thick wire (b = 10 l_c on R_r = 20 l_c, θ = 180°) raised ConvergenceError: the Newton
+    steps that match the inner and outer lowest-point depths use the slope of a coarse spline
+    inverse and converged only linearly, so four steps fell short of 1e-8 l_c. Independent
+    check of the returned state: re-solve each side directly at the returned contact positions
+    (outer: direct shooting instead of the table; inner: default steps, tight) and require the
+    same lowest-point depth to 1e-8 relative."""
+    w = water()
+    lc = w.lc
+    Rr, b, th = 20.0, 10.0, math.radians(180)
+    r = ring(Rr * lc, b * lc, th, liquid=w)
+    D = r.depth_at_max.to("m").magnitude / lc
+    po, pi_ = math.radians(r.details["contact_position_outer_deg"]), math.radians(r.details["contact_position_inner_deg"])
+    d_out = -float(ax.contact_height_direct(Rr + b * math.sin(po), po + th - math.pi))
+    d_in = -float(ax.solve(Rr - b * math.sin(pi_), pi_ + th - math.pi, side="inner")["height"])
+    assert d_out + b * (1 - math.cos(po)) == pytest.approx(D, rel=1e-8)
+    assert d_in + b * (1 - math.cos(pi_)) == pytest.approx(D, rel=1e-8)

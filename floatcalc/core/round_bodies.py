@@ -309,23 +309,35 @@ def _ring_inverse(Rr, b, theta, n):
 
 def _ring_states(Rr, b, theta, phi_o, inv):
     """Ring state for outer contact positions φ_o: the inner position φ_i gives the same
-    lowest-point depth on both sides (spline inverse, then Newton steps on the exact inner
-    solve until the depths agree to 1e-10 l_c)."""
+    lowest-point depth on both sides (spline inverse, then Newton/secant steps on the exact
+    inner solve until the depths agree to 1e-10 l_c, or 1e-10 relative deeper than 1 l_c)."""
     rco = Rr + b * np.sin(phi_o)
     d_o = depth_outer(rco, phi_o + theta - PI)
     D = d_o + b * (1.0 - np.cos(phi_o))
     dinv = inv.derivative()
     x = np.clip(inv(D), 0.0, PI)
-    start = None
-    for _ in range(4):
+    start, x_prev, g_prev = None, None, None
+    scale = np.maximum(1.0, np.abs(D))
+    for _ in range(8):
         d_i, vol_i, start = _inner_depth(Rr, b, theta, x, start=start, full=True)
         Di = d_i + b * (1 - np.cos(x))
         g = Di - D
-        if np.all(np.abs(g) < 1e-10):
+        if np.all(np.abs(g) < 1e-10 * scale):
             break
-        x = np.clip(x - g * dinv(Di), 0.0, PI)
+        # slope dφ_i/dD: the spline inverse's at first, then secant through the exact solves
+        # (the coarse spline's slope alone converges only linearly, too slowly for thick wires)
+        slope = dinv(Di)
+        if x_prev is not None:
+            dg = g - g_prev
+            with np.errstate(divide="ignore", invalid="ignore"):
+                sec = (x - x_prev) / np.where(dg != 0, dg, np.inf)
+                q = sec / slope
+            ok = (q > 0.1) & (q < 10.0)  # guard against round-off in dg
+            slope = np.where(ok, sec, slope)
+        x_prev, g_prev = x, g
+        x = np.clip(x - g * slope, 0.0, PI)
     else:
-        if np.any(np.abs(g) > 1e-8):
+        if np.any(np.abs(g) > 1e-8 * scale):
             raise ConvergenceError("ring footpad: inner and outer contact positions did not match")
     phi_i = x
     psi_o, psi_i = phi_o + theta - PI, phi_i + theta - PI
