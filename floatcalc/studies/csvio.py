@@ -95,7 +95,10 @@ def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = Fals
         if s.startswith("#"):
             comments.append(s.lstrip("#").strip())
             continue
-        fields = next(csv.reader([raw]))
+        try:
+            fields = next(csv.reader([raw]))
+        except csv.Error as exc:  # e.g. a field over the csv module's 131072-character limit
+            raise input_error(field, f"line {lineno}: not readable as CSV ({exc})", f"{len(raw)} characters") from None
         if header is None:
             header, header_line = fields, lineno
         else:
