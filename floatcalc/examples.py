@@ -212,10 +212,15 @@ def loads_toml(text: str | bytes) -> dict[str, Any]:
     if len(text.encode("utf-8")) > MAX_FILE_BYTES:
         raise input_error("design file", f"must be at most {MAX_FILE_BYTES // 1024} kB",
                           f"{len(text.encode('utf-8'))} bytes")
+    from .device.design import check_key_depth
+
+    check_key_depth(text, "design file")
     try:
         raw = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise input_error("design file", "is not valid TOML", str(exc).splitlines()[0]) from None
+    except RecursionError:  # tomllib recurses once per nested array or inline table
+        raise input_error("design file", "is not a design file: arrays or tables nested too deeply") from None
     return _check_scenario(raw)
 
 
@@ -336,10 +341,15 @@ def read_design(data: bytes | str) -> tuple[str, dict[str, Any]]:
         text = raw.decode("utf-8")
     except UnicodeDecodeError:
         raise input_error("design file", "must be UTF-8 text (TOML)", "undecodable bytes") from None
+    from .device.design import check_key_depth
+
+    check_key_depth(text, "design file")
     try:
         parsed = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise input_error("design file", "is not valid TOML", str(exc).splitlines()[0]) from None
+    except RecursionError:  # tomllib recurses once per nested array or inline table
+        raise input_error("design file", "is not a design file: arrays or tables nested too deeply") from None
     if "schema_version" in parsed or "legs" in parsed:
         from .device.design import design_from_data
 

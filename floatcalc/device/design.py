@@ -86,7 +86,8 @@ def _unknown(keys, allowed, path, problems):
         if k not in allowed:
             close = difflib.get_close_matches(k, sorted(allowed), n=1, cutoff=0.6)
             hint = f" (did you mean '{close[0]}'?)" if close else ""
-            where = f"{path}.{k}" if path else k
+            shown = k if k.isprintable() else repr(k)  # a quoted TOML key may hold line breaks
+            where = f"{path}.{shown}" if path else shown
             problems.append(f"{where}: unknown key{hint}; allowed: {', '.join(sorted(allowed))}")
 
 
@@ -271,14 +272,30 @@ def _leg(leg, path, problems):
     return p if len(problems) == before else None
 
 
+MAX_KEY_PARTS = 64  # dotted parts in one key or table header; tomllib takes quadratic time in them
+
+
+def check_key_depth(text: str, source: str) -> None:
+    """Refuse a key or table header with more than MAX_KEY_PARTS dotted parts before parsing
+    (a 64 kB line of ``a.a.a...`` keeps tomllib busy for many seconds)."""
+    for n, line in enumerate(text.splitlines(), start=1):
+        s = line.lstrip()
+        if s and s[0] != "#" and s.split("=", 1)[0].count(".") >= MAX_KEY_PARTS:
+            raise input_error(source, f"line {n}: keys may have at most {MAX_KEY_PARTS} dotted parts",
+                              f"{s.split('=', 1)[0].count('.') + 1} parts")
+
+
 def parse_toml(text: str, source: str = "design"):
     """Parse TOML text; malformed TOML gives one InputError line with tomllib's position."""
     import tomllib
 
+    check_key_depth(text, source)
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise input_error(source, f"is not valid TOML ({exc})") from None
+    except RecursionError:  # tomllib recurses once per nested array or inline table
+        raise input_error(source, "is not a design file: arrays or tables nested too deeply") from None
 
 
 def read_text(path) -> tuple[str, str]:
