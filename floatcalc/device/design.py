@@ -50,6 +50,7 @@ from ..errors import InputError, input_error
 SCHEMA_VERSION = 1
 MAX_BYTES = 1_000_000
 MAX_LEGS = 500
+MAX_LISTED_PROBLEMS = 20
 
 _TOP_KEYS = {"schema_version", "description", "liquid", "body", "legs"}
 _LIQUID_KEYS = {"name", "temperature", "salinity", "surface_tension"}
@@ -405,6 +406,9 @@ def design_from_data(data: dict, name: str = "design") -> Design:
             parsed.append(_leg(leg, f"legs[{i}]", problems))
     if problems:
         head = f"{name}: {len(problems)} problem{'s' if len(problems) > 1 else ''}"
+        if len(problems) > MAX_LISTED_PROBLEMS:  # a file of thousands of junk keys: bounded message
+            head += f" (the first {MAX_LISTED_PROBLEMS} listed)"
+            problems = problems[:MAX_LISTED_PROBLEMS]
         raise InputError(head + "\n" + "\n".join(problems) if len(problems) > 1 else problems[0])
     return Design(data=data, liquid=liq, body=body, legs=tuple(parsed))
 
