@@ -1,0 +1,192 @@
+"""Issue 8 §4: the page never runs user text as code, bounds uploads, and parses them safely.
+
+Static checks read the source with :mod:`ast` (not a text search, so comments and strings do
+not count): no ``eval``/``exec``/``compile`` calls, no pickle/marshal/shelve/dill/yaml imports
+anywhere in app.py or the floatcalc package (``__import__`` only with a literal module name). The upload limits are read from the page code and
+from .streamlit/config.toml. The upload handler (``app.load_design_bytes`` →
+``floatcalc.examples.read_design``; AppTest has no file-upload element) is then fed hostile
+bytes: random binary, a pickle payload whose loading would create a file, oversize bytes and
+TOML bombs of many keys. It must answer with a clear error and run nothing.
+"""
+
+from __future__ import annotations
+
+import ast
+import io
+import os
+import pickle
+import tomllib
+from pathlib import Path
+
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from floatcalc import examples as ex
+from floatcalc.errors import InputError
+
+ROOT = Path(__file__).resolve().parents[1]
+APP = ROOT / "app.py"
+SOURCES = [APP] + sorted((ROOT / "floatcalc").rglob("*.py"))
+UNSAFE_MODULES = {"pickle", "cPickle", "marshal", "shelve", "dill", "cloudpickle", "yaml", "joblib", "toml"}
+
+
+def _trees():
+    for path in SOURCES:
+        yield path, ast.parse(path.read_text(encoding="utf-8"), filename=str(path))
+
+
+def test_no_code_evaluation_anywhere():
+    found = []
+    for path, tree in _trees():
+        for node in ast.walk(tree):
+            if isinstance(node, ast.Call):
+                f = node.func
+                name = f.id if isinstance(f, ast.Name) else f.attr if isinstance(f, ast.Attribute) else ""
+                builtin = isinstance(f, ast.Name)
+                literal = bool(node.args) and isinstance(node.args[0], ast.Constant)
+                if (name in {"eval", "exec"} or (builtin and name == "compile")
+                        or (builtin and name == "__import__" and not literal)):  # re.compile is fine
+                    found.append(f"{path.relative_to(ROOT)}:{node.lineno} {name}()")
+                if name in {"load", "unsafe_load", "full_load"} and isinstance(f, ast.Attribute) and \
+                        isinstance(f.value, ast.Name) and f.value.id in {"yaml", "pickle", "marshal", "dill"}:
+                    found.append(f"{path.relative_to(ROOT)}:{node.lineno} {f.value.id}.{name}()")
+    assert not found, found
+
+
+def test_no_unsafe_deserialisers_imported():
+    found = []
+    for path, tree in _trees():
+        for node in ast.walk(tree):
+            names = []
+            if isinstance(node, ast.Import):
+                names = [a.name.split(".")[0] for a in node.names]
+            elif isinstance(node, ast.ImportFrom) and node.module:
+                names = [node.module.split(".")[0]]
+            found += [f"{path.relative_to(ROOT)}:{node.lineno} import {n}" for n in names if n in UNSAFE_MODULES]
+    assert not found, found
+
+
+def test_allow_pickle_never_enabled():
+    """numpy.load of the shipped table must not allow pickles (np.load(..., allow_pickle=True))."""
+    found = []
+    for path, tree in _trees():
+        for node in ast.walk(tree):
+            if isinstance(node, ast.keyword) and node.arg == "allow_pickle":
+                if not (isinstance(node.value, ast.Constant) and node.value.value is False):
+                    found.append(f"{path.relative_to(ROOT)}")
+    assert not found, found
+
+
+def test_upload_parsed_with_tomllib_only():
+    """Every TOML parse in the upload path goes through tomllib (the standard, data-only parser)."""
+    for mod in (ROOT / "floatcalc" / "examples.py", ROOT / "floatcalc" / "device" / "design.py"):
+        tree = ast.parse(mod.read_text(encoding="utf-8"))
+        loads = [n for n in ast.walk(tree) if isinstance(n, ast.Call) and isinstance(n.func, ast.Attribute)
+                 and n.func.attr in {"loads", "load"}]
+        assert loads, mod
+        assert all(isinstance(n.func.value, ast.Name) and n.func.value.id == "tomllib" for n in loads), mod
+    # the page's upload handler hands the bytes to floatcalc.examples.read_design
+    tree = ast.parse(APP.read_text(encoding="utf-8"))
+    fn = next(n for n in ast.walk(tree) if isinstance(n, ast.FunctionDef) and n.name == "load_design_bytes")
+    calls = {ast.unparse(n.func) for n in ast.walk(fn) if isinstance(n, ast.Call)}
+    assert calls == {"ex.read_design"}, calls
+
+
+def test_upload_size_is_limited_on_the_page_and_in_streamlit():
+    cfg = tomllib.loads((ROOT / ".streamlit" / "config.toml").read_text(encoding="utf-8"))
+    assert 0 < cfg["server"]["maxUploadSize"] <= 1  # MB: Streamlit refuses anything larger
+    assert ex.MAX_FILE_BYTES <= 64 * 1024  # the page's own, tighter limit
+    tree = ast.parse(APP.read_text(encoding="utf-8"))
+    up = [n for n in ast.walk(tree) if isinstance(n, ast.Call) and ast.unparse(n.func) == "st.file_uploader"]
+    assert len(up) == 1
+    kw = {k.arg: ast.literal_eval(k.value) for k in up[0].keywords if k.arg == "type"}
+    assert kw["type"] == ["toml"]
+    src = APP.read_text(encoding="utf-8")
+    assert "up.size > ex.MAX_FILE_BYTES" in src and "up.read(ex.MAX_FILE_BYTES + 1)" in src
+
+
+# ------------------------------------------------------------------------------------------------
+# The upload handler on hostile bytes
+
+def _handler():
+    """The page's handler, without running the page (app.py calls main() at import)."""
+    return ex.read_design
+
+
+def _refused(data) -> str:
+    with pytest.raises(InputError) as exc:
+        _handler()(data)
+    msg = str(exc.value)
+    assert msg.strip() and "Traceback" not in msg
+    return msg
+
+
+def _one_line(msg: str) -> None:
+    assert "\n" not in msg and "\r" not in msg, repr(msg)
+    assert msg.startswith("design file") and ": " in msg
+
+
+class _Trap:
+    """Loading this pickle would create a file: the proof that something ran."""
+
+    def __init__(self, path):
+        self.path = path
+
+    def __reduce__(self):
+        return (open, (self.path, "w"))
+
+
+def test_pickle_payload_is_refused_and_not_run(tmp_path):
+    marker = tmp_path / "pwned"
+    payload = pickle.dumps(_Trap(str(marker)), protocol=4)
+    for data in (payload, pickle.dumps(_Trap(str(marker)), protocol=0)):
+        _one_line(_refused(data))
+    assert not marker.exists()
+
+
+def test_oversize_upload_is_refused_with_a_clear_message():
+    data = b"schema_version = 1\n" + b"#" * (ex.MAX_FILE_BYTES + 10)
+    msg = _refused(data)
+    _one_line(msg)
+    assert f"at most {ex.MAX_FILE_BYTES // 1024} kB" in msg
+
+
+@pytest.mark.parametrize("data", [b"\x00\xff\xfe\x01" * 100, b"\x89PNG\r\n\x1a\n" + bytes(range(256)),
+                                  b"PK\x03\x04" + b"\x00" * 50, "schema_version = 1\n\ufeff\x00".encode()],
+                         ids=["binary", "png", "zip", "nul"])
+def test_binary_uploads_are_refused_in_one_line(data):
+    _one_line(_refused(data))
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.binary(max_size=2000))
+def test_random_bytes_give_one_clear_error_or_a_design(data):
+    try:
+        _handler()(data)
+    except InputError as exc:
+        msg = str(exc)
+        lines = msg.split("\n")
+        assert msg.startswith("design file") and len(lines) <= 21, msg
+        assert all(": " in ln for ln in lines)
+
+
+def test_toml_bomb_of_many_keys_quick_design():
+    body = "".join(f"k{i} = {i}\n" for i in range(5000))  # ~44 kB, under the size limit
+    msg = _refused(body.encode())
+    _one_line(msg)
+    assert "unknown key" in msg
+
+
+def test_toml_bomb_of_many_keys_device_design_is_bounded():
+    body = "schema_version = 1\n" + "".join(f"k{i} = {i}\n" for i in range(5000))
+    msg = _refused(body.encode())
+    lines = msg.split("\n")
+    assert len(lines) <= 21, f"{len(lines)} lines"  # head plus at most 20 listed problems
+    assert lines[0].startswith("design file: ") and "problems" in lines[0]
+    assert all(": " in ln for ln in lines)
+
+
+def test_toml_bomb_of_nested_arrays_and_dotted_keys():
+    for body in ("x = " + "[" * 20000 + "]" * 20000, ".".join(["a"] * 20000) + " = 1"):
+        _one_line(_refused(body.encode()))
