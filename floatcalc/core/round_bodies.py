@@ -122,8 +122,11 @@ def ball_limit(R: float, theta: float, n: int = 241):
     cur = ball_curve(R, theta, n)
     k = int(np.argmax(cur["force"]))
     phi_k = cur["phi"][k]
-    if 0 < k < cur["phi"].size - 1:
-        lo, hi = cur["phi"][k - 1], cur["phi"][k + 1]
+    last = cur["phi"].size - 1
+    # also refine when the maximum is the last point of a curve cut where the depth turns back
+    # (not at full immersion, φ = π): the peak may lie between the last two points
+    if 0 < k < last or (0 < k == last and cur["phi"][k] < PI - 1e-9):
+        lo, hi = cur["phi"][k - 1], cur["phi"][min(k + 1, last)]
         res = minimize_scalar(lambda p: -float(ball_state(np.array([p]), R, theta)["force"][0]),
                               bounds=(lo, hi), method="bounded", options={"xatol": 1e-10})
         if -res.fun >= cur["force"][k]:
