@@ -86,7 +86,10 @@ def main(argv: list[str] | None = None) -> int:
             return int(args.func(args) or 0)
     except FloatcalcError as exc:
         code = EXIT_BAD_INPUT if isinstance(exc, ValueError) else EXIT_SOLVER
-        print(f"floatcalc: error: {_one_line(exc)}", file=sys.stderr)
+        # A design file with several problems reports them all, one line each (head line first);
+        # every other error is a single line. Control characters echoed from input are escaped.
+        for line in str(exc).split("\n"):
+            print(f"floatcalc: error: {_one_line(line)}", file=sys.stderr)
         return code
     except (OSError, UnicodeDecodeError) as exc:
         print(f"floatcalc: error: {_one_line(exc)}", file=sys.stderr)
