@@ -29,7 +29,7 @@ _EXPORTS = {
     "capillary_length": "groups", "bond_number": "groups", "baudoin_number": "groups",
     "weber_number": "groups", "reynolds_number": "groups", "min_wave_speed": "groups",
     # rods
-    "rod": "rod", "rod_limit": "rod", "RodResult": "rod",
+    "rod": "rods", "rod_limit": "rods", "RodResult": "rods",
     # round support elements (axisymmetric meniscus)
     "pin": "round", "ball": "round", "pad": "round", "ring": "round",
     "PinResult": "round", "RoundResult": "round", "RoundForceCurve": "round",
@@ -65,16 +65,3 @@ def __getattr__(name: str) -> Any:
 def __dir__() -> list[str]:
     return __all__
 
-
-class _Package(__import__("types").ModuleType):
-    """Keep an exported name (``floatcalc.rod``, the function) from being replaced by the submodule
-    of the same name, which the import system assigns on the package when ``floatcalc.rod`` the
-    module is first imported (for example by ``from floatcalc.rod import RodResult``)."""
-
-    def __setattr__(self, name: str, value: Any) -> None:
-        if _EXPORTS.get(name) == name and type(value).__name__ == "module":
-            return  # the submodule stays reachable as sys.modules["floatcalc.<name>"]
-        super().__setattr__(name, value)
-
-
-__import__("sys").modules[__name__].__class__ = _Package

@@ -63,7 +63,7 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
     """Cross-section of a long leg at its limit: liquid, meniscus, leg section, contact points.
 
     Drawn to scale (equal aspect) in mm, from ``result.profile`` of a
-    :class:`~floatcalc.rod.RodResult`. The solid is the patch with gid ``"solid"``, the contact
+    :class:`~floatcalc.rods.RodResult`. The solid is the patch with gid ``"solid"``, the contact
     points the collection with gid ``"contact points"``; the depth of the lowest point is marked.
 
     Parameters

@@ -238,7 +238,7 @@ def evaluate_element(spec: dict[str, Any], liq) -> tuple[Any, float]:
     """API result of one element group, and its contact-line length [m] (for the Baudoin number)."""
     kind = spec.get("kind", "rod")
     if kind == "rod":
-        from .rod import rod
+        from .rods import rod
 
         rec = spec.get("receding_angle") or None
         r = rod(spec["radius"], spec["length"], spec["advancing_angle"], receding_angle=rec,
@@ -404,7 +404,7 @@ def assess_device(data: dict[str, Any], payload: Any = "0 g", safety_factor_valu
     from .device.design import design_from_data
     from .device.elements import effective_angle
     from .groups import baudoin_number
-    from .rod import rod
+    from .rods import rod
 
     sf = safety_factor(safety_factor_value)
     mp = _mass(payload, "payload")

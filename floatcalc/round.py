@@ -63,7 +63,7 @@ from .core import round_bodies as rb
 from .errors import input_error
 from .liquids import Liquid, water
 from .results import Result, field, qfield
-from .rod import DEFAULT_MATERIAL_DENSITY, ForceDepthCurve
+from .rods import DEFAULT_MATERIAL_DENSITY, ForceDepthCurve
 from .units import Q_, to_si
 
 MIN_RADIUS_LC = 1e-4  # smallest contact radius of the table, in l_c

@@ -16,7 +16,7 @@ import scipy.sparse as sp
 import scipy.sparse.linalg as spl
 
 from floatcalc.core import finite_rod, rod2d
-from floatcalc.rod import rod
+from floatcalc.rods import rod
 
 EULER_GAMMA = 0.5772156649015329
 

@@ -18,7 +18,7 @@ from floatcalc import examples as ex
 from floatcalc import plotting
 from floatcalc import report as rp
 from floatcalc.liquids import water
-from floatcalc.rod import rod
+from floatcalc.rods import rod
 
 
 @pytest.fixture(scope="module")
