@@ -193,3 +193,25 @@ def test_rods_with_tables_of_different_lengths_go_to_the_scalar_model():
         got = db.DeviceBatchFunc(design)(x)
         for k in OUTPUTS:
             np.testing.assert_allclose(got[k], ref[k], rtol=RTOL)
+
+
+def test_device_model_is_batched_for_rods_and_scalar_otherwise():
+    """device_model switches to the batch for all-rod designs (arrays in, the scalar numbers
+    out, broadcast shapes kept) and keeps the scalar model for any other kind."""
+    from floatcalc.studies.models import evaluate_pointwise
+
+    m = device_model("skimmer")
+    assert m.vectorised and isinstance(m.func, db.DeviceBatchFunc)
+    values = {"radius_factor": np.array([[0.97], [1.0], [1.03]]), "surface_tension": np.array([0.0728, 0.065])}
+    got = m.evaluate(values)
+    ref = evaluate_pointwise(_DeviceFunc(m.func.design), m.merged(values))
+    for k in OUTPUTS:
+        assert got[k].shape == (3, 2)
+        np.testing.assert_allclose(got[k], ref[k], rtol=RTOL)
+    legs = [{"kind": "ball", "position": [f"{8 * math.cos(a):.6f} mm", f"{8 * math.sin(a):.6f} mm"],
+             "radius": "1 mm", "material": "nylon", "coating": {"advancing": "150 deg"}} for a in (0.0, 2.1, 4.2)]
+    balls = design_from_data({"schema_version": 1, "liquid": {"name": "water"},
+                              "body": {"mass": "0.02 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": legs})
+    mb = device_model(balls)
+    assert not mb.vectorised and isinstance(mb.func, _DeviceFunc)
+    assert float(mb.evaluate({})["max_payload"]) > 0

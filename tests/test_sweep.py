@@ -92,7 +92,10 @@ def test_device_model_matches_solve_device_and_sweeps():
 
     m = device_model("skimmer")
     ref = solve_device(example("skimmer")).max_payload.to("N").magnitude
-    assert float(m.evaluate({})["max_payload"]) == pytest.approx(ref, rel=1e-9)
+    # rel 1e-7: for an all-rod design the model is the batched solver (studies.device_batch),
+    # which lands on the root to ~1e-14, while solve_device's Brent search stops at rtol 1e-8
+    # (1.3e-9 apart for the skimmer)
+    assert float(m.evaluate({})["max_payload"]) == pytest.approx(ref, rel=1e-7)
     # Water-repellent legs carry more as the advancing angle rises (Vella, Lee & Kim 2006, fig. of
     # limit force against contact angle): capacity increasing along a contact-angle-shift sweep.
     s = sweep(m, ["contact_angle_shift=-20deg:20deg:3"], executor="serial")

@@ -15,8 +15,12 @@ because a study needs only the capacity). Inputs, applied to every element at on
 Outputs: ``max_payload`` [N], its mass ``payload_mass`` [kg], ``margin`` = max_payload −
 payload weight [N] (negative: sinks), and total ``weight`` [N] of body and legs.
 
-The model is scalar (``vectorised=False``): the study layer loops over points, in chunks
-that run on any executor. Validity: that of :func:`floatcalc.device.solve_device`.
+For designs whose elements are all straight rods the model is vectorised
+(``vectorised=True``): :class:`floatcalc.studies.device_batch.DeviceBatchFunc` builds the
+element laws and solves the capacity for whole arrays of points at once, with the same
+numbers as the scalar path (to 1e-6 relative, tests/test_device_batch.py). Other designs keep
+the scalar model (``vectorised=False``): the study layer loops over points, in chunks that
+run on any executor. Validity: that of :func:`floatcalc.device.solve_device`.
 """
 
 from __future__ import annotations
@@ -97,9 +101,12 @@ def device_model(design: Any) -> Model:
             "length_factor": 1.0, "body_mass": float(design.body["mass"]), "payload_mass": 0.0}
     from ..device.solve import REFERENCES
 
+    from .device_batch import DeviceBatchFunc, batchable
+
     label = design.description.split(",")[0][:70] or "design"
-    return Model(name=f"device: {label}", func=_DeviceFunc(design), inputs=DEVICE_INPUTS,
-                 outputs=DEVICE_OUTPUTS, base=base, vectorised=False, limit_output="margin",
+    fast = batchable(design)
+    return Model(name=f"device: {label}", func=DeviceBatchFunc(design) if fast else _DeviceFunc(design),
+                 inputs=DEVICE_INPUTS, outputs=DEVICE_OUTPUTS, base=base, vectorised=fast, limit_output="margin",
                  validity=_NominalWarnings(design), references=REFERENCES, cautions=design.liquid.cautions)
 
 
