@@ -105,12 +105,13 @@ class Device:
             f = m.field(pts[:, 0] * lc, pts[:, 1] * lc)
             f = np.where(owner == e, 0.0, f)
             C[:, e] = f
+        depth, force, contact = _common_tables(self.models)
         return Support(
             x=pts[:, 0], y=pts[:, 1],
             offset=np.concatenate([m.offsets for m in self.models]) / lc,
-            depth=np.vstack([m.depth for m in self.models]) / lc,
-            force=np.vstack([m.force for m in self.models]) / (s * lc),
-            contact=np.vstack([m.contact for m in self.models]) / lc,
+            depth=depth / lc,
+            force=force / (s * lc),
+            contact=contact / lc,
             owner=owner, coupling=C,
         )
 
@@ -197,6 +198,28 @@ class DeviceResult(Result):
         if self.device is not None:
             d["liquid"] = self.device.liquid.summary()
         return d
+
+
+def _common_tables(models):
+    """Stack every force point's force–depth table on a common number of points.
+
+    Elements of different size or coating have tables of different length (each is cut at its
+    own first contact). :class:`~floatcalc.core.equilibrium.Support` resamples every row onto a
+    uniform grid of its own depth range and interpolates linearly, so resampling each table here
+    onto that same kind of grid, with as many points as the longest table, changes nothing but
+    the array shape.
+    """
+    rows = [(d, f, h) for m in models for d, f, h in zip(np.atleast_2d(m.depth), np.atleast_2d(m.force),
+                                                          np.atleast_2d(m.contact))]
+    n = max(len(d) for d, _, _ in rows)
+    out_d, out_f, out_h = [], [], []
+    for d, f, h in rows:
+        if len(d) == n:
+            out_d.append(d), out_f.append(f), out_h.append(h)
+            continue
+        g = np.linspace(d[0], d[-1], n)
+        out_d.append(g), out_f.append(np.interp(g, d, f)), out_h.append(np.interp(g, d, h))
+    return np.vstack(out_d), np.vstack(out_f), np.vstack(out_h)
 
 
 def _as_device(design) -> Device:
