@@ -36,9 +36,31 @@ def _key(scenario: dict) -> str:
     return json.dumps(scenario, sort_keys=True)
 
 
+@st.cache_resource(max_entries=256, show_spinner=False)
+def element_cached(key: str):
+    """(result, contact-line length) of one slow element group (a ring), keyed by its inputs and liquid."""
+    d = json.loads(key)
+    return rp.evaluate_element(d["spec"], rp.make_liquid(d["liquid"]))
+
+
+#: Element kinds solved through ``element_cached`` (a ring takes a second or two), so that a change
+#: elsewhere on the page (load, another group) does not solve them again.
+SLOW_KINDS = ("ring",)
+UNUSED_BY_SOLVE = ("coating", "receding_angle")
+
+
 @st.cache_resource(max_entries=512, show_spinner=False)
 def assess_cached(key: str) -> rp.Assessment:
-    return rp.assess(json.loads(key))
+    scenario = json.loads(key)
+    liquid = scenario.get("liquid", {})
+
+    def evaluate(spec: dict, liq):
+        if spec.get("kind") in SLOW_KINDS:
+            used = {kk: vv for kk, vv in spec.items() if kk not in UNUSED_BY_SOLVE}
+            return element_cached(json.dumps({"spec": used, "liquid": liquid}, sort_keys=True))
+        return rp.evaluate_element(spec, liq)
+
+    return rp.assess(scenario, evaluate=evaluate)
 
 
 @st.cache_resource(max_entries=128, show_spinner=False)
@@ -323,9 +345,81 @@ def round_panel(kind: str):
     return panel
 
 
+def _material_and_angles(i: int, spec: dict, e: dict, errors: dict, c2, c3, default_density: str) -> None:
+    """Count, material and contact-angle fields shared by the ring and pin panels."""
+    with c2:
+        e["count"] = int(st.number_input("Number of elements", min_value=1, max_value=1000, step=1,
+                                         value=int(spec.get("count", 1)), key=k(f"cnt{i}")))
+        mats = ex.material_names() + ["other (enter density)"]
+        m = spec.get("material", "steel")
+        choice = st.selectbox("Material", mats, index=mats.index(m) if m in mats else len(mats) - 1,
+                              key=k(f"mat{i}"))
+        if choice == mats[-1]:
+            e["material"] = st.text_input("Material density", m if m not in mats else default_density,
+                                          key=k(f"dens{i}"))
+            field_error(st, "material", e["material"], errors)
+        else:
+            e["material"] = choice
+    with c3:
+        coats = list(ex.COATINGS)
+        cdef = spec.get("coating", "custom")
+        e["coating"] = st.selectbox("Coating", coats, index=coats.index(cdef) if cdef in coats else len(coats) - 1,
+                                    key=k(f"coat{i}"), on_change=_coating_changed, args=(i,))
+        e["advancing_angle"] = text_field("Advancing contact angle", spec.get("advancing_angle", "110 deg"),
+                                          key=k(f"adv{i}"), help="sets the load limit, e.g. 150 deg")
+        field_error(st, "advancing_angle", e["advancing_angle"], errors)
+        e["receding_angle"] = text_field("Receding contact angle (optional)", spec.get("receding_angle", ""),
+                                         key=k(f"rec{i}"), help="for pull-off; at most the advancing angle")
+        if e["receding_angle"].strip():
+            field_error(st, "receding_angle", e["receding_angle"], errors)
+        else:
+            e.pop("receding_angle")
+
+
+def ring_panel(i: int, spec: dict, errors: dict) -> dict:
+    """Inputs of a group of ring footpads (closed wire loops, floatcalc.ring)."""
+    e = {"kind": "ring"}
+    c1, c2, c3 = st.columns(3)
+    with c1:
+        e["ring_radius"] = st.text_input("Ring radius (wire centre line)", spec.get("ring_radius", "5 mm"),
+                                         key=k(f"rrad{i}"), help="at least twice the wire radius, e.g. 5 mm")
+        ok_r = rp.check_field("ring_radius", e["ring_radius"]) is None
+        field_error(st, "ring_radius", e["ring_radius"], errors)
+        e["wire_radius"] = st.text_input("Wire radius", spec.get("wire_radius", "0.2 mm"), key=k(f"wrad{i}"),
+                                         help="radius of the round wire, e.g. 0.2 mm")
+        ok_w = rp.check_field("wire_radius", e["wire_radius"]) is None
+        field_error(st, "wire_radius", e["wire_radius"], errors)
+        if ok_r and ok_w:
+            msg = rp.check_ring(e["ring_radius"], e["wire_radius"])
+            if msg:
+                errors[f"ring{i}"] = msg
+                st.error(msg, icon="⚠️")
+    _material_and_angles(i, spec, e, errors, c2, c3, "7850 kg/m^3")
+    st.caption("Rings are treated as far apart (no shared meniscus); forces are for all of them. "
+               "A ring takes a second or two to solve the first time.")
+    return e
+
+
+def pin_panel(i: int, spec: dict, errors: dict) -> dict:
+    """Inputs of a group of vertical pins pushed down through the surface (floatcalc.pin)."""
+    e = {"kind": "pin"}
+    c1, c2, c3 = st.columns(3)
+    with c1:
+        e["radius"] = st.text_input("Pin radius", spec.get("radius", "0.3 mm"), key=k(f"rad{i}"), help="e.g. 0.3 mm")
+        field_error(st, "radius", e["radius"], errors)
+        e["length"] = st.text_input("Pin length (protrusion below the body)", spec.get("length", "3 mm"),
+                                    key=k(f"len{i}"), help="the pin's top end reaches the surface at this depth")
+        field_error(st, "length", e["length"], errors)
+    _material_and_angles(i, spec, e, errors, c2, c3, "1200 kg/m^3")
+    st.caption("Pins are treated as far apart (no shared meniscus); forces are for all of them. The limit "
+               "is the largest upward force before the pin's top end reaches the surface.")
+    return e
+
+
 #: Element kind -> panel function (i, spec, errors) -> element inputs. A new kind needs a panel
 #: here, an entry in floatcalc.examples.ELEMENT_KINDS and a branch in report.evaluate_element.
-PANELS = {"rod": rod_panel, "ball": round_panel("ball"), "pad": round_panel("pad")}
+PANELS = {"rod": rod_panel, "ball": round_panel("ball"), "pad": round_panel("pad"),
+          "ring": ring_panel, "pin": pin_panel}
 
 NEW_GROUP = {
     "rod": {"kind": "rod", "radius": "0.2 mm", "length": "30 mm", "count": 2, "material": "steel",
@@ -334,6 +428,10 @@ NEW_GROUP = {
              "advancing_angle": "160 deg", "receding_angle": "150 deg"},
     "pad": {"kind": "pad", "radius": "2 mm", "thickness": "0.3 mm", "count": 4, "material": "pet",
             "coating": "paraffin wax", "advancing_angle": "110 deg", "receding_angle": "95 deg"},
+    "ring": {"kind": "ring", "ring_radius": "5 mm", "wire_radius": "0.2 mm", "count": 4, "material": "steel",
+             "coating": "superhydrophobic spray", "advancing_angle": "160 deg", "receding_angle": "150 deg"},
+    "pin": {"kind": "pin", "radius": "0.3 mm", "length": "3 mm", "count": 4, "material": "nylon",
+            "coating": "PTFE film", "advancing_angle": "115 deg", "receding_angle": "95 deg"},
 }
 
 

@@ -70,6 +70,16 @@ ELEMENT_KINDS: dict[str, dict[str, Any]] = {
         "fields": ("radius", "thickness", "count", "material", "coating", "advancing_angle",
                    "receding_angle"),
     },
+    "ring": {
+        "label": "ring footpad (closed wire loop lying in the surface)",
+        "fields": ("ring_radius", "wire_radius", "count", "material", "coating", "advancing_angle",
+                   "receding_angle"),
+    },
+    "pin": {
+        "label": "vertical pin (pushed down through the surface)",
+        "fields": ("radius", "length", "count", "material", "coating", "advancing_angle",
+                   "receding_angle"),
+    },
 }
 
 def material_names() -> list[str]:

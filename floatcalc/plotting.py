@@ -79,6 +79,8 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
 
     ax = _axes(ax)
     p = result.profile
+    if p.get("body") == "torus":
+        return _ring_section(result, ax, extent_lc, zoom)
     if "r_m" in p:
         return _round_section(result, ax, extent_lc, zoom)
     mm = 1e3
@@ -166,6 +168,12 @@ def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
         wet = np.column_stack([R * np.sin(a), zc0 - R * np.cos(a)])
         solid = Circle((0.0, zc0), R)
         low, top_s = zc0 - R, zc0 + R
+    elif p.get("body") == "cylinder":  # vertical pin: flat tip at the operating depth, side wetted
+        zb = -depth
+        L = result.details.get("length_m", 2.0 * depth / mm) * mm
+        wet = np.array([[-R, cz], [-R, zb], [R, zb], [R, cz]])
+        solid = Rectangle((-R, zb), 2 * R, L)
+        low, top_s = zb, min(zb + L, max(cz, 0.0) + 0.5 * lc)
     else:  # flat disc with sharp edges
         zb = p["bottom_z_m"] * mm
         t = p["thickness_m"] * mm
@@ -208,6 +216,69 @@ def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
     ax.set_ylabel(SECTION_YLABEL)
     ax.set_title("Close-up of the element at the limit (to scale)" if zoom else
                  "Meniscus cross-section through the axis at the limit load (to scale)", fontsize=10, loc="left")
+    _style(ax)
+    return ax
+
+
+def _ring_section(result: Any, ax, extent_lc: float, zoom: bool):
+    """Cross-section of a ring footpad through its axis: both wire sections, outer and inner menisci."""
+    from matplotlib.patches import Circle, Polygon
+
+    p = result.profile
+    mm = 1e3
+    ro, zo = (np.asarray(p["outer"][q]) * mm for q in ("r_m", "z_m"))
+    ri, zi = (np.asarray(p["inner"][q]) * mm for q in ("r_m", "z_m"))
+    Rr, b, zc = p["ring_radius_m"] * mm, p["wire_radius_m"] * mm, p["wire_centre_z_m"] * mm
+    lc = result.liquid.lc * mm if result.liquid is not None else 2.7
+    X = float(ro[0]) + extent_lc * lc
+    keep = ro <= X
+    ro, zo = ro[keep], zo[keep]
+    # the inner meniscus runs from the inner contact line towards the axis
+    order = np.argsort(ri)
+    ri, zi = ri[order], zi[order]
+    depth = result.depth_at_max.to("mm").magnitude
+    low = zc - b
+    bottom = min(-(depth + 0.6 * lc), low - 0.1 * lc)
+    outline = np.concatenate([
+        np.column_stack([-ro[::-1], zo[::-1]]), [[-Rr, zc]], np.column_stack([-ri[::-1], zi[::-1]]),
+        np.column_stack([ri, zi]), [[Rr, zc]], np.column_stack([ro, zo]),
+        [[ro[-1], bottom], [-ro[-1], bottom]]])
+    ax.add_patch(Polygon(outline, closed=True, facecolor=COLOURS["liquid"], edgecolor="none", zorder=1,
+                         gid="liquid", label="liquid"))
+    for sgn in (1.0, -1.0):
+        ax.plot(sgn * ro, zo, color=COLOURS["interface"], lw=1.8, zorder=3,
+                label="meniscus (liquid surface)" if sgn > 0 else None)
+        ax.plot(sgn * ri, zi, color=COLOURS["interface"], lw=1.8, zorder=3)
+        ax.add_patch(Circle((sgn * Rr, zc), b, facecolor=COLOURS["solid"], edgecolor=COLOURS["solid_edge"],
+                            lw=1.0, zorder=4, gid="solid", label="wire section (solid)" if sgn > 0 else None))
+    ax.axhline(0.0, color=COLOURS["surface"], lw=0.9, ls=(0, (5, 4)), zorder=2, label="undisturbed surface")
+    co, ci = (float(ro[0]), float(zo[0])), (float(ri[-1]), float(zi[-1]))
+    pts = ax.scatter([-co[0], co[0], -ci[0], ci[0]], [co[1], co[1], ci[1], ci[1]], s=36, color=COLOURS["contact"],
+                     edgecolor="white", lw=0.8, zorder=5, label="contact points")
+    pts.set_gid("contact points")
+    top = max(zc + b, float(np.max(zi)) if zi.size else 0.0, 0.0) + 0.35 * lc
+    if zoom:  # close-up around the right-hand wire section, still to scale
+        w = max(4.0 * b, 1.6 * (co[0] - ci[0]), 0.2 * lc)
+        ax.set_xlim(Rr - w, Rr + w)
+        ax.set_ylim(zc - 0.75 * w, zc + 0.75 * w)
+        ax.plot([Rr - w, Rr], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(Rr - 0.95 * w, low - 0.02 * w, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
+                fontsize=8.5, va="top", ha="left", zorder=6)
+    else:
+        xd = -X * 0.9
+        ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),
+                    arrowprops={"arrowstyle": "<->", "color": COLOURS["depth"], "lw": 1.2}, zorder=5)
+        ax.plot([xd, -Rr], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(xd + 0.03 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
+                va="center", ha="left", zorder=6)
+        ax.legend(loc="lower right", fontsize=7, framealpha=0.85, ncols=2)
+        ax.set_xlim(-X, X)
+        ax.set_ylim(bottom, top)
+    ax.set_aspect("equal")
+    ax.set_xlabel("horizontal distance from the ring axis [mm]")
+    ax.set_ylabel(SECTION_YLABEL)
+    ax.set_title("Close-up of the wire at the limit (to scale)" if zoom else
+                 "Ring cross-section through the axis at the limit load (to scale)", fontsize=10, loc="left")
     _style(ax)
     return ax
 

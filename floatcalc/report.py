@@ -115,6 +115,8 @@ def _density_si(material: Any) -> float:
 _FIELD_CHECKS = {
     "radius": lambda x: v.length(x, "radius"),
     "thickness": lambda x: v.length(x, "thickness"),
+    "ring_radius": lambda x: v.length(x, "ring_radius"),
+    "wire_radius": lambda x: v.length(x, "wire_radius"),
     "length": lambda x: v.length(x, "length"),
     "count": lambda x: v.count(x, "count"),
     "advancing_angle": lambda x: v.angle(x, "advancing_angle"),
@@ -145,6 +147,30 @@ def check_field(name: str, value: Any) -> str | None:
         _FIELD_CHECKS[name](value)
     except InputError as exc:
         return str(exc)
+    return None
+
+
+def check_ring(ring_radius: Any, wire_radius: Any) -> str | None:
+    """The one-line problem with a ring footpad's two radii together, or None.
+
+    The ring radius (of the wire's centre line) must be at least twice the wire radius, as
+    :func:`floatcalc.ring` requires; each value alone is checked by :func:`check_field`.
+
+    >>> check_ring("5 mm", "0.2 mm") is None
+    True
+    >>> check_ring("0.3 mm", "0.2 mm")
+    'ring_radius: must be at least twice the wire radius (0.4 mm), got 0.3 mm'
+    """
+    from .errors import InputError
+
+    try:
+        R = v.length(ring_radius, "ring_radius")
+        b = v.length(wire_radius, "wire_radius")
+    except InputError as exc:
+        return str(exc)
+    if R < 2.0 * b:
+        return str(input_error("ring_radius", f"must be at least twice the wire radius ({2 * b * 1e3:.4g} mm)",
+                               f"{R * 1e3:.4g} mm"))
     return None
 
 
@@ -225,6 +251,15 @@ def element_label(spec: dict[str, Any]) -> str:
         extra = f", thickness {spec.get('thickness')}" if kind == "pad" else ""
         return (f"{n} {what}, radius {spec.get('radius')}{extra}, {spec.get('material', 'steel')}, "
                 f"{spec.get('coating', 'custom')} ({spec.get('advancing_angle')} advancing)")
+    if kind in ("ring", "pin"):
+        n = int(spec.get("count", 1))
+        if kind == "ring":
+            geo = f"ring footpad{'' if n == 1 else 's'}, ring radius {spec.get('ring_radius')}, " \
+                  f"wire radius {spec.get('wire_radius')}"
+        else:
+            geo = f"vertical pin{'' if n == 1 else 's'}, radius {spec.get('radius')}, length {spec.get('length')}"
+        return (f"{n} {geo}, {spec.get('material', 'steel')}, {spec.get('coating', 'custom')} "
+                f"({spec.get('advancing_angle')} advancing)")
     if kind == "rod":
         n = int(spec.get("count", 1))
         legs = "leg" if n == 1 else "legs"
@@ -257,7 +292,68 @@ def evaluate_element(spec: dict[str, Any], liq) -> tuple[Any, float]:
                        material_density=rho)
         rc = r.contact_radius_at_max.to("m").magnitude
         return r, 2.0 * math.pi * rc * int(spec.get("count", 1))
-    raise input_error("kind", "must be one of rod, ball, pad", repr(kind))
+    if kind == "ring":
+        import floatcalc as fc
+
+        r = fc.ring(spec["ring_radius"], spec["wire_radius"], spec["advancing_angle"], liquid=liq,
+                    material_density=material_density(spec.get("material", "steel")))
+        # Two contact lines: outside and inside the loop.
+        d = r.details
+        Rr, b = r.profile["ring_radius_m"], r.profile["wire_radius_m"]
+        r_in = Rr - b * math.sin(math.radians(d["contact_position_inner_deg"]))
+        rc = r.contact_radius_at_max.to("m").magnitude
+        return r, 2.0 * math.pi * (rc + r_in) * int(spec.get("count", 1))
+    if kind == "pin":
+        r = pin_limit(spec["radius"], spec["length"], spec["advancing_angle"], liq,
+                      material_density(spec.get("material", "steel")))
+        b = r.contact_radius_at_max.to("m").magnitude
+        return r, 2.0 * math.pi * b * int(spec.get("count", 1))
+    raise input_error("kind", "must be one of rod, ball, pad, ring, pin", repr(kind))
+
+
+def pin_limit(radius: Any, length: Any, contact_angle: Any, liq=None, material_density_value: Any = None):
+    """Load limit of a vertical pin pushed down into the surface, as a round-element result.
+
+    :func:`floatcalc.pin` gives the force against tip depth from first contact until the pin's
+    top end reaches the undisturbed level (tip depth = pin length). The limit is the largest
+    upward force on that curve; the pin is solved again at that tip depth for its meniscus
+    profile and force parts. Returns a :class:`~floatcalc.round.RoundResult` with
+    ``element="pin"`` so that it is assessed and drawn like the other round elements
+    (``details`` holds the pin length and the pin's own result at the limit).
+    """
+    import floatcalc as fc
+    from .round import RoundResult
+
+    whole = fc.pin(radius, contact_angle, length=length, liquid=liq, material_density=material_density_value)
+    c = whole.curve
+    depth = c.depth.to("m").magnitude
+    force = c.force.to("N").magnitude
+    k = int(np.argmax(force))
+    at = fc.pin(radius, contact_angle, depth=Q_(float(depth[k]), "m"), length=length, liquid=liq,
+                material_density=material_density_value)
+    liq = at.liquid
+    F = float(force[k])
+    L = float(v.length(length, "length"))
+    warnings = list(at.warnings)
+    if k == force.size - 1:
+        warnings.append("the force still rises when the pin's top end reaches the surface: the limit is "
+                        "taken there (a longer pin carries more)")
+    b = at.radius.to("m").magnitude
+    return RoundResult(
+        element="pin", contact_angle=at.contact_angle, max_force=Q_(F, "N"),
+        depth_at_max=Q_(float(depth[k]), "m"),
+        surface_tension_part=Q_(float(c.surface_tension.to("N").magnitude[k]), "N"),
+        pressure_part=Q_(float(c.pressure.to("N").magnitude[k]), "N"),
+        own_weight=at.own_weight, payload=Q_(F - at.own_weight.to("N").magnitude, "N"),
+        payload_mass=Q_((F - at.own_weight.to("N").magnitude) / liq.g, "kg"),
+        inclination_at_max=at.contact_inclination, contact_radius_at_max=Q_(b, "m"),
+        stage_at_max=str(c.stage[k]) if getattr(c, "stage", None) is not None else at.stage,
+        bond_number=at.bond_number,
+        details={"length_m": L, "meniscus_height_at_max_m": at.meniscus_height.to("m").magnitude,
+                 "wilhelmy_force_N": at.wilhelmy_force.to("N").magnitude},
+        liquid=liq, curve=c, profile=at.profile, warnings=tuple(warnings), cautions=at.cautions,
+        references=at.references,
+    )
 
 
 def _operating_depth(curve, share: float) -> float | None:
@@ -274,8 +370,11 @@ def _operating_depth(curve, share: float) -> float | None:
     return float(depth[k - 1] + t * (depth[k] - depth[k - 1]))
 
 
-def assess(scenario: dict[str, Any]) -> Assessment:
+def assess(scenario: dict[str, Any], evaluate=None) -> Assessment:
     """Evaluate every element group of ``scenario`` and the design's margin and verdict.
+
+    ``evaluate(spec, liquid)`` replaces :func:`evaluate_element` (same return value), e.g. a
+    cached version of it for the slower element kinds (a ring takes a second or two).
 
     Raises :class:`~floatcalc.errors.InputError` with the field named for any bad value.
     """
@@ -291,7 +390,7 @@ def assess(scenario: dict[str, Any]) -> Assessment:
     if not specs:
         raise input_error("elements", "a design needs at least one support element", "none")
 
-    raw = [evaluate_element(s, liq) for s in specs]
+    raw = [(evaluate or evaluate_element)(s, liq) for s in specs]
     # Rod results are totals over their legs; round results are for one element of the group.
     per = [1 if s.get("kind", "rod") == "rod" else int(s.get("count", 1)) for s in specs]
     F = np.array([n * r.max_force.to("N").magnitude for n, (r, _) in zip(per, raw)])
@@ -316,8 +415,13 @@ def assess(scenario: dict[str, Any]) -> Assessment:
         share = W_tot * fi / F_lim if F_lim > 0 else 0.0
         op = _operating_depth(r.curve, share / n) if r.curve is not None else None
         kind = spec.get("kind", "rod")
-        radius = r.radius.to("m").magnitude if kind == "rod" else v.length(spec["radius"], "radius")
-        bo = bond_number(liq, radius, "leg radius" if kind == "rod" else f"{kind} radius")
+        if kind == "rod":
+            radius, what = r.radius.to("m").magnitude, "leg radius"
+        elif kind == "ring":
+            radius, what = v.length(spec["wire_radius"], "wire_radius"), "ring wire radius"
+        else:
+            radius, what = v.length(spec["radius"], "radius"), f"{kind} radius"
+        bo = bond_number(liq, radius, what)
         label = element_label(spec)
         outcomes.append(ElementOutcome(
             label=label, kind=kind, spec=dict(spec), result=r, per_element=n,
@@ -917,7 +1021,7 @@ def pdf_bytes(a: Assessment, others: list[tuple[str, Assessment]] = ()) -> bytes
     return buf.getvalue()
 
 
-__all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "assess", "Assessment",
+__all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "check_ring", "pin_limit", "assess", "Assessment",
            "DeviceAssessment", "assess_device", "device_element_table", "is_device_data", "device_input_rows", "device_result_rows",
            "ElementOutcome", "make_liquid", "curve_tables", "csv_zip", "write_csv_dir", "write_pdf",
            "pdf_bytes", "study_sweep", "STUDY_INPUTS", "device_study_sweep", "DEVICE_STUDY_INPUTS", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]
