@@ -781,19 +781,24 @@ def sidebar() -> None:
                    "surface tension and every force here.")
 
 
+def liquid_section(spec: dict, errors: dict) -> dict:
+    """The "Liquid" heading and panel; a failure is shown inline and recorded in ``errors``."""
+    st.subheader("Liquid")
+    try:
+        return liquid_panel(spec, errors)
+    except Exception as exc:  # noqa: BLE001 - the page never shows a traceback
+        st.error(f"liquid inputs could not be read: {exc}", icon="⚠️")
+        errors["liquid"] = str(exc)
+        return {}
+
+
 def groups_page(errors: dict):
     """Inputs of a scenario of element groups; returns (assessment or None, key, toml, name)."""
     ss = st.session_state
     base = ss.base
     left, right = st.columns([1.0, 1.25], gap="large")
     with left:
-        st.subheader("Liquid")
-        liq = {}
-        try:
-            liq = liquid_panel(base.get("liquid", {}), errors)
-        except Exception as exc:  # noqa: BLE001
-            st.error(f"liquid inputs could not be read: {exc}", icon="⚠️")
-            errors["liquid"] = str(exc)
+        liq = liquid_section(base.get("liquid", {}), errors)
         st.subheader("Support elements")
         elements = []
         for i, spec in enumerate(base.get("elements", [])):
@@ -854,13 +859,7 @@ def device_page(errors: dict):
     data = ss.device
     left, right = st.columns([1.0, 1.25], gap="large")
     with left:
-        st.subheader("Liquid")
-        liq = {}
-        try:
-            liq = liquid_panel(data.get("liquid", {}), errors)
-        except Exception as exc:  # noqa: BLE001
-            st.error(f"liquid inputs could not be read: {exc}", icon="⚠️")
-            errors["liquid"] = str(exc)
+        liq = liquid_section(data.get("liquid", {}), errors)
         st.subheader("Support elements")
         legs = data.get("legs", [])
         try:
