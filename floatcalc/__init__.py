@@ -26,8 +26,8 @@ _EXPORTS = {
     "Liquid": "liquids", "liquid": "liquids", "water": "liquids", "seawater": "liquids",
     "custom_liquid": "liquids", "contaminated": "liquids", "list_liquids": "liquids",
     # dimensionless groups
-    "capillary_length": "groups", "bond_number": "groups", "baudoin_number": "groups",
-    "weber_number": "groups", "reynolds_number": "groups", "min_wave_speed": "groups",
+    "capillary_length": "dimensionless", "bond_number": "dimensionless", "baudoin_number": "dimensionless",
+    "weber_number": "dimensionless", "reynolds_number": "dimensionless", "min_wave_speed": "dimensionless",
     # rods
     "rod": "rods", "rod_limit": "rods", "RodResult": "rods",
     # round support elements (axisymmetric meniscus)

@@ -1,7 +1,7 @@
 """Assess a whole design (scenario), and write it up as a PDF report and CSV curves.
 
 This module holds no meniscus physics: it calls the public API (:func:`floatcalc.liquid`,
-:func:`floatcalc.rod`, :mod:`floatcalc.groups`) for each element group of a scenario (see
+:func:`floatcalc.rod`, :mod:`floatcalc.dimensionless`) for each element group of a scenario (see
 :mod:`floatcalc.examples` for the scenario format) and adds up the results.
 
 Verdict (a design rule, stated here once and used by the page, the CLI and the report):
@@ -304,56 +304,13 @@ def evaluate_element(spec: dict[str, Any], liq) -> tuple[Any, float]:
         rc = r.contact_radius_at_max.to("m").magnitude
         return r, 2.0 * math.pi * (rc + r_in) * int(spec.get("count", 1))
     if kind == "pin":
+        from .round import pin_limit
+
         r = pin_limit(spec["radius"], spec["length"], spec["advancing_angle"], liq,
                       material_density(spec.get("material", "steel")))
         b = r.contact_radius_at_max.to("m").magnitude
         return r, 2.0 * math.pi * b * int(spec.get("count", 1))
     raise input_error("kind", "must be one of rod, ball, pad, ring, pin", repr(kind))
-
-
-def pin_limit(radius: Any, length: Any, contact_angle: Any, liq=None, material_density_value: Any = None):
-    """Load limit of a vertical pin pushed down into the surface, as a round-element result.
-
-    :func:`floatcalc.pin` gives the force against tip depth from first contact until the pin's
-    top end reaches the undisturbed level (tip depth = pin length). The limit is the largest
-    upward force on that curve; the pin is solved again at that tip depth for its meniscus
-    profile and force parts. Returns a :class:`~floatcalc.round.RoundResult` with
-    ``element="pin"`` so that it is assessed and drawn like the other round elements
-    (``details`` holds the pin length and the pin's own result at the limit).
-    """
-    import floatcalc as fc
-    from .round import RoundResult
-
-    whole = fc.pin(radius, contact_angle, length=length, liquid=liq, material_density=material_density_value)
-    c = whole.curve
-    depth = c.depth.to("m").magnitude
-    force = c.force.to("N").magnitude
-    k = int(np.argmax(force))
-    at = fc.pin(radius, contact_angle, depth=Q_(float(depth[k]), "m"), length=length, liquid=liq,
-                material_density=material_density_value)
-    liq = at.liquid
-    F = float(force[k])
-    L = float(v.length(length, "length"))
-    warnings = list(at.warnings)
-    if k == force.size - 1:
-        warnings.append("the force still rises when the pin's top end reaches the surface: the limit is "
-                        "taken there (a longer pin carries more)")
-    b = at.radius.to("m").magnitude
-    return RoundResult(
-        element="pin", contact_angle=at.contact_angle, max_force=Q_(F, "N"),
-        depth_at_max=Q_(float(depth[k]), "m"),
-        surface_tension_part=Q_(float(c.surface_tension.to("N").magnitude[k]), "N"),
-        pressure_part=Q_(float(c.pressure.to("N").magnitude[k]), "N"),
-        own_weight=at.own_weight, payload=Q_(F - at.own_weight.to("N").magnitude, "N"),
-        payload_mass=Q_((F - at.own_weight.to("N").magnitude) / liq.g, "kg"),
-        inclination_at_max=at.contact_inclination, contact_radius_at_max=Q_(b, "m"),
-        stage_at_max=str(c.stage[k]) if getattr(c, "stage", None) is not None else at.stage,
-        bond_number=at.bond_number,
-        details={"length_m": L, "meniscus_height_at_max_m": at.meniscus_height.to("m").magnitude,
-                 "wilhelmy_force_N": at.wilhelmy_force.to("N").magnitude},
-        liquid=liq, curve=c, profile=at.profile, warnings=tuple(warnings), cautions=at.cautions,
-        references=at.references,
-    )
 
 
 def _operating_depth(curve, share: float) -> float | None:
@@ -378,7 +335,7 @@ def assess(scenario: dict[str, Any], evaluate=None) -> Assessment:
 
     Raises :class:`~floatcalc.errors.InputError` with the field named for any bad value.
     """
-    from .groups import baudoin_number, bond_number
+    from .dimensionless import baudoin_number, bond_number
 
     liq = make_liquid(scenario.get("liquid", {}))
     load = scenario.get("load", {})
@@ -507,7 +464,7 @@ def assess_device(data: dict[str, Any], payload: Any = "0 g", safety_factor_valu
     from .device import solve_device
     from .device.design import design_from_data
     from .device.elements import effective_angle
-    from .groups import baudoin_number
+    from .dimensionless import baudoin_number
     from .rods import rod
 
     sf = safety_factor(safety_factor_value)
@@ -538,7 +495,7 @@ def assess_device(data: dict[str, Any], payload: Any = "0 g", safety_factor_valu
         st = res.elements[i]
         share = st.force.to("N").magnitude
         op = _operating_depth(r.curve, share)
-        from .groups import bond_number
+        from .dimensionless import bond_number
 
         bo = bond_number(liq, p["radius"], "leg radius")
         outcomes.append(ElementOutcome(
@@ -1021,7 +978,7 @@ def pdf_bytes(a: Assessment, others: list[tuple[str, Assessment]] = ()) -> bytes
     return buf.getvalue()
 
 
-__all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "check_ring", "pin_limit", "assess", "Assessment",
+__all__ = ["VERDICTS", "VERDICT_RULE", "LAB_CAUTIONS", "verdict", "check_field", "check_ring", "assess", "Assessment",
            "DeviceAssessment", "assess_device", "device_element_table", "is_device_data", "device_input_rows", "device_result_rows",
            "ElementOutcome", "make_liquid", "curve_tables", "csv_zip", "write_csv_dir", "write_pdf",
            "pdf_bytes", "study_sweep", "STUDY_INPUTS", "device_study_sweep", "DEVICE_STUDY_INPUTS", "input_rows", "result_rows", "comparison_rows", "HEADINGS"]

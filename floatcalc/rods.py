@@ -26,6 +26,7 @@ from .core import rod2d
 from .liquids import Liquid, water
 from .results import Result, field, qfield
 from .units import Q_
+from .dimensionless import baudoin
 
 #: Default leg material when none is given: steel, 7850 kg/m³ (common practice).
 DEFAULT_MATERIAL_DENSITY = 7850.0
@@ -70,10 +71,13 @@ class RodResult(Result):
     inclination_at_max: Any = qfield("deg")
     surface_tension_part: Any = qfield("N")
     pressure_part: Any = qfield("N")
+    end_part: Any = qfield("N", default=None)
     own_weight: Any = qfield("N")
     payload: Any = qfield("N")
     payload_mass: Any = qfield("kg")
+    contact_perimeter: Any = qfield("m", default=None)
     bond_number: float = field(default=0.0)
+    bond_length: Any = qfield("m", default=None)
     baudoin_number: float = field(default=0.0)
     receding_angle: Any = qfield("deg", default=None)
     receding_max_force: Any = qfield("N", default=None)
@@ -185,20 +189,21 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
     s, lc = liq.sigma, liq.lc
     Rs = R / lc
 
-    lim = rod2d.limit_force(Rs, th)
+    from .core import finite_rod
+
+    lim2 = rod2d.limit_force(Rs, th)
+    lim = finite_rod.limit(Rs, th, L / lc)      # the one rod law with its ends (device too)
     phi = float(lim["phi"])
-    per_len = float(lim["force"]) * s
-    total = per_len * L * n
+    per_len = float(lim2["force"]) * s
+    total = lim["force"] * s * lc * n
     weight = rho_s * math.pi * R**2 * L * liq.g * n
     warnings: list[str] = []
+    end_share = lim["end_part"] / lim["force"] if lim["force"] else 0.0
     if L < END_EFFECT_LIMIT * lc:
-        from .core import finite_rod
-
-        extra = finite_rod.limit(Rs, th, L / lc)["force"] / (float(lim["force"]) * L / lc) - 1.0
         warnings.append(
-            f"length {L * 1e3:.3g} mm is under 20 capillary lengths ({20 * lc * 1e3:.3g} mm): "
-            "end effects (meniscus wrapping round the rod ends) are not included here; the end-cap "
-            f"model of floatcalc.core.finite_rod adds about {100 * extra:.2g} % (used by 'floatcalc device')"
+            f"length {L * 1e3:.3g} mm is under 20 capillary lengths ({20 * lc * 1e3:.3g} mm): the ends "
+            f"(meniscus round the rod ends) add {100 * end_share:.2g} % here, bounded by σ × the contact "
+            "line across each end face (floatcalc.core.finite_rod)"
         )
     if R < MIN_CONTINUUM_RADIUS:
         warnings.append(
@@ -214,13 +219,15 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
     if th < math.pi / 2:
         warnings.append("wetting leg (contact angle below 90°): the limit is reached as the liquid closes over the top")
 
-    curve = rod2d.force_depth_curve(Rs, th, n=curve_points, phi_end=phi)
-    scale_f = s * L * n
+    phis = np.linspace(0.0, phi, curve_points)
+    f2d, f_end, depth = finite_rod.force_parts(phis, Rs, th, L / lc)
+    f_st2, f_p2, _ = rod2d.force_parts(phis, Rs, th)
+    scale_f = s * lc * n
     fdc = ForceDepthCurve(
-        depth=Q_(curve["depth"] * lc, "m"),
-        force=Q_(curve["force"] * scale_f, "N"),
-        surface_tension=Q_(curve["surface_tension"] * scale_f, "N"),
-        pressure=Q_(curve["pressure"] * scale_f, "N"),
+        depth=Q_(depth * lc, "m"),
+        force=Q_((f2d + f_end) * scale_f, "N"),
+        surface_tension=Q_((f_st2 * L / lc + f_end) * scale_f, "N"),
+        pressure=Q_(f_p2 * L / lc * scale_f, "N"),
     )
     prof = rod2d.profile(Rs, th, phi)
     profile = {
@@ -231,11 +238,15 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
         "contact_m": (prof["contact"][0] * lc, prof["contact"][1] * lc),
         "depth_m": prof["depth"] * lc,
     }
+    f_st_lim, f_p_lim, _ = rod2d.force_parts(phi, Rs, th)
+    st_part = (float(f_st_lim) * L / lc + lim["end_part"]) * scale_f
+    p_part = float(f_p_lim) * L / lc * scale_f
+    perimeter = contact_perimeter(R, L, phi) * n
 
     rec_max = pull = None
     if th_r is not None:
-        rec_max = Q_(float(rod2d.limit_force(Rs, th_r)["force"]) * scale_f, "N")
-        pull = Q_(_pull_off(Rs, th_r) * scale_f, "N")
+        rec_max = Q_(finite_rod.limit(Rs, th_r, L / lc)["force"] * scale_f, "N")
+        pull = Q_(_pull_off(Rs, th_r) * s * L * n, "N")
 
     payload = total - weight
     return RodResult(
@@ -244,16 +255,28 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
         depth_at_max=Q_(float(lim["depth"]) * lc, "m"),
         contact_position_at_max=Q_(math.degrees(phi), "deg"),
         inclination_at_max=Q_(math.degrees(phi + th - math.pi), "deg"),
-        surface_tension_part=Q_(float(lim["surface_tension"]) * scale_f, "N"),
-        pressure_part=Q_(float(lim["pressure"]) * scale_f, "N"),
+        surface_tension_part=Q_(st_part, "N"), pressure_part=Q_(p_part, "N"),
+        end_part=Q_(lim["end_part"] * scale_f, "N"),
         own_weight=Q_(weight, "N"), payload=Q_(payload, "N"), payload_mass=Q_(payload / liq.g, "kg"),
-        bond_number=Rs**2,
-        baudoin_number=weight / (s * 2.0 * L * n),
+        contact_perimeter=Q_(perimeter, "m"),
+        bond_number=Rs**2, bond_length=Q_(R, "m"),
+        baudoin_number=baudoin(weight, s, perimeter),
         receding_angle=None if th_r is None else Q_(math.degrees(th_r), "deg"),
         receding_max_force=rec_max, pull_off_force=pull,
         liquid=liq, curve=fdc, profile=profile,
         warnings=tuple(warnings), cautions=liq.cautions,
     )
+
+
+def contact_perimeter(radius: float, length: float, phi: float) -> float:
+    """Contact-line length [m] of a rod with flat ends at contact position φ: the two lines along
+    its sides and the chord 2 R sin φ across each end face, 2L + 4 R sin φ (the one rule used
+    for the Baudoin number of rods, alone or in a device).
+
+    >>> round(contact_perimeter(1e-3, 0.04, math.pi / 2), 6)
+    0.084
+    """
+    return 2.0 * length + 4.0 * radius * math.sin(phi)
 
 
 def _pull_off(Rs: float, th_r: float) -> float:

@@ -60,7 +60,8 @@ import numpy as np
 
 from . import _validate as v
 from .core import round_bodies as rb
-from .errors import input_error
+from .dimensionless import baudoin
+from .errors import InputError, input_error
 from .liquids import Liquid, water
 from .results import Result, field, qfield
 from .rods import DEFAULT_MATERIAL_DENSITY, ForceDepthCurve
@@ -298,8 +299,11 @@ class RoundResult(Result):
     payload_mass: Any = qfield("kg")
     inclination_at_max: Any = qfield("deg")
     contact_radius_at_max: Any = qfield("m")
+    contact_perimeter: Any = qfield("m", default=None)
     stage_at_max: str = field(default="")
     bond_number: float = field(default=0.0)
+    bond_length: Any = qfield("m", default=None)
+    baudoin_number: float = field(default=0.0)
     details: dict = field(default_factory=dict)
     liquid: Liquid | None = field(default=None, json=False)
     curve: RoundForceCurve | None = field(default=None, json=False)
@@ -316,11 +320,15 @@ class RoundResult(Result):
 
 
 def _result(element, th, best, cur, weight, liq, Bo, warnings, stage_names=None, stage_at_max="",
-            rc=0.0, details=None, profile=None) -> RoundResult:
+            rc=0.0, details=None, profile=None, perimeter=None) -> RoundResult:
+    """Result of a round element; ``perimeter`` [l_c] defaults to the outer contact circle 2π r_c."""
     s, lc = liq.sigma, liq.lc
     fs = s * lc
     F = best["force"] * fs
+    P = (2.0 * math.pi * rc if perimeter is None else perimeter) * lc
     return RoundResult(
+        contact_perimeter=Q_(P, "m"), bond_length=Q_(math.sqrt(Bo) * lc, "m"),
+        baudoin_number=baudoin(weight, s, P),
         element=element, contact_angle=Q_(math.degrees(th), "deg"),
         max_force=Q_(F, "N"), depth_at_max=Q_(best["depth"] * lc, "m"),
         surface_tension_part=Q_(best["surface_tension"] * fs, "N"),
@@ -488,9 +496,10 @@ def ring(ring_radius: Any, wire_radius: Any, contact_angle: Any, *, liquid: Liqu
     s, lc = liq.sigma, liq.lc
     b = _radius(wire_radius, "wire_radius", lc)
     Rr = _radius(ring_radius, "ring_radius", lc)
-    if Rr < 2.0 * b:
-        raise input_error("ring_radius", f"must be at least twice the wire radius ({2 * b * 1e3:.4g} mm)",
-                          f"{Rr * 1e3:.4g} mm")
+    from .elements.ring import ring_rule
+
+    if ring_rule(Rr, b):
+        raise InputError(ring_rule(Rr, b))
     th = v.angle(contact_angle, "contact_angle")
     warnings: list[str] = []
     rho_s = _density(material_density, warnings)
@@ -510,8 +519,56 @@ def ring(ring_radius: Any, wire_radius: Any, contact_angle: Any, *, liquid: Liqu
                "inclination_inner_deg": math.degrees(best["psi_inner"]),
                "enclosed_liquid_force_N": best["enclosed"] * fs,
                "max_force_per_length_N_per_m": best["force"] * fs / (2 * math.pi * Rr)}
-    return _result("ring", th, best, cur, weight, liq, bs**2, warnings,
-                   rc=Rs + bs * math.sin(best["phi_outer"]), details=details, profile=prof)
+    r_o = Rs + bs * math.sin(best["phi_outer"])
+    r_i = Rs - bs * math.sin(best["phi_inner"])
+    # two contact lines, outside and inside the loop: the one ring perimeter rule
+    return _result("ring", th, best, cur, weight, liq, bs**2, warnings, rc=r_o, details=details, profile=prof,
+                   perimeter=2.0 * math.pi * (r_o + r_i))
 
 
-__all__ = ["pin", "ball", "pad", "ring", "PinResult", "RoundResult", "RoundForceCurve"]
+def pin_limit(radius: Any, length: Any, contact_angle: Any, liq=None, material_density_value: Any = None):
+    """Load limit of a vertical pin pushed down into the surface, as a round-element result.
+
+    :func:`floatcalc.pin` gives the force against tip depth from first contact until the pin's
+    top end reaches the undisturbed level (tip depth = pin length). The limit is the largest
+    upward force on that curve; the pin is solved again at that tip depth for its meniscus
+    profile and force parts. Returns a :class:`~floatcalc.round.RoundResult` with
+    ``element="pin"`` so that it is assessed and drawn like the other round elements
+    (``details`` holds the pin length and the pin's own result at the limit).
+    """
+    whole = pin(radius, contact_angle, length=length, liquid=liq, material_density=material_density_value)
+    c = whole.curve
+    depth = c.depth.to("m").magnitude
+    force = c.force.to("N").magnitude
+    k = int(np.argmax(force))
+    at = pin(radius, contact_angle, depth=Q_(float(depth[k]), "m"), length=length, liquid=liq,
+                material_density=material_density_value)
+    liq = at.liquid
+    F = float(force[k])
+    L = float(v.length(length, "length"))
+    warnings = list(at.warnings)
+    if k == force.size - 1:
+        warnings.append("the force still rises when the pin's top end reaches the surface: the limit is "
+                        "taken there (a longer pin carries more)")
+    b = at.radius.to("m").magnitude
+    return RoundResult(
+        contact_perimeter=Q_(2.0 * math.pi * b, "m"), bond_length=Q_(b, "m"),
+        baudoin_number=baudoin(at.own_weight.to("N").magnitude, liq.sigma, 2.0 * math.pi * b),
+        element="pin", contact_angle=at.contact_angle, max_force=Q_(F, "N"),
+        depth_at_max=Q_(float(depth[k]), "m"),
+        surface_tension_part=Q_(float(c.surface_tension.to("N").magnitude[k]), "N"),
+        pressure_part=Q_(float(c.pressure.to("N").magnitude[k]), "N"),
+        own_weight=at.own_weight, payload=Q_(F - at.own_weight.to("N").magnitude, "N"),
+        payload_mass=Q_((F - at.own_weight.to("N").magnitude) / liq.g, "kg"),
+        inclination_at_max=at.contact_inclination, contact_radius_at_max=Q_(b, "m"),
+        stage_at_max=str(c.stage[k]) if getattr(c, "stage", None) is not None else at.stage,
+        bond_number=at.bond_number,
+        details={"length_m": L, "meniscus_height_at_max_m": at.meniscus_height.to("m").magnitude,
+                 "wilhelmy_force_N": at.wilhelmy_force.to("N").magnitude},
+        liquid=liq, curve=c, profile=at.profile, warnings=tuple(warnings), cautions=at.cautions,
+        references=at.references,
+    )
+
+
+
+__all__ = ["pin_limit", "pin", "ball", "pad", "ring", "PinResult", "RoundResult", "RoundForceCurve"]

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from ..groups import bond_number
+from ..dimensionless import bond_number
 from ..rods import rod
 from ._common import add_liquid_args, fmt, liquid_from_args
 from ._format import add_json_flag, print_json, print_table

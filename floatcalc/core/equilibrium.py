@@ -342,3 +342,83 @@ def stiffness(sup: Support, u, xg: float, yg: float, *, step: float = 1e-6):
     kp = (fm(z, p + step, q)[1] - fm(z, p - step, q)[1]) / (2 * step)
     kq = (fm(z, p, q + step)[2] - fm(z, p, q - step)[2]) / (2 * step)
     return float(kz), float(kp), float(kq)
+
+
+#: Depth range [l_c] of the constant table of a broken-through element (never reached).
+_BROKEN_RANGE = 50.0
+
+
+def with_broken(sup: Support, broken, broken_force) -> Support:
+    """The support with the elements in ``broken`` through the surface.
+
+    A broken-through element no longer has a meniscus: its points carry a constant upward
+    force (``broken_force[e]`` [σ l_c] for element e, shared equally by its points: the
+    buoyancy of the submerged body), never reach a limit, and no longer depress their
+    neighbours' surface.
+    """
+    broken = np.asarray(sorted(set(int(b) for b in broken)), dtype=int)
+    if broken.size == 0:
+        return sup
+    m, n = sup.depth.shape
+    rows = np.isin(sup.owner, broken)
+    counts = np.bincount(sup.owner, minlength=sup.coupling.shape[1]).astype(float)
+    depth = sup.depth.copy()
+    force = sup.force.copy()
+    contact = sup.contact.copy()
+    depth[rows] = np.linspace(-_BROKEN_RANGE, _BROKEN_RANGE, n)
+    force[rows] = (np.asarray(broken_force, dtype=float)[sup.owner[rows]] / counts[sup.owner[rows]])[:, None]
+    contact[rows] = 0.0
+    C = sup.coupling.copy()
+    C[:, broken] = 0.0
+    return Support(x=sup.x, y=sup.y, offset=sup.offset, depth=depth, force=force, contact=contact,
+                   owner=sup.owner, coupling=C, coupling_iters=sup.coupling_iters)
+
+
+def progressive(sup: Support, W: float, xg: float, yg: float, px: float, py: float, broken_force,
+                first=None):
+    """Progressive failure under a payload growing at (px, py) [l_c].
+
+    When an element reaches its limit it breaks through and then carries only
+    ``broken_force[e]`` [σ l_c]; the device re-settles on the rest. If the rest carries the
+    current load, the load rises to their next capacity; otherwise the next element fails at
+    the same load (a cascade). The device sinks when no equilibrium remains.
+
+    ``first`` may pass the result of :func:`capacity` for the intact device.
+
+    Returns
+    -------
+    steps : list of (element, load) — breakthrough order and the payload [σ l_c] at which
+        each element broke through;
+    sinking : float — the largest payload [σ l_c] carried before the device sinks (an
+        equilibrium with some elements intact exists up to it).
+    """
+    n_el = int(sup.owner.max()) + 1
+    P, u, e, j = capacity(sup, W, xg, yg, px, py) if first is None else first
+    level = P
+    steps = []
+    broken: list[int] = []
+    cur = sup
+    nxt = int(cur.owner[j])
+    while True:
+        broken.append(nxt)
+        steps.append((nxt, level))
+        if len(broken) == n_el:
+            return steps, level
+        cur = with_broken(sup, broken, broken_force)
+        live = ~np.isin(cur.owner, broken)
+        Wt = W + level
+        try:
+            u, e = solve(cur, Wt, (W * xg + level * px) / Wt, (W * yg + level * py) / Wt)
+            over = np.where(live, e - cur.limit_depth, -np.inf)
+        except ConvergenceError:
+            return steps + [(int(i), level) for i in range(n_el) if i not in broken], level
+        if float(over.max()) < 0.0:   # the rest holds: load up to its capacity
+            try:
+                P, u, e, j = capacity(cur, W, xg, yg, px, py)
+            except ConvergenceError:
+                return steps + [(int(i), level) for i in range(n_el) if i not in broken], level
+            if P < level:  # (rounding at the switch) treat as a cascade
+                P = level
+            level = P
+            over = np.where(live, e - cur.limit_depth, -np.inf)
+        nxt = int(cur.owner[int(np.argmax(over))])

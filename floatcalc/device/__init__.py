@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from .design import (Design, design_text, example, example_path, list_examples, load_design,
                      save_design)
-from .elements import ElementKind, ElementModel, Key, kind_names, register_kind
+from .elements import ElementKind, ElementModel, Field, kind_names, register_kind
 from .parallel import ParallelRodsResult, parallel_rods
 from .solve import Device, DeviceResult, ElementState, solve_device
 
@@ -21,7 +21,7 @@ list_device_examples = list_examples
 
 __all__ = [
     "Design", "design_text", "example", "example_path", "list_examples", "load_design", "save_design",
-    "ElementKind", "ElementModel", "Key", "kind_names", "register_kind",
+    "ElementKind", "ElementModel", "Field", "kind_names", "register_kind",
     "ParallelRodsResult", "parallel_rods",
     "Device", "DeviceResult", "ElementState", "solve_device", "device_example", "list_device_examples",
 ]

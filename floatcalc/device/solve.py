@@ -37,8 +37,10 @@ import numpy as np
 from ..errors import ConvergenceError, input_error
 from ..results import Result, field, qfield
 from ..units import Q_
-from .design import Design, example, load_design
-from .elements import ElementModel, get_kind
+from ..design import Design, load_design
+from ..dimensionless import baudoin
+from ..elements import get_kind
+from .assess import cautions_for
 from .geometry import convex_hull, inside_convex, polygons_overlap
 
 REFERENCES = (
@@ -47,10 +49,6 @@ REFERENCES = (
     "Bush & Hu, Annu. Rev. Fluid Mech. 38, 339 (2006): Baudoin number",
 )
 TILT_WARN_DEG = 10.0
-ELECTRONICS_CAUTION = (
-    "Devices with batteries, motors or electronics: keep chargers and mains-powered instruments "
-    "away from the bath, and dry the device before powering it again after it has been in the liquid."
-)
 #: Elements whose footprints come closer than this many capillary lengths get a warning: for
 #: two long parallel rods the superposition is within 2 % of the exact 2D solution at 1.65 l_c
 #: between footprints and 15 % too high at 0.9 l_c (tests/test_device.py).
@@ -71,25 +69,30 @@ class Device:
 
     @classmethod
     def from_design(cls, design: Design | str | Path) -> "Device":
+        if isinstance(design, Device):
+            return design
         if not isinstance(design, Design):
+            if not isinstance(design, (str, Path)):
+                raise input_error("design", "must be a Design (from load_design), a Device or a path",
+                                  type(design).__name__)
             design = load_design(design)
         liq = design.liquid
         models = []
         names = []
-        for i, p in enumerate(design.legs):
-            kind = get_kind(p["kind"])
-            models.append(kind.model(p, liq))
-            names.append(p["name"] or f"legs[{i}] ({p['kind']})")
+        for p in design.elements:
+            models.append(get_kind(p["kind"]).model(p, liq))
+            names.append(p["name"])
         for i in range(len(models)):
             for j in range(i + 1, len(models)):
                 if polygons_overlap(models[i].footprint, models[j].footprint):
-                    raise input_error(f"legs[{i}] and legs[{j}]", "footprints overlap; move or turn one of them",
-                                      f"'{names[i]}' and '{names[j]}'")
+                    raise input_error(f"{_path(design, i)} and {_path(design, j)}",
+                                      "footprints overlap; move or turn one of them, or set a larger "
+                                      "layout_radius or spacing", f"'{names[i]}' and '{names[j]}'")
         hull = convex_hull(np.vstack([m.footprint for m in models]))
         xg, yg = design.body["centre_of_mass"]
         if not inside_convex(hull, (xg, yg)):
             raise input_error("body.centre_of_mass", "must lie inside the support polygon (the convex "
-                              "outline of all legs)", f"[{xg * 1e3:.4g} mm, {yg * 1e3:.4g} mm]")
+                              "outline of all elements)", f"[{xg * 1e3:.4g} mm, {yg * 1e3:.4g} mm]")
         return cls(design=design, models=tuple(models), names=tuple(names))
 
     # -- numeric core input -------------------------------------------------------------
@@ -117,12 +120,12 @@ class Device:
 
     @property
     def weight(self) -> float:
-        """Weight of body and legs [N]."""
+        """Weight of body and elements [N]."""
         return self.design.body["mass"] * self.liquid.g + sum(m.own_weight for m in self.models)
 
     @property
     def centre_of_mass(self) -> tuple[float, float]:
-        """Plan centre of mass of body and legs together [m]."""
+        """Plan centre of mass of body and elements together [m]."""
         g = self.liquid.g
         wb = self.design.body["mass"] * g
         xb, yb = self.design.body["centre_of_mass"]
@@ -132,7 +135,14 @@ class Device:
             wx += m.own_weight * c[0]
             wy += m.own_weight * c[1]
             w += m.own_weight
+        if w <= 0:
+            return xb, yb
         return wx / w, wy / w
+
+    @property
+    def perimeter(self) -> float:
+        """Total contact perimeter [m] of all elements at their limits (the Baudoin number's P)."""
+        return float(sum(m.perimeter for m in self.models))
 
     def meniscus_depth(self, x, y, contact_depths) -> np.ndarray:
         """Superposed linearised meniscus depth [m] at plan points, given each element's contact depth [m]."""
@@ -142,31 +152,60 @@ class Device:
         return out
 
 
+def _path(design: Design, i: int) -> str:
+    p = design.elements[i]
+    g = p.get("group", i)
+    return f"elements[{g}]" + (f" (copy {p.get('index', 0) + 1})" if p.get("count", 1) > 1 else "")
+
+
 @dataclass(frozen=True, kw_only=True)
 class ElementState(Result):
-    """One element at equilibrium."""
+    """One element at equilibrium.
+
+    ``utilisation`` is the element's force over its limit force (0–1; 1: at its limit);
+    ``broken`` says whether it has broken through at this load, ``breakthrough_order`` (1, 2,
+    …) and ``breakthrough_payload`` when it does as the payload grows (None: it never does
+    before the device sinks).
+    """
 
     name: str = field()
     kind: str = field()
     force: Any = qfield("N")
     depth: Any = qfield("m")
     share: float = field(default=0.0)
-    margin: float = field(default=0.0)
+    utilisation: float = field(default=0.0)
     limit_force: Any = qfield("N")
     limit_depth: Any = qfield("m")
     depth_margin: Any = qfield("m")
     own_weight: Any = qfield("N")
+    contact_perimeter: Any = qfield("m")
+    broken: bool = field(default=False)
+    breakthrough_order: int | None = field(default=None)
+    breakthrough_payload: Any = qfield("N", default=None)
     warnings: tuple[str, ...] = field(default=())
 
 
 @dataclass(frozen=True, kw_only=True)
 class DeviceResult(Result):
-    """Result of :func:`solve_device` (see :meth:`to_dict` for the JSON layout)."""
+    """Result of :func:`solve_device` (see :meth:`to_dict` for the JSON layout).
+
+    Vocabulary (README glossary): ``weight`` is the device's own weight (body and elements);
+    ``applied_payload`` the payload put on it; ``load`` = weight + payload; ``capacity`` the
+    largest load it carries with every element intact; ``max_payload`` = capacity − weight
+    (payload at the centre of mass, or where it sits); ``sinking_payload`` the largest payload
+    before it sinks, elements breaking through one by one; ``safety_factor`` = capacity / load
+    (achieved), against ``required_safety_factor``; ``verdict`` one of :data:`VERDICTS`.
+    """
 
     description: str = field(default="")
     verdict: str = field(default="floats")
+    below_required_safety_factor: bool = field(default=False)
     weight: Any = qfield("N")
-    payload: Any = qfield("N")
+    applied_payload: Any = qfield("N")
+    load: Any = qfield("N")
+    capacity: Any = qfield("N")
+    safety_factor: float = field(default=0.0)
+    required_safety_factor: float = field(default=1.0)
     shortfall: Any = qfield("N", default=None)
     heave: Any = qfield("m")
     pitch: Any = qfield("deg")
@@ -175,7 +214,9 @@ class DeviceResult(Result):
     max_payload: Any = qfield("N")
     max_payload_mass: Any = qfield("kg")
     max_payload_position: Any = qfield("m")
+    sinking_payload: Any = qfield("N")
     first_to_fail: str = field(default="")
+    broken_through: tuple = field(default=())
     best_payload: Any = qfield("N")
     best_payload_position: Any = qfield("m")
     stiffness_heave: Any = qfield("N/m")
@@ -184,17 +225,24 @@ class DeviceResult(Result):
     tipping: tuple = field(default=())
     tipping_payload: Any = qfield("N")
     baudoin_number: float = field(default=0.0)
+    contact_perimeter: Any = qfield("m")
     device: Device | None = field(default=None, json=False)
     contact_depths: Any = field(default=None, json=False)
     warnings: tuple[str, ...] = field(default=())
     cautions: tuple[str, ...] = field(default=())
     references: tuple[str, ...] = field(default=REFERENCES)
 
+    @property
+    def payload(self):
+        """The applied payload (quantity); the JSON key is ``applied_payload_N``."""
+        return self.applied_payload
+
     def to_dict(self) -> dict[str, Any]:
         d = super().to_dict()
         d["equilibrium"] = {"heave_m": d.pop("heave_m"), "pitch_deg": d.pop("pitch_deg"),
                             "roll_deg": d.pop("roll_deg")}
         d["tipping"] = [dict(t) for t in self.tipping]
+        d["broken_through"] = list(self.broken_through)
         if self.device is not None:
             d["liquid"] = self.device.liquid.summary()
         return d
@@ -223,37 +271,44 @@ def _common_tables(models):
 
 
 def _as_device(design) -> Device:
-    if isinstance(design, Device):
-        return design
     return Device.from_design(design)
 
 
-def solve_device(design, payload: Any | None = None, payload_position: Any | None = None) -> DeviceResult:
-    """Equilibrium and margins of a device, optionally with a payload.
+def solve_device(design, payload: Any | None = None, payload_position: Any | None = None, *,
+                 safety_factor: Any | None = None) -> DeviceResult:
+    """Equilibrium, capacity, progressive failure and verdict of a device.
 
     Parameters
     ----------
     design : Design, Device, or path of a design file
     payload : [kg], optional
-        Extra mass (e.g. ``"0.5 g"``) placed at ``payload_position`` (default the centre of mass).
+        Extra mass (e.g. ``"0.5 g"``); default the design file's ``[load] payload``.
     payload_position : pair of [m], optional
-        Plan position of the payload, e.g. ``("3 mm", "0 mm")``.
+        Plan position of the payload, e.g. ``("3 mm", "0 mm")``; default the file's
+        ``payload_position``, else the centre of mass.
+    safety_factor : float, optional
+        Required safety factor (default the file's, else 1).
 
     Returns
     -------
     DeviceResult
-        ``verdict`` is ``"floats"`` or ``"sinks"`` (a payload beyond capacity is not an error:
-        the shortfall is reported and the equilibrium shown is the one at capacity).
+        ``verdict`` is one of :data:`floatcalc.device.assess.VERDICTS`: ``"floats"`` (every
+        element intact), ``"floats with elements broken through"``, ``"capsizes"`` (negative
+        tilt stiffness: the centre of mass is too high) or ``"sinks"`` (no equilibrium: the
+        shortfall is reported and the state shown is the last one before sinking).
+        ``below_required_safety_factor`` flags a safety factor under the required one.
 
     Examples
     --------
+    >>> from floatcalc.design import example
     >>> r = solve_device(example("skimmer"))
     >>> r.verdict, r.max_payload.to("mN").magnitude > 0
     ('floats', True)
     """
-    from .. import _validate as v
     from ..core import equilibrium as eq
     from ..units import to_si
+    from .assess import safety_factor as check_sf
+    from .assess import verdict as decide
 
     dev = _as_device(design)
     liq = dev.liquid
@@ -262,77 +317,92 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     sup = dev.support()
     W = dev.weight
     xg, yg = dev.centre_of_mass
-    mp = 0.0 if payload is None else to_si(payload, "mass", "payload")
-    if mp < 0:
-        raise input_error("payload", "must be zero or positive", f"{mp * 1e3:g} g")
-    if payload_position is None:
+    dload = dev.design.load
+    mp = dload["payload"] if payload is None else to_si(payload, "mass", "payload")
+    if mp < 0 or mp > 100.0:
+        raise input_error("payload", "must be from 0 to 100 kg", f"{mp * 1e3:g} g")
+    sf_req = dload["safety_factor"] if safety_factor is None else check_sf(safety_factor)
+    pos = dload["payload_position"] if payload_position is None else payload_position
+    if pos is None:
         px, py = xg, yg
     else:
         try:
-            px, py = (to_si(c, "length", "payload_position") for c in payload_position)
+            px, py = (c if isinstance(c, float) and payload_position is None else to_si(c, "length", "payload_position")
+                      for c in pos)
         except TypeError:
-            raise input_error("payload_position", "must be two lengths (x, y)", repr(payload_position)) from None
+            raise input_error("payload_position", "must be two lengths (x, y)", repr(pos)) from None
+        if not (abs(px) <= 1.0 and abs(py) <= 1.0):
+            raise input_error("payload_position", "must be within 1 m of the origin", f"({px:g} m, {py:g} m)")
+    at_com = pos is None
     P = mp * g
     Ws, xs, ys, pxs, pys = W / fs, xg / lc, yg / lc, px / lc, py / lc
 
-    Pcap, u_cap, e_cap, j_first = eq.capacity(sup, Ws, xs, ys, pxs, pys)
-    at_centre = (Pcap, u_cap, e_cap, j_first) if payload_position is None else None
-    first = dev.names[int(sup.owner[j_first])]
+    first = eq.capacity(sup, Ws, xs, ys, pxs, pys)
+    Pcap, u_cap, e_cap, j_first = first
+    broken_force = np.array([m.broken_force for m in dev.models]) / fs
+    steps, sinking = eq.progressive(sup, Ws, xs, ys, pxs, pys, broken_force, first=first)
+    order = {int(el): (k + 1, lvl) for k, (el, lvl) in enumerate(steps)}
+    first_name = dev.names[int(sup.owner[j_first])]
+    broken_now = [el for el, lvl in steps if lvl < P / fs - 1e-12 * max(1.0, abs(lvl))]
     warnings: list[str] = []
-    if Pcap < 0:
-        verdict = "sinks"
+
+    # the state to show: at the payload (elements broken through at it), or just before sinking
+    sinks = P / fs > sinking
+    load_shown = min(P / fs, sinking) if sinks else P / fs
+    if sinks:
+        broken_now = [el for el, lvl in steps if lvl < sinking - 1e-12 * max(1.0, abs(sinking))]
+    cur = eq.with_broken(sup, broken_now, broken_force)
+    Wt = Ws + max(load_shown, -Ws * (1 - 1e-9))
+    xt = (Ws * xs + load_shown * pxs) / Wt
+    yt = (Ws * ys + load_shown * pys) / Wt
+    try:
+        u, e = eq.solve(cur, Wt, xt, yt)
+    except ConvergenceError:
         u, e = u_cap, e_cap
-        load = 0.0
-        shortfall = -Pcap * fs + P
-    elif P > Pcap * fs:
-        verdict = "sinks"
-        u, e = u_cap, e_cap
-        load = Pcap * fs
-        shortfall = P - Pcap * fs
-        warnings.append("the payload is beyond capacity: the equilibrium shown is at capacity, just before "
-                        f"'{first}' gives way")
-    else:
-        verdict = "floats"
-        Wt = Ws + P / fs
-        u, e = eq.solve(sup, Wt, (Ws * xs + P / fs * pxs) / Wt, (Ws * ys + P / fs * pys) / Wt)
-        load = P
-        shortfall = None
-    Wt = Ws + load / fs
-    xt = (Ws * xs + load / fs * pxs) / Wt
-    yt = (Ws * ys + load / fs * pys) / Wt
-    _, e, F, h = eq.point_state(sup, *u)
+    _, e, F, h = eq.point_state(cur, *u)
+    shortfall = (P - sinking * fs) if sinks else None
+    if sinks:
+        warnings.append("the payload is beyond what the device carries: the state shown is the last one before "
+                        "it sinks")
 
     # per element
     states = []
     n_el = len(dev.models)
     Fe = np.bincount(sup.owner, weights=F, minlength=n_el)
-    contact_depths = np.bincount(sup.owner, weights=h, minlength=n_el) / np.bincount(sup.owner, minlength=n_el)
+    counts = np.bincount(sup.owner, minlength=n_el)
+    contact_depths = np.bincount(sup.owner, weights=h, minlength=n_el) / counts
     for i, m in enumerate(dev.models):
         sel = sup.owner == i
         dmax = float(np.max(e[sel])) * lc
         dm = float(np.min(sup.limit_depth[sel] - e[sel])) * lc
         flim = m.limit_force
+        k, lvl = order.get(i, (None, None))
         states.append(ElementState(
-            name=dev.names[i], kind=dev.design.legs[i]["kind"],
+            name=dev.names[i], kind=dev.design.elements[i]["kind"],
             force=Q_(Fe[i] * fs, "N"), depth=Q_(dmax, "m"),
             share=float(Fe[i] / max(F.sum(), 1e-300)),
-            margin=float(1.0 - Fe[i] * fs / flim), limit_force=Q_(flim, "N"),
+            utilisation=float(Fe[i] * fs / flim) if flim > 0 else 0.0, limit_force=Q_(flim, "N"),
             limit_depth=Q_(m.limit_depth, "m"), depth_margin=Q_(dm, "m"),
-            own_weight=Q_(m.own_weight, "N"), warnings=tuple(m.warnings),
+            own_weight=Q_(m.own_weight, "N"), contact_perimeter=Q_(m.perimeter, "m"),
+            broken=i in broken_now, breakthrough_order=k,
+            breakthrough_payload=None if lvl is None or lvl > sinking + 1e-12 else Q_(lvl * fs, "N"),
+            warnings=tuple(m.warnings),
         ))
         for w in m.warnings:
             warnings.append(f"{dev.names[i]}: {w}")
 
-    # best place for a payload, stiffness, tipping
-    Pbest, bx, by = eq.best_capacity(sup, Ws, xs, ys, at_centre=at_centre)
-    kz, kp, kq = eq.stiffness(sup, u, xt, yt)
+    # best place for a payload, stiffness, tipping (of the intact device)
+    Pbest, bx, by = eq.best_capacity(sup, Ws, xs, ys, at_centre=first if at_com else None)
+    kz, kp, kq = eq.stiffness(cur, u, xt, yt)
     zg = dev.design.body.get("centre_of_mass_height", 0.0) / lc
     kp -= Wt * zg
     kq -= Wt * zg
-    if kp <= 0 or kq <= 0:
+    tol = 1e-9 * max(1.0, Wt)  # a line of supports is neutral about its own axis, not capsizing
+    capsizes = (kp < -tol or kq < -tol) and not sinks
+    if capsizes:
         warnings.append("negative restoring stiffness in tilt: the centre of mass is too high, the device "
-                        "would capsize")
-    P_ref = P / fs if (verdict == "floats" and P > 0) else 0.5 * max(Pcap, 0.0)
+                        "capsizes")
+    P_ref = P / fs if (not sinks and not broken_now and P > 0) else 0.5 * max(Pcap, 0.0)
     tipping = []
     if P_ref > 0:
         span = float(np.max(np.hypot(sup.x - xs, sup.y - ys))) * 2.0
@@ -349,24 +419,31 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     if close:
         warnings.append(f"elements closer than {CLOSE_LC:g} capillary lengths (" + ", ".join(close[:4]) +
                         ("…" if len(close) > 4 else "") + "): the superposed linear meniscus between them is "
-                        "approximate; for long parallel rods see 'floatcalc leg --count N --spacing S'")
-    perim = sum(m.perimeter for m in dev.models)
+                        "approximate; for long parallel rods use a rod_row element (exact shared meniscus)")
+    capacity = W + Pcap * fs
+    load = W + P
+    sf = capacity / load if load > 0 else math.inf
+    word = decide(P, Pcap * fs, sinking * fs, capsizes)
+    perim = dev.perimeter
     return DeviceResult(
-        description=dev.design.description, verdict=verdict,
-        weight=Q_(W, "N"), payload=Q_(P, "N"),
+        description=dev.design.description, verdict=word,
+        below_required_safety_factor=bool(sf < sf_req),
+        weight=Q_(W, "N"), applied_payload=Q_(P, "N"), load=Q_(load, "N"), capacity=Q_(capacity, "N"),
+        safety_factor=float(sf), required_safety_factor=float(sf_req),
         shortfall=None if shortfall is None else Q_(shortfall, "N"),
         heave=Q_(u[0] * lc, "m"), pitch=Q_(pitch, "deg"), roll=Q_(roll, "deg"),
         elements=tuple(states),
         max_payload=Q_(max(Pcap, 0.0) * fs, "N"), max_payload_mass=Q_(max(Pcap, 0.0) * fs / g, "kg"),
         max_payload_position=Q_(np.array([px, py]), "m"),
-        first_to_fail=first,
+        sinking_payload=Q_(max(sinking, 0.0) * fs, "N"),
+        first_to_fail=first_name, broken_through=tuple(dev.names[i] for i in broken_now),
         best_payload=Q_(max(Pbest, 0.0) * fs, "N"), best_payload_position=Q_(np.array([bx, by]) * lc, "m"),
         stiffness_heave=Q_(kz * s, "N/m"), stiffness_pitch=Q_(kp * s * lc * lc, "N*m/rad"),
         stiffness_roll=Q_(kq * s * lc * lc, "N*m/rad"),
         tipping=tuple(tipping), tipping_payload=Q_(P_ref * fs, "N"),
-        baudoin_number=W / (s * perim),
+        baudoin_number=baudoin(load, s, perim), contact_perimeter=Q_(perim, "m"),
         device=dev, contact_depths=contact_depths * lc,
-        warnings=tuple(warnings), cautions=(*liq.cautions, ELECTRONICS_CAUTION),
+        warnings=tuple(warnings), cautions=cautions_for(dev.design),
     )
 
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 import pytest
 
 import floatcalc as fc
-from floatcalc import groups
+from floatcalc import dimensionless as groups
 from floatcalc.errors import InputError
 
 

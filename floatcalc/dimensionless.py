@@ -59,12 +59,7 @@ def bond_number(liq: Liquid, length: Any, which: str = "radius") -> Group:
     """
     L = v.length(length, "length")
     bo = (L / liq.lc) ** 2
-    if bo < 0.1:
-        reading = "Bo ≪ 1: surface tension dominates buoyancy at this size"
-    elif bo <= 10:
-        reading = "Bo ~ 1: surface tension and buoyancy (meniscus pressure) both matter"
-    else:
-        reading = "Bo ≫ 1: buoyancy of the displaced volume dominates surface tension"
+    reading = bond_reading(bo)
     return Group("Bond number", "Bo", bo, "ρ g L² / σ", f"L = {which} = {L * 1e3:.4g} mm", reading)
 
 
@@ -79,7 +74,7 @@ def baudoin_number(liq: Liquid, weight: Any, perimeter: Any) -> Group:
     """
     W = _weight(weight, liq.g)
     P = v.length(perimeter, "perimeter", upper=1e3)
-    ba = W / (liq.sigma * P)
+    ba = baudoin(W, liq.sigma, P)
     if ba < 1:
         reading = ("Ba < 1: the largest surface-tension force exceeds the weight "
                    "(necessary, not sufficient, for standing on surface tension)")
@@ -87,6 +82,33 @@ def baudoin_number(liq: Liquid, weight: Any, perimeter: Any) -> Group:
         reading = "Ba ≥ 1: weight exceeds the largest surface-tension force on this perimeter"
     return Group("Baudoin number", "Ba", ba, "W / (σ P)",
                  f"W = {W * 1e3:.4g} mN, P = {P * 1e3:.4g} mm", reading)
+
+
+def baudoin(weight: float, sigma: float, perimeter: float) -> float:
+    """Ba = W / (σ P) on SI floats: the one formula every result uses [1]_.
+
+    ``weight`` [N] is the load carried (a device's weight plus its payload, or an element's own
+    weight), ``perimeter`` [m] the contact-line length at the limit.
+
+    >>> round(baudoin(1e-3, 0.072, 0.04), 4)
+    0.3472
+    """
+    return weight / (sigma * perimeter) if perimeter > 0 else float("inf")
+
+
+def bond_reading(bo: float) -> str:
+    """Plain reading of a Bond number (thresholds 0.1 and 10, common practice).
+
+    >>> bond_reading(0.12)
+    'Bo < 1: surface tension dominates, meniscus pressure adds a little'
+    """
+    if bo < 0.1:
+        return "Bo ≪ 1: surface tension dominates buoyancy at this size"
+    if bo < 1:
+        return "Bo < 1: surface tension dominates, meniscus pressure adds a little"
+    if bo <= 10:
+        return "Bo ~ 1: surface tension and buoyancy (meniscus pressure) both matter"
+    return "Bo ≫ 1: buoyancy of the displaced volume dominates surface tension"
 
 
 def weber_number(liq: Liquid, speed: Any, length: Any) -> Group:
