@@ -87,7 +87,7 @@ def test_misspelt_top_level_and_kind():
 def test_round_element_keys_validated():
     text = GOOD.replace('kind = "rod"', 'kind = "ring"', 1).replace('radius = "0.2 mm"\nlength = "15 mm"',
                                                                   'ring_radius = "2 mm"\nwire_radius = "3 mm"', 1)
-    with pytest.raises(InputError, match=r"legs\[0\].wire_radius: must be smaller than ring_radius"):
+    with pytest.raises(InputError, match=r"legs\[0\].ring_radius: must be at least twice the wire radius"):
         load_design(None, text=text)
     text = GOOD.replace('kind = "rod"', 'kind = "ball"', 1)
     with pytest.raises(InputError) as exc:
@@ -95,15 +95,19 @@ def test_round_element_keys_validated():
     assert "legs[0].length: unknown key" in str(exc.value)
 
 
-def test_pending_kind_refuses_clearly():
-    from floatcalc.device import elements
+def test_unavailable_kind_refuses_clearly():
+    from floatcalc.elements import _registry as reg
 
-    elements.register_kind(elements.PendingKind("test_foot", "test foot", "floatcalc.nothing"))
+    class Missing(reg.ElementKind):
+        name = "test_foot"
+        unavailable = "element kind 'test_foot' needs floatcalc.nothing, which this version does not have"
+
+    reg.register_kind(Missing())
     try:
         with pytest.raises(InputError, match=r"legs\[0\].kind: element kind 'test_foot' needs floatcalc.nothing"):
             load_design(None, text=GOOD.replace('kind = "rod"', 'kind = "test_foot"', 1))
     finally:
-        elements._KINDS.pop("test_foot")
+        reg._KINDS.pop("test_foot")
 
 
 def test_rod_row_spacing_must_clear_the_rods():
@@ -113,8 +117,21 @@ def test_rod_row_spacing_must_clear_the_rods():
 
 
 def test_schema_version_required_and_checked():
-    with pytest.raises(InputError, match="schema_version: this floatcalc reads version 1, got 2"):
+    with pytest.raises(InputError, match="schema_version: this floatcalc reads versions 1 and 2, got 3"):
+        load_design(None, text=GOOD.replace("schema_version = 1", "schema_version = 3"))
+    # a schema-2 file names its element tables [[elements]]; [[legs]] there is a misspelt key
+    with pytest.raises(InputError, match=r"legs: unknown key"):
         load_design(None, text=GOOD.replace("schema_version = 1", "schema_version = 2"))
+
+
+def test_schema1_file_loads_with_a_note_and_upgrades():
+    d = load_design(None, text=GOOD)
+    assert d.notes and "schema-1" in d.notes[0] and "floatcalc design upgrade" in d.notes[0]
+    text = design_text(d)
+    new = tomllib.loads(text)
+    assert new["schema_version"] == 2 and len(new["elements"]) == 2 and "legs" not in new
+    again = load_design(None, text=text)
+    assert again.notes == () and again.elements == d.elements
 
 
 def test_malformed_toml_is_one_line_with_position():
@@ -127,7 +144,7 @@ def test_malformed_toml_is_one_line_with_position():
 def test_oversized_file_refused(tmp_path):
     p = tmp_path / "big.toml"
     p.write_text(GOOD + "#" * 1_100_000, encoding="utf-8")
-    with pytest.raises(InputError, match=r"design files may be at most 1000 kB"):
+    with pytest.raises(InputError, match=r"files may be at most 1000 kB"):
         load_design(p)
 
 
@@ -208,4 +225,4 @@ def test_design_equality_is_by_content():
     a = load_design(None, text=GOOD)
     b = load_design(None, text=GOOD)
     assert isinstance(a, Design) and a == b and hash(a) == hash(b)
-    assert tomllib.loads(design_text(a))["legs"][1]["coating"]["solid_fraction"] == 0.4
+    assert tomllib.loads(design_text(a))["elements"][1]["coating"]["solid_fraction"] == 0.4

@@ -234,9 +234,12 @@ def test_overlapping_elements_are_an_input_error():
 
 
 @settings(max_examples=60, deadline=None)  # each example is an equilibrium solve (~10 ms)
-@given(st.floats(-4.0, 4.0), st.floats(-4.0, 4.0))
+@given(st.floats(-3.0, 3.0), st.floats(-3.0, 3.0))
 def test_tilt_follows_the_centre_of_mass(xg_mm, yg_mm):
-    """Symmetric square: pitch has the sign of x_G and roll the sign of y_G (mirror symmetry)."""
+    """Symmetric square: pitch has the sign of x_G and roll the sign of y_G (mirror symmetry).
+
+    (Centres of mass up to 3 mm off: further out the corner rod passes its limit under the
+    device's own weight and no intact equilibrium exists.)"""
     sup = _SQUARE_SUP
     W = _SQUARE_W
     u, e = eq.solve(sup, W, xg_mm * 1e-3 / LC, yg_mm * 1e-3 / LC)
@@ -253,8 +256,13 @@ def test_cli_device_json_keys(capsys):
     assert code == 0
     assert {"max_payload_N", "first_to_fail", "equilibrium", "elements", "verdict"} <= set(d)
     assert set(d["equilibrium"]) == {"heave_m", "pitch_deg", "roll_deg"}
-    assert len(d["elements"]) == 12 and {"force_N", "depth_m", "margin"} <= set(d["elements"][0])
-    assert sum(e["force_N"] for e in d["elements"]) == pytest.approx(d["weight_N"] + d["payload_N"], rel=1e-9)
+    assert len(d["elements"]) == 12 and {"force_N", "depth_m", "utilisation", "breakthrough_order",
+                                         "limit_force_N"} <= set(d["elements"][0])
+    assert sum(e["force_N"] for e in d["elements"]) == pytest.approx(d["weight_N"] + d["applied_payload_N"],
+                                                                     rel=1e-9)
+    assert d["load_N"] == pytest.approx(d["weight_N"] + d["applied_payload_N"], rel=1e-12)
+    assert d["capacity_N"] == pytest.approx(d["weight_N"] + d["max_payload_N"], rel=1e-12)
+    assert d["sinking_payload_N"] >= d["max_payload_N"] * (1 - 1e-9)
     assert any("clean liquid surface" in c for c in d["cautions"])
 
 

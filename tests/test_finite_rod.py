@@ -12,6 +12,8 @@ import math
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 import scipy.sparse as sp
 import scipy.sparse.linalg as spl
 
@@ -98,4 +100,19 @@ def test_correction_falls_as_one_over_length():
 
 def test_rod_warning_names_end_effects():
     r = rod("0.15 mm", "10 mm", "115 deg")
-    assert any("end effects" in w and "%" in w for w in r.warnings)
+    assert any("rod ends" in w and "%" in w for w in r.warnings)
+
+
+@settings(max_examples=200, deadline=None)
+@given(R=st.floats(0.01, 1.0), theta=st.floats(60.0, 179.0), L=st.floats(2.0, 40.0))
+def test_surface_tension_force_within_the_contact_line_bound(R, theta, L):
+    # PHYSICS.md bound: the vertical surface-tension force on a body is at most σ times the
+    # length of its contact line; for a flat-ended rod that is 2L + 4R sin φ (two side lines
+    # and the chord across each end face), in σ l_c here.
+    th = math.radians(theta)
+    lim = finite_rod.limit(R, th, L)
+    f_st, _, _ = rod2d.force_parts(lim["phi"], R, th)
+    st_force = float(f_st) * L + lim["end_part"]
+    assert st_force <= (2 * L + 4 * R * math.sin(lim["phi"])) * (1 + 1e-12)
+    # and the ends alone within their chords
+    assert abs(lim["end_part"]) <= 4 * R * math.sin(lim["phi"]) * (1 + 1e-12)

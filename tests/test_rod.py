@@ -30,7 +30,10 @@ def test_leg_against_hand_estimates(leg):
     two_sigma_L = 2 * SIGMA20 * 0.04
     st = leg.surface_tension_part.to("N").magnitude
     pr = leg.pressure_part.to("N").magnitude
-    assert st == pytest.approx(two_sigma_L, rel=1e-3)  # ψ ≈ 90° at the limit
+    end = leg.end_part.to("N").magnitude
+    assert st - end == pytest.approx(two_sigma_L, rel=1e-3)  # ψ ≈ 90° at the limit
+    # the two ends add at most σ × the chord 2R across each flat end face (contact-line bound)
+    assert 0 < end <= SIGMA20 * 2 * (2 * 0.25e-3) * (1 + 1e-12)
     assert 0 < pr < 0.2 * two_sigma_L
     # pressure part bounded by the weight of a liquid slab 2R wide and (2 l_c + 2R) deep
     assert pr < 998.2 * 9.80665 * 0.04 * 2 * 0.25e-3 * (2 * LC20 + 0.5e-3)
@@ -51,7 +54,10 @@ def test_result_json_keys_and_values_are_si(leg):
                 "baudoin_number", "contact_angle_deg", "radius_m", "length_m"):
         assert key in d, key
         assert isinstance(d[key], float) and math.isfinite(d[key]), key
-    assert d["max_force_per_length_N_per_m"] == pytest.approx(d["max_force_N"] / 0.04)
+    # per length: the long-rod (2D) value; the total adds the bounded ends
+    assert d["max_force_per_length_N_per_m"] * 0.04 + d["end_part_N"] == pytest.approx(d["max_force_N"], rel=2e-3)
+    assert d["contact_perimeter_m"] == pytest.approx(2 * 0.04 + 4 * 0.25e-3 * math.sin(
+        math.radians(d["contact_position_at_max_deg"])), rel=1e-12)
     assert d["radius_m"] == 0.00025 and d["contact_angle_deg"] == pytest.approx(150)
     assert d["liquid"]["name"] == "water"
     assert d["cautions"] and "clean" in d["cautions"][0]
@@ -72,7 +78,9 @@ def test_count_and_length_scale_linearly():
     six = fc.rod("0.2 mm", "30 mm", "115 deg", count=6)
     twice = fc.rod("0.2 mm", "60 mm", "115 deg")
     assert six.max_force.to("N").magnitude == pytest.approx(6 * one.max_force.to("N").magnitude, rel=1e-12)
-    assert twice.max_force.to("N").magnitude == pytest.approx(2 * one.max_force.to("N").magnitude, rel=1e-12)
+    # doubling the length doubles the 2D part; the two ends are counted once
+    assert twice.max_force.to("N").magnitude - twice.end_part.to("N").magnitude == pytest.approx(
+        2 * (one.max_force.to("N").magnitude - one.end_part.to("N").magnitude), rel=2e-3)
     assert six.depth_at_max == one.depth_at_max
     assert any("far apart" in w for w in six.warnings)
 
@@ -80,7 +88,7 @@ def test_count_and_length_scale_linearly():
 def test_warnings_name_the_assumptions():
     r = fc.rod("0.2 mm", "10 mm", "60 deg")
     text = " ".join(r.warnings)
-    assert "end effects" in text            # 10 mm < 20 l_c
+    assert "rod ends" in text               # 10 mm < 20 l_c
     assert "steel" in text                  # default material density
     assert "wetting leg" in text            # θ < 90°
     quiet = fc.rod("0.2 mm", "100 mm", "120 deg", material_density="2700 kg/m^3")

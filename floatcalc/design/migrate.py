@@ -47,6 +47,28 @@ def migrate(data: dict, fmt: str) -> tuple[dict, str]:
     return data, ""
 
 
+def file_path(problem: str, fmt: str) -> str:
+    """A problem line with its key path as the older file wrote it.
+
+    >>> file_path("elements[2].radius: must be positive", "schema 1")
+    'legs[2].radius: must be positive'
+    >>> file_path("elements[0].coating.advancing: required", "quick")
+    'element[0].advancing_angle: required'
+    """
+    import re
+
+    if fmt == "schema 1":
+        problem = re.sub(r"^elements(?=[\[:.])", "legs", problem)
+        return re.sub(r"^(legs\[\d+\])\.rods\b", r"\1.count", problem)
+    if fmt == "quick":
+        problem = re.sub(r"^elements(?=[\[:.])", "element", problem)
+        problem = re.sub(r"^(element\[\d+\])\.coating\.advancing", r"\1.advancing_angle", problem)
+        problem = re.sub(r"^(element\[\d+\])\.coating\.receding", r"\1.receding_angle", problem)
+        problem = re.sub(r"^body\.mass", "load.body_mass", problem)
+        return re.sub(r"^description", "title", problem)
+    return problem
+
+
 def _legs(legs):
     out = []
     for leg in legs if isinstance(legs, list) else []:

@@ -583,6 +583,10 @@ def design_from_data(data: dict, name: str = "design", *, source_text: str | Non
         else:
             _unknown(a, _ALT_KEYS, f"alternatives[{i}]", problems)
     if problems:
+        if fmt != "schema 2":  # name the keys as the file wrote them
+            from .migrate import file_path
+
+            problems = [file_path(pr, fmt) for pr in problems]
         raise _problems_error(name, problems)
     elements = place(groups, body, liq)
     alternatives = []
