@@ -160,7 +160,10 @@ class PinResult(Result):
     own_weight: Any = qfield("N")
     payload: Any = qfield("N")
     stage: str = field(default="")
+    contact_perimeter: Any = qfield("m", default=None)
     bond_number: float = field(default=0.0)
+    bond_length: Any = qfield("m", default=None)
+    baudoin_number: float = field(default=0.0)
     liquid: Liquid | None = field(default=None, json=False)
     curve: RoundForceCurve | None = field(default=None, json=False)
     profile: dict | None = field(default=None, json=False)
@@ -274,7 +277,8 @@ def pin(radius: Any, contact_angle: Any, *, depth: Any | None = None, length: An
         wilhelmy_force=Q_(s * 2 * math.pi * b * math.cos(th), "N"),
         meniscus_volume=Q_(vol * lc**3, "m**3"),
         own_weight=Q_(weight, "N"), payload=Q_(F - weight, "N"),
-        stage=rb.STAGES[st["stage"]], bond_number=bs**2, liquid=liq,
+        stage=rb.STAGES[st["stage"]], bond_number=bs**2, bond_length=Q_(b, "m"),
+        contact_perimeter=Q_(2 * math.pi * b, "m"), baudoin_number=baudoin(weight, s, 2 * math.pi * b), liquid=liq,
         curve=_curve(cur, lc, s, stage_names), profile=prof,
         warnings=tuple(warnings), cautions=liq.cautions,
     )

@@ -39,7 +39,11 @@ def test_leg_json_has_required_keys_with_physical_values(capsys):
     two_sigma_L = 2 * SIGMA20 * 0.04
     assert two_sigma_L < d["max_force_N"] < 1.2 * two_sigma_L
     assert d["max_force_N"] == pytest.approx(d["surface_tension_part_N"] + d["pressure_part_N"])
-    assert d["max_force_per_length_N_per_m"] == pytest.approx(d["max_force_N"] / 0.04)
+    # per length: the long-rod value; the total adds the two ends, each bounded by σ × its chord 2R
+    assert d["max_force_per_length_N_per_m"] * 0.04 + d["end_part_N"] == pytest.approx(d["max_force_N"], rel=2e-3)
+    assert 0 < d["end_part_N"] <= 2 * SIGMA20 * 2 * 0.25e-3
+    assert d["inputs"]["radius"] == "0.25mm" and d["liquid"]["name"] == "water"
+    assert d["contact_perimeter_m"] > 2 * 0.04 and d["baudoin_number"] > 0
     assert 0 < d["depth_at_max_m"] < 2 * LC20 + 2 * 0.25e-3
     assert 0 < d["payload_N"] < d["max_force_N"]
     assert d["bond_number"] == pytest.approx((0.25e-3 / LC20) ** 2, rel=1e-3)
@@ -82,7 +86,7 @@ def test_demo_is_labelled_invented(capsys):
     code, out, _ = run(capsys, "demo", "--json")
     d = json.loads(out)
     assert d["invented"] is True and d["verdict"] in ("floats", "sinks")
-    assert d["margin_N"] == pytest.approx(d["payload_N"] - d["body_weight_N"])
+    assert d["capacity_N"] == pytest.approx(d["weight_N"] + d["max_payload_N"], rel=1e-12)
 
 
 def test_help_lists_commands(capsys):

@@ -247,7 +247,7 @@ def test_tilt_follows_the_centre_of_mass(xg_mm, yg_mm):
         if abs(c) > 1e-3:
             assert np.sign(slope) == np.sign(c)
         else:
-            assert abs(slope) < 1e-6
+            assert abs(slope) < 1e-4  # slope ∝ offset: about 0.03 per mm here
 
 
 def test_cli_device_json_keys(capsys):

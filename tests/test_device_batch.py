@@ -27,7 +27,7 @@ from floatcalc.studies import device_batch as db
 from floatcalc.studies.device_model import _DeviceFunc, device_model
 
 RTOL = 1e-6
-OUTPUTS = ("max_payload", "payload_mass", "margin", "weight")
+OUTPUTS = ("max_payload", "payload_mass", "spare_payload", "weight")
 
 #: Invented rod device using the rest of what the rod adapter takes: a tilted rod, a raised
 #: rod, two segment counts and densities, uneven headings, the centre of mass off-centre.

@@ -77,9 +77,9 @@ def test_cli_writes_csv_and_plot(tmp_path, capsys):
     code = main(["sweep", "--vary", "radius=0.05mm:0.5mm:12:log", "--vary", "contact_angle=100deg:170deg:5",
                  "--count", "4", "--payload", "2g", "--output", str(csv), "--save", str(png)])
     assert code == 0
-    t = read_table(csv, {"radius": "length", "margin": "force"})
+    t = read_table(csv, {"radius": "length", "spare_payload": "force"})
     assert t.columns["radius"].size == 60
-    assert t.units["radius"] == "mm" and t.units["margin"] == "mN"
+    assert t.units["radius"] == "mm" and t.units["spare_payload"] == "mN"
     assert png.read_bytes()[:4] == b"\x89PNG"
     assert any("caution" in c for c in t.comments)
 

@@ -41,9 +41,16 @@ def print_curve(curve, every: int = 1) -> None:
         print(f"    {curve.depth[k].to('mm').magnitude:10.5f} mm  {curve.force[k].to('mN').magnitude:12.6g} mN  {stage[k]}")
 
 
+#: Element inputs echoed in the JSON of every round-element command.
+INPUTS = ("radius", "thickness", "ring_radius", "wire_radius", "length", "depth", "contact_angle",
+          "receding_angle", "material_density")
+
+
 def output(args, r, title: str, rows) -> int:
     if args.json:
-        d = r.to_dict()
+        from ._common import element_json
+
+        d = element_json(r, args, INPUTS)
         if args.curve:
             d["curve"] = curve_dict(r.curve)
         print_json(d)
@@ -65,7 +72,10 @@ def limit_rows(r, extra=()):
         *extra,
         ("own weight", fmt(r.own_weight, "mN")),
         ("payload", f"{fmt(r.payload, 'mN')} = {fmt(r.payload_mass, 'g')}"),
+        ("contact perimeter", fmt(r.contact_perimeter, "mm") if getattr(r, "contact_perimeter", None) is not None
+         else "-"),
         ("Bond number", f"{r.bond_number:.3g}"),
+        ("Baudoin number", f"{r.baudoin_number:.3g}  (own weight / (σ × contact perimeter))"),
     ]
     return rows
 
@@ -88,5 +98,5 @@ def run(args) -> int:
             *limit_rows(r, [("contact position at limit",
                              f"{r.details['contact_position_at_max_deg']:.1f}° from the bottom, "
                              f"contact radius {fmt(r.contact_radius_at_max, 'mm')}")])]
-    rows[-1] = ("Bond number", f"{r.bond_number:.3g}  (L = ball radius)")
+    rows[-2] = ("Bond number", f"{r.bond_number:.3g}  (L = ball radius)")
     return output(args, r, "Ball foot: axisymmetric meniscus, limit over the contact position", rows)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from ..dimensionless import bond_number
 from ..rods import rod
-from ._common import add_liquid_args, fmt, liquid_from_args
+from ._common import add_liquid_args, element_json, fmt, liquid_from_args, refuse_unless
 from ._format import add_json_flag, print_json, print_table
 
 
@@ -24,23 +24,32 @@ def register(sub) -> None:
     f = p.add_argument_group("flexible leg (given E or a material: the leg bends under its load)")
     f.add_argument("--youngs-modulus", default=None, help="Young's modulus of the wire, e.g. 200GPa")
     f.add_argument("--material", default=None, help="leg material, e.g. steel, tungsten, nitinol, nylon")
-    f.add_argument("--clamp-angle", default="0deg", help="slope at the clamp below horizontal, -45..45deg (default 0)")
+    f.add_argument("--clamp-angle", default=None, help="slope at the clamp below horizontal, -45..45deg (default 0)")
     f.add_argument("--toe-angle", default=None, help="upturned toe over the last 10%% of the leg, e.g. 20deg")
     add_liquid_args(p)
     add_json_flag(p)
     p.set_defaults(func=run)
 
 
+INPUTS = ("radius", "length", "contact_angle", "receding_angle", "material_density", "count", "spacing",
+          "youngs_modulus", "material", "clamp_angle", "toe_angle")
+
+
 def run(args) -> int:
     liq = liquid_from_args(args)
-    if args.youngs_modulus is not None or args.material is not None:
+    flexible = args.youngs_modulus is not None or args.material is not None
+    for opt, val in (("--clamp-angle", args.clamp_angle), ("--toe-angle", args.toe_angle)):
+        refuse_unless(val, flexible, opt, "to a flexible leg: give --material or --youngs-modulus")
+    if args.spacing is not None and str(args.count).strip() in ("1", "1.0"):
+        refuse_unless(args.spacing, False, "--spacing", "with --count of 2 or more (parallel legs)")
+    if flexible:
         return _run_flexible(args, liq)  # refuses --spacing (flexible legs are modelled far apart)
     if args.spacing is not None:
         return _run_parallel(args, liq)
     r = rod(args.radius, args.length, args.contact_angle, receding_angle=args.receding_angle,
             liquid=liq, material_density=args.material_density, count=args.count)
     if args.json:
-        print_json(r.to_dict())
+        print_json(element_json(r, args, INPUTS))
         return 0
     bo = bond_number(liq, r.radius, "leg radius")
     rows = [
@@ -59,7 +68,8 @@ def run(args) -> int:
         rows.append(("limit with receded line", fmt(r.receding_max_force, "mN")))
         rows.append(("pull-off force (lifting)", fmt(r.pull_off_force, "mN")))
     rows.append(("Bond number", f"{r.bond_number:.3g}  ({bo.reading}; L = leg radius)"))
-    rows.append(("Baudoin number", f"{r.baudoin_number:.3g}  (own weight / (σ × 2L × count))"))
+    rows.append(("Baudoin number", f"{r.baudoin_number:.3g}  (own weight / (σ × contact perimeter "
+                                   f"{fmt(r.contact_perimeter, 'mm')}))"))
     print_table("Long horizontal legs: exact 2D meniscus (Vella, Lee & Kim 2006)", rows,
                 [*r.warnings, *r.cautions])
     return 0
@@ -73,13 +83,13 @@ def _run_flexible(args, liq) -> int:
     if getattr(args, "spacing", None) is not None:
         raise input_error("spacing", "is not supported with the flexible-leg model (legs far apart)", args.spacing)
     r = flexible_leg(args.radius, args.length, args.contact_angle, youngs_modulus=args.youngs_modulus,
-                     material=args.material, clamp_angle=args.clamp_angle, toe_angle=args.toe_angle,
+                     material=args.material, clamp_angle=args.clamp_angle or "0 deg", toe_angle=args.toe_angle,
                      material_density=args.material_density, liquid=liq, count=args.count)
     notes = list(r.warnings)
     if args.receding_angle is not None:
         notes.append("receding angle is not used by the flexible-leg model")
     if args.json:
-        d = r.to_dict()
+        d = element_json(r, args, INPUTS)
         d["warnings"] = notes
         print_json(d)
         return 0
@@ -117,7 +127,7 @@ def _run_parallel(args, liq) -> int:
     r = parallel_rods(args.radius, args.length, args.contact_angle, args.count, args.spacing,
                       liquid=liq, material_density=args.material_density)
     if args.json:
-        print_json(r.to_dict())
+        print_json(element_json(r, args, INPUTS))
         return 0
     rows = [
         ("liquid", f"{liq.name} at {liq.T - 273.15:.1f} °C, σ = {liq.sigma * 1e3:.2f} mN/m, l_c = {liq.lc * 1e3:.3f} mm"),

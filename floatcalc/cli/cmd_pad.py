@@ -29,5 +29,5 @@ def run(args) -> int:
                     f"advancing angle {r.contact_angle.magnitude:.1f}°"),
             ("stages (contact line)", ""), *stages,
             *limit_rows(r, [("stage at limit", r.stage_at_max)])]
-    rows[-1] = ("Bond number", f"{r.bond_number:.3g}  (L = pad radius)")
+    rows[-2] = ("Bond number", f"{r.bond_number:.3g}  (L = pad radius)")
     return output(args, r, "Flat pad: axisymmetric meniscus with edge pinning (Gibbs' inequality)", rows)

@@ -33,5 +33,5 @@ def run(args) -> int:
                 ("enclosed depressed liquid", f"{d['enclosed_liquid_force_N'] * 1e3:.4g} mN (weight carried by the inner line)"),
                 ("limit per wire length", f"{d['max_force_per_length_N_per_m'] * 1e3:.4g} mN/m"),
             ])]
-    rows[-1] = ("Bond number", f"{r.bond_number:.3g}  (L = wire radius)")
+    rows[-2] = ("Bond number", f"{r.bond_number:.3g}  (L = ring wire radius)")
     return output(args, r, "Ring footpad: outer and enclosed axisymmetric menisci", rows)

@@ -29,7 +29,7 @@ def register(sub) -> None:
     add_liquid_args(p)
     p.add_argument("--output", default=None, help="write the table to FILE.csv (unit-bearing headers) or FILE.json")
     p.add_argument("--save", default=None, help="write the plot to FILE.png, .svg or .pdf")
-    p.add_argument("--plot-output", default=None, help="output to plot (default margin: payload minus design payload)")
+    p.add_argument("--plot-output", default=None, help="output to plot (default spare_payload: max payload minus the design payload)")
     add_exec_args(p)
     add_json_flag(p)
     p.set_defaults(func=run)

@@ -35,12 +35,25 @@ class ParallelRodsResult(Result):
     isolated_per_leg_max_force: Any = qfield("N")
     depth_at_max: Any = qfield("m")
     mid_gap_depth_at_max: Any = qfield("m")
+    surface_tension_part: Any = qfield("N")
+    pressure_part: Any = qfield("N")
+    contact_perimeter: Any = qfield("m")
+    bond_number: float = field(default=0.0)
+    bond_length: Any = qfield("m")
+    baudoin_number: float = field(default=0.0)
     own_weight: Any = qfield("N")
     payload: Any = qfield("N")
     payload_mass: Any = qfield("kg")
+    liquid: Liquid | None = field(default=None, json=False)
     warnings: tuple[str, ...] = field(default=())
     cautions: tuple[str, ...] = field(default=())
     references: tuple[str, ...] = field(default=REFERENCES)
+
+    def to_dict(self) -> dict[str, Any]:
+        d = super().to_dict()
+        if self.liquid is not None:
+            d["liquid"] = self.liquid.summary()
+        return d
 
 
 def parallel_rods(radius: Any, length: Any, contact_angle: Any, count: int, spacing: Any, *,
@@ -103,7 +116,18 @@ def parallel_rods(radius: Any, length: Any, contact_angle: Any, count: int, spac
     if material_density is None:
         warnings.append("material density not given: steel 7850 kg/m³ assumed for own weight")
     hm = lim["h_mid"]
+    # vertical surface-tension part: σ sin ψ on each side (2 outer sides, 2(N − 1) inner sides)
+    psi_o = lim["phi_outer"] + th - math.pi
+    psi_i = lim["phi_inner"] + th - math.pi
+    st_len = 2.0 * math.sin(psi_o) + (2.0 * (n - 1) * math.sin(psi_i) if n > 1 else 0.0)
+    st_part = st_len * s * L
+    perimeter = n * (2.0 * L + 4.0 * R * math.sin(lim["phi_outer"]))
+    from ..dimensionless import baudoin
+
     return ParallelRodsResult(
+        surface_tension_part=Q_(st_part, "N"), pressure_part=Q_(total - st_part, "N"),
+        contact_perimeter=Q_(perimeter, "m"), bond_number=(R / lc) ** 2, bond_length=Q_(R, "m"),
+        baudoin_number=baudoin(weight, s, perimeter), liquid=liq,
         radius=Q_(R, "m"), length=Q_(L, "m"), count=n, spacing=Q_(S, "m"),
         contact_angle=Q_(math.degrees(th), "deg"),
         max_force=Q_(total, "N"), per_leg_max_force=Q_(total / n, "N"),

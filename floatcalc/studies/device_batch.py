@@ -17,7 +17,7 @@ samples of a block:
 
 Inputs and outputs are those of the scalar model (``contact_angle_shift``, ``surface_tension``,
 ``radius_factor``, ``length_factor``, ``body_mass``, ``payload_mass`` → ``max_payload``,
-``payload_mass``, ``margin``, ``weight``), and so are the numbers (tests/test_device_batch.py
+``payload_mass``, ``spare_payload``, ``weight``), and so are the numbers (tests/test_device_batch.py
 compares the two on random perturbations).
 
 Samples for which the batch cannot vouch for the scalar answer are handed to the scalar
@@ -45,18 +45,14 @@ INPUTS = ("contact_angle_shift", "surface_tension", "radius_factor", "length_fac
 
 def batchable(design) -> bool:
     """True if every element of ``design`` is of a kind the batch builds (:data:`BATCH_KINDS`)."""
-    return all(p["kind"] in BATCH_KINDS for p in design.legs)
+    return all(p["kind"] in BATCH_KINDS for p in design.elements)
 
 
 def _effective_angle(theta, coating):
-    """:func:`floatcalc.device.elements.effective_angle` on arrays."""
-    tex = coating.get("texture", "none")
-    c = np.cos(theta)
-    if tex == "wenzel":
-        c = coating["roughness"] * c
-    elif tex == "cassie":
-        c = coating["solid_fraction"] * (c + 1.0) - 1.0
-    return np.arccos(np.clip(c, -1.0, 1.0))
+    """The one texture model (:func:`floatcalc.elements.effective_angle`) on arrays."""
+    from ..elements import effective_angle
+
+    return effective_angle(theta, coating)
 
 
 def _rows_interp(xq, X, tables, n_valid):
@@ -89,7 +85,7 @@ def _rod_tables(R, th, L, nseg, points):
     Rc, tc = R[:, None], th[:, None]
     f_st, f_p, D = rod2d.force_parts(phi, Rc, tc)
     seg = (L / nseg)[:, None]
-    ends = 2.0 * finite_rod.end_length(Rc * np.sin(phi)) * f_st
+    ends = 2.0 * finite_rod.end_force(phi, Rc, f_st)
     F_mid = (f_st + f_p) * seg
     F_end = F_mid + 0.5 * ends
     hd = 2.0 * np.sin(0.5 * (phi + tc - np.pi))
@@ -175,7 +171,7 @@ def layout(design) -> _Layout:
     from ..device.geometry import convex_hull
 
     keys, types, et = {}, [], []
-    for p in design.legs:
+    for p in design.elements:
         c = p["coating"]
         key = (p["radius"], p["length"], c["advancing"], c.get("texture", "none"), c.get("roughness"),
                c.get("solid_fraction"), p["segments"])
@@ -183,7 +179,7 @@ def layout(design) -> _Layout:
             keys[key] = len(types)
             types.append((p["radius"], p["length"], c["advancing"], dict(c), p["segments"]))
         et.append(keys[key])
-    legs = design.legs
+    legs = design.elements
     arr = lambda f: np.array([f(p) for p in legs], dtype=float)  # noqa: E731
     owner, seg, row = [], [], []
     for e, p in enumerate(legs):
@@ -262,7 +258,7 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
     lc = np.sqrt(sigma / (liq.rho * g))
     fs = sigma * lc
     rf, lf = x["radius_factor"], x["length_factor"]
-    E = len(design.legs)
+    E = len(design.elements)
     tab_rows = []  # one per rod type; each gives two table rows (middle and end segments)
     for t, (R0, L0, adv, coat, nseg) in enumerate(lay.types):
         th = _effective_angle(np.minimum(np.maximum(adv + x["contact_angle_shift"], 0.0), math.pi), coat)
@@ -336,7 +332,7 @@ class DeviceBatchFunc:
         shape = arrays[0].shape
         flat = {k: np.ascontiguousarray(a).ravel() for k, a in zip(INPUTS, arrays)}
         S = flat[INPUTS[0]].size
-        out = {k: np.empty(S) for k in ("max_payload", "payload_mass", "margin", "weight")}
+        out = {k: np.empty(S) for k in ("max_payload", "payload_mass", "spare_payload", "weight")}
         lay = layout(self.design)
         for a in range(0, S, self.block):
             part = {k: v[a:a + self.block] for k, v in flat.items()}
@@ -353,7 +349,7 @@ class DeviceBatchFunc:
         P, _, ok = capacity_at_centre(bs, W, xg, yg)
         ok &= clear
         Pn = P * fs
-        res = {"max_payload": Pn, "payload_mass": Pn / g, "margin": Pn - x["payload_mass"] * g, "weight": weight}
+        res = {"max_payload": Pn, "payload_mass": Pn / g, "spare_payload": Pn - x["payload_mass"] * g, "weight": weight}
         if not ok.all():
             from .device_model import _DeviceFunc
 

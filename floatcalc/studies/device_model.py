@@ -12,7 +12,7 @@ because a study needs only the capacity). Inputs, applied to every element at on
 * ``radius_factor``, ``length_factor`` – multiply each element's radius / length (tolerances);
 * ``body_mass`` [kg] and ``payload_mass`` [kg] (the design payload, placed at the centre of mass).
 
-Outputs: ``max_payload`` [N], its mass ``payload_mass`` [kg], ``margin`` = max_payload −
+Outputs: ``max_payload`` [N], its mass ``payload_mass`` [kg], ``spare_payload`` = max_payload −
 payload weight [N] (negative: sinks), and total ``weight`` [N] of body and legs.
 
 For designs whose elements are all straight rods the model is vectorised
@@ -42,7 +42,7 @@ DEVICE_INPUTS = {
 DEVICE_OUTPUTS = {
     "max_payload": Quantity("force", "mN", "largest payload at the centre of mass"),
     "payload_mass": Quantity("mass", "g", "largest payload as a mass"),
-    "margin": Quantity("force", "mN", "largest payload minus the design payload weight"),
+    "spare_payload": Quantity("force", "mN", "largest payload minus the design payload weight"),
     "weight": Quantity("force", "mN", "weight of body and legs"),
 }
 
@@ -53,12 +53,11 @@ class _DeviceFunc:
 
     def __call__(self, x: dict[str, float]) -> dict[str, float]:
         from ..core import equilibrium as eq
-        from ..device.design import Design
         from ..device.solve import Device
 
         d = self.design
         legs = []
-        for p in d.legs:
+        for p in d.elements:
             q = dict(p)
             if isinstance(p.get("coating"), dict):
                 c = dict(p["coating"])
@@ -74,13 +73,13 @@ class _DeviceFunc:
             legs.append(q)
         liq = d.liquid if x["surface_tension"] == d.liquid.sigma else replace(d.liquid, sigma=x["surface_tension"])
         body = {**d.body, "mass": x["body_mass"]}
-        dev = Device.from_design(Design(data=d.data, liquid=liq, body=body, legs=tuple(legs)))
+        dev = Device.from_design(replace(d, liquid=liq, body=body, elements=tuple(legs)))
         lc, fs, g = liq.lc, liq.sigma * liq.lc, liq.g
         sup = dev.support()
         xg, yg = dev.centre_of_mass
         P, _, _, _ = eq.capacity(sup, dev.weight / fs, xg / lc, yg / lc, xg / lc, yg / lc)
         Pn = P * fs
-        return {"max_payload": Pn, "payload_mass": Pn / g, "margin": Pn - x["payload_mass"] * g,
+        return {"max_payload": Pn, "payload_mass": Pn / g, "spare_payload": Pn - x["payload_mass"] * g,
                 "weight": dev.weight}
 
 
@@ -91,9 +90,9 @@ def device_model(design: Any) -> Model:
     >>> sorted(m.inputs)[:3]
     ['body_mass', 'contact_angle_shift', 'length_factor']
     """
-    from ..device import design as dd
+    from .. import design as dd
 
-    if isinstance(design, str) and design in [e["name"] for e in dd.list_examples()]:
+    if isinstance(design, str) and design in dd.example_names():
         design = dd.example(design)
     elif not isinstance(design, dd.Design):
         design = dd.load_design(design)
@@ -106,7 +105,7 @@ def device_model(design: Any) -> Model:
     label = design.description.split(",")[0][:70] or "design"
     fast = batchable(design)
     return Model(name=f"device: {label}", func=DeviceBatchFunc(design) if fast else _DeviceFunc(design),
-                 inputs=DEVICE_INPUTS, outputs=DEVICE_OUTPUTS, base=base, vectorised=fast, limit_output="margin",
+                 inputs=DEVICE_INPUTS, outputs=DEVICE_OUTPUTS, base=base, vectorised=fast, limit_output="spare_payload",
                  validity=_NominalWarnings(design), references=REFERENCES, cautions=design.liquid.cautions)
 
 

@@ -2,7 +2,7 @@
 
 Each point calls :func:`floatcalc.ball` or :func:`floatcalc.pad` (axisymmetric Young–Laplace
 meniscus, :mod:`floatcalc.round`) and reads its limit: ``max_force`` [N], ``own_weight`` [N],
-``payload`` = max_force − own_weight [N], ``payload_mass`` [kg], ``margin`` = payload − weight of
+``payload`` = max_force − own_weight [N], ``payload_mass`` [kg], ``spare_payload`` = payload − weight of
 the design ``payload_mass`` [N] and ``depth_at_max`` [m]. Inputs: ``radius`` [m], ``thickness``
 [m] (pads), ``contact_angle`` [rad], ``surface_tension`` [N/m], ``material_density`` [kg/m³],
 ``payload_mass`` [kg]. Scalar (``vectorised=False``): a fraction of a second per point.
@@ -36,7 +36,7 @@ OUTPUTS = {
     "own_weight": Quantity("force", "mN", "weight of the element"),
     "payload": Quantity("force", "mN", "limit force minus own weight"),
     "payload_mass": Quantity("mass", "g", "payload as a mass"),
-    "margin": Quantity("force", "mN", "payload minus the weight of payload_mass"),
+    "spare_payload": Quantity("force", "mN", "payload minus the weight of payload_mass"),
     "depth_at_max": Quantity("length", "mm", "depth of the lowest point at the limit"),
 }
 
@@ -57,7 +57,7 @@ class _ElementFunc:
                         material_density=x["material_density"])
         F, W = r.max_force.to("N").magnitude, r.own_weight.to("N").magnitude
         return {"max_force": F, "own_weight": W, "payload": F - W, "payload_mass": (F - W) / liq.g,
-                "margin": F - W - x["payload_mass"] * liq.g, "depth_at_max": r.depth_at_max.to("m").magnitude}
+                "spare_payload": F - W - x["payload_mass"] * liq.g, "depth_at_max": r.depth_at_max.to("m").magnitude}
 
 
 def element_model(kind: str, liquid: Liquid | None = None, **base: float) -> Model:
@@ -78,4 +78,4 @@ def element_model(kind: str, liquid: Liquid | None = None, **base: float) -> Mod
     from ..round import REFERENCES
 
     return Model(name=kind, func=_ElementFunc(kind, liq), inputs=inputs, outputs=OUTPUTS, base=b,
-                 vectorised=False, limit_output="margin", references=tuple(REFERENCES), cautions=liq.cautions)
+                 vectorised=False, limit_output="spare_payload", references=tuple(REFERENCES), cautions=liq.cautions)

@@ -62,7 +62,7 @@ class Model:
     outputs: dict[str, Quantity]
     base: dict[str, float]
     vectorised: bool = True
-    limit_output: str = "margin"
+    limit_output: str = "spare_payload"
     validity: Callable[[dict[str, Any]], list[str]] | None = None
     references: tuple[str, ...] = ()
     cautions: tuple[str, ...] = ()
@@ -157,7 +157,7 @@ ROD_OUTPUTS = {
     "own_weight": Quantity("force", "mN", "weight of the legs"),
     "payload": Quantity("force", "mN", "limit force minus own weight"),
     "payload_mass": Quantity("mass", "g", "payload as a mass"),
-    "margin": Quantity("force", "mN", "payload minus the weight of payload_mass"),
+    "spare_payload": Quantity("force", "mN", "payload minus the weight of payload_mass"),
     "safety_factor": Quantity("ratio", "", "limit force / (own weight + payload weight)"),
     "support_mass": Quantity("mass", "g", "mass of the legs"),
     "depth_at_max": Quantity("length", "mm", "depth of the lowest point at the limit"),
@@ -169,20 +169,22 @@ ROD_REFERENCES = (
 
 
 def _rod_eval(x: dict[str, np.ndarray], g: float) -> dict[str, np.ndarray]:
-    from ..core import rod2d
+    from ..core import finite_rod
 
     R, L, th, n = x["radius"], x["length"], x["contact_angle"], x["count"]
     sigma, rho_l, rho_s = x["surface_tension"], x["liquid_density"], x["material_density"]
     lc = np.sqrt(sigma / (rho_l * g))
-    lim = rod2d.limit_force(R / lc, th)
-    F = n * L * sigma * lim["force"]
+    # the one rod law with its bounded ends, as floatcalc.rod and a rod in a device
+    phi = finite_rod.limit_many(R / lc, th, L / lc)
+    f2d, f_end, depth = finite_rod.force_parts(phi, R / lc, th, L / lc)
+    F = n * sigma * lc * (f2d + f_end)
     W = n * rho_s * math.pi * R**2 * L * g
     load = W + x["payload_mass"] * g
     payload = F - W
     return {
         "max_force": F, "own_weight": W, "payload": payload, "payload_mass": payload / g,
-        "margin": payload - x["payload_mass"] * g, "safety_factor": F / load,
-        "support_mass": W / g, "depth_at_max": lim["depth"] * lc,
+        "spare_payload": payload - x["payload_mass"] * g, "safety_factor": F / load,
+        "support_mass": W / g, "depth_at_max": depth * lc,
     }
 
 
@@ -206,12 +208,26 @@ class _RodValidity:
         shape = np.broadcast_shapes(*(np.shape(a) for a in x.values()))
         short = np.broadcast_to(x["length"] < 20.0 * lc, shape)
         if np.any(short):
-            out.append(f"{int(np.count_nonzero(short))} of {short.size} design(s) have legs shorter than 20 capillary "
-                       "lengths: end effects (meniscus round the leg ends) are not included")
+            n_short, n_all = int(np.count_nonzero(short)), short.size
+            out.append(f"{n_short} of {n_all} {'design has' if n_all == 1 else 'designs have'} legs shorter than 20 "
+                       "capillary lengths: their ends are bounded by σ × the contact line across each end face "
+                       "(floatcalc.core.finite_rod)")
         if np.any(x["count"] > 1):
             out.append(f"legs are treated as far apart (several capillary lengths, ≳ {4e3 * float(np.min(lc)):.2g} mm): "
                        "no shared meniscus")
         return out
+
+
+def _si(name: str, value: Any, q: "Quantity") -> float:
+    """A base value in SI: a quantity, an SI number or text with a unit (one-line InputError)."""
+    from ..units import KINDS, to_si
+
+    if q.kind in KINDS:
+        return float(to_si(value, q.kind, name))
+    try:
+        return float(value)
+    except (TypeError, ValueError):
+        raise input_error(name, "must be a plain number", repr(value)) from None
 
 
 def rod_model(liquid: Liquid | None = None, **base: Any) -> Model:
@@ -232,7 +248,7 @@ def rod_model(liquid: Liquid | None = None, **base: Any) -> Model:
 
     >>> m = rod_model(count=4.0)
     >>> round(float(m.evaluate({})["max_force"]) * 1e3, 2)  # four invented 40 mm legs
-    25.53
+    25.73
     """
     liq = water() if liquid is None else liquid
     b = {"radius": 2e-4, "length": 0.04, "contact_angle": math.radians(150.0), "count": 1.0,
@@ -241,9 +257,9 @@ def rod_model(liquid: Liquid | None = None, **base: Any) -> Model:
     for k, v in base.items():
         if k not in ROD_INPUTS:
             raise input_error("input", f"unknown rod input; known: {', '.join(ROD_INPUTS)}", repr(k))
-        b[k] = float(v)
+        b[k] = _si(k, v, ROD_INPUTS[k])
     return Model(name="rod", func=_RodFunc(liq.g), inputs=ROD_INPUTS, outputs=ROD_OUTPUTS, base=b,
-                 vectorised=True, limit_output="margin", validity=_RodValidity(liq.g),
+                 vectorised=True, limit_output="spare_payload", validity=_RodValidity(liq.g),
                  references=ROD_REFERENCES, cautions=liq.cautions)
 
 

@@ -5,7 +5,7 @@ the other inputs held at their base values. Vectorised models get the whole grid
 of :data:`CHUNK_POINTS`) as arrays; others are called point by point, in chunks that any
 executor can run (:mod:`floatcalc.studies.executors`), with identical results.
 
-The *limit* of a design is where its ``limit_output`` (for rods the ``margin``: payload minus
+The *limit* of a design is where its ``limit_output`` (for rods the ``spare_payload``: payload minus
 the weight of the carried mass) crosses zero. A 1D sweep reports the crossings, found by
 linear interpolation between grid points (so good to the grid spacing; refine the range to
 narrow them); a 2D sweep's plot marks the zero contour.

@@ -4,7 +4,7 @@ Inputs of a study model (see :mod:`floatcalc.studies.models`) are drawn from sta
 distributions: normal, uniform, or a uniform tolerance band about a nominal value. A
 contaminated surface is modelled as a mixture: with probability p the surface tension is
 lowered by a uniformly distributed amount. Each sample is one design; the model gives its
-``margin`` (payload minus the weight of the design payload) and its payload capacity.
+``spare_payload`` (payload minus the weight of the design payload) and its payload capacity.
 
 Reproducibility: the run is cut into chunks of fixed size (:data:`CHUNK`, or
 :data:`CHUNK_SLOW` for point-by-point models), chunk i draws from
@@ -14,7 +14,7 @@ a fixed order, so the samples, and therefore every figure, are identical whichev
 
 Estimates and their convergence:
 
-* probability of sinking :math:`\\hat p = k/N` (margin < 0) with binomial standard error
+* probability of sinking :math:`\\hat p = k/N` (spare payload < 0) with binomial standard error
   :math:`\\sqrt{\\hat p(1-\\hat p)/N}`; when no sample sinks, the one-sided 95 % upper bound
   3/N ("rule of three", Hanley & Lippman-Hand 1983) is given instead;
 * percentiles of the payload capacity (:func:`numpy.percentile`, linear interpolation) with
@@ -224,7 +224,7 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     Parameters
     ----------
     model : Model
-        Its ``limit_output`` (for rods ``margin`` [N]) < 0 means the sample sinks; its
+        Its ``limit_output`` (for rods ``spare_payload`` [N]) < 0 means the sample sinks; its
         ``capacity_output`` (for rods ``payload_mass`` [kg]) is summarised by percentiles.
     distributions : dict
         Input name -> :class:`Distribution` (SI). Inputs not named stay at ``values`` or the
@@ -272,13 +272,13 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     parts = run_chunks(_chunk, tasks, executor=kind if kind != "dask" else "auto", scheduler=scheduler,
                        workers=workers, large=large, progress=progress, label="uncertainty")
     cap = np.concatenate([p[0] for p in parts])
-    margin = np.concatenate([p[1] for p in parts])
+    spare = np.concatenate([p[1] for p in parts])
     clipped = sum(p[2] for p in parts)
-    if not (np.all(np.isfinite(cap)) and np.all(np.isfinite(margin))):
+    if not (np.all(np.isfinite(cap)) and np.all(np.isfinite(spare))):
         from ..errors import ConvergenceError
 
         raise ConvergenceError(f"model '{model.name}' returned non-finite values for some samples")
-    k = int(np.count_nonzero(margin < 0))
+    k = int(np.count_nonzero(spare < 0))
     p = k / N
     se = math.sqrt(p * (1 - p) / N)
     pct = np.asarray(percentiles, dtype=float)
