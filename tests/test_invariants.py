@@ -217,13 +217,13 @@ def test_mirrored_design_file_mirrors_the_solution():
 
     data = tomllib.loads(example_text("twin_rod"))
     data["body"]["centre_of_mass"] = ["2 mm", "1 mm"]
-    data["legs"][0]["radius"] = "0.3 mm"  # break the port/starboard symmetry
+    data["elements"][0]["radius"] = "0.3 mm"  # break the port/starboard symmetry
     mirror = tomllib.loads(example_text("twin_rod"))
     mirror["body"]["centre_of_mass"] = ["2 mm", "-1 mm"]
-    mirror["legs"] = [dict(mirror["legs"][1]), dict(mirror["legs"][0])]  # listed the other way round
-    for leg in mirror["legs"]:
+    mirror["elements"] = [dict(mirror["elements"][1]), dict(mirror["elements"][0])]  # listed the other way round
+    for leg in mirror["elements"]:
         leg["position"] = [leg["position"][0], "4 mm" if leg["position"][1] == "-4 mm" else "-4 mm"]
-    mirror["legs"][1]["radius"] = "0.3 mm"
+    mirror["elements"][1]["radius"] = "0.3 mm"
     r1 = fc.solve_device(design_from_data(data)).to_dict()
     r2 = fc.solve_device(design_from_data(mirror)).to_dict()
     q1, q2 = r1["equilibrium"], r2["equilibrium"]

@@ -26,7 +26,13 @@ def register(sub) -> None:
     w = s.add_parser("show", help="print a built-in example's design file (to start your own from)")
     w.add_argument("name")
     w.set_defaults(func=show)
-    p.set_defaults(func=lambda args: (p.print_help(), 2)[1])
+    p.set_defaults(func=_no_action)
+
+
+def _no_action(args) -> int:
+    from ..errors import input_error
+
+    raise input_error("design", "give an action: upgrade, check, examples or show (see 'floatcalc design --help')")
 
 
 def upgrade(args) -> int:

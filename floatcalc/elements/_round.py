@@ -65,8 +65,10 @@ class RoundKind(ElementKind):
         Fst = c.surface_tension.to("N").magnitude
         d_lim = self.limit_depth(p, res, D)
         keep = D < d_lim
-        f_lim = float(np.interp(d_lim, D, F))
-        st_lim = float(np.interp(d_lim, D, Fst))
+        # the table ends at the element's own limit, with the refined limit force of its result
+        # (one answer: the element alone in a device carries exactly its public max_force)
+        f_lim = float(res.max_force.to("N").magnitude)
+        st_lim = float(res.surface_tension_part.to("N").magnitude)
         D = np.append(D[keep], d_lim)
         F = np.append(F[keep], f_lim)
         Fst = np.append(Fst[keep], st_lim)
