@@ -176,7 +176,7 @@ class ElementState(Result):
     utilisation: float = field(default=0.0)
     limit_force: Any = qfield("N")
     limit_depth: Any = qfield("m")
-    depth_margin: Any = qfield("m")
+    depth_to_limit: Any = qfield("m")
     own_weight: Any = qfield("N")
     contact_perimeter: Any = qfield("m")
     broken: bool = field(default=False)
@@ -382,7 +382,7 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
             force=Q_(Fe[i] * fs, "N"), depth=Q_(dmax, "m"),
             share=float(Fe[i] / max(F.sum(), 1e-300)),
             utilisation=float(Fe[i] * fs / flim) if flim > 0 else 0.0, limit_force=Q_(flim, "N"),
-            limit_depth=Q_(m.limit_depth, "m"), depth_margin=Q_(dm, "m"),
+            limit_depth=Q_(m.limit_depth, "m"), depth_to_limit=Q_(dm, "m"),
             own_weight=Q_(m.own_weight, "N"), contact_perimeter=Q_(m.perimeter, "m"),
             broken=i in broken_now, breakthrough_order=k,
             breakthrough_payload=None if lvl is None or lvl > sinking + 1e-12 else Q_(lvl * fs, "N"),
