@@ -79,9 +79,55 @@ def registry():
     return ureg
 
 
-def Q_(value: Any, unit: str):
-    """Make a quantity of ``value`` in ``unit`` with the package registry."""
+def Q_(value: Any, unit: Any):
+    """Make a quantity of ``value`` in ``unit`` with the package registry.
+
+    A text ``unit`` must be a unit expression of the value grammar below (``"mm"``,
+    ``"kg/m^3"``, ``"N*m/rad"``); it is checked name by name, never evaluated, so a unit read
+    from a file (a CSV header, say) cannot make pint compute anything. Anything else (a pint
+    unit) is passed on as it is.
+
+    >>> Q_(250, "um").to("mm")
+    <Quantity(0.25, 'millimeter')>
+    """
+    if isinstance(unit, str):
+        unit = unit_text(unit)
     return registry().Quantity(value, unit)
+
+
+@functools.lru_cache(maxsize=512)
+def unit_text(unit: str, field: str = "unit") -> str:
+    """Check a unit expression of the value grammar and return it in registry names.
+
+    >>> unit_text("kg/m^3")
+    'kilogram ** 1 * meter ** -3'
+    >>> unit_text("9**9**9")
+    Traceback (most recent call last):
+    ...
+    floatcalc.errors.InputError: unit: must be a unit such as 'mm', 'kg/m^3' or 'mN/m', got '9**9**9'
+    """
+    s = unit.strip()
+    if not s or s in ("dimensionless", "1"):
+        return ""
+    problem = "must be a unit such as 'mm', 'kg/m^3' or 'mN/m'"
+    if len(s) > MAX_TEXT:
+        raise input_error(field, f"{problem} (at most {MAX_TEXT} characters)", f"a text of {len(s)} characters")
+    try:
+        factors = _scan_unit(s, 0)
+    except _Syntax as exc:
+        raise input_error(field, problem + (f"; {exc.detail}" if exc.detail else ""), repr(unit)) from None
+    units: dict[str, int] = {}
+    for name, power in factors:
+        reg_name = _unit_name(name)
+        if reg_name is None:
+            raise input_error(field, f"unknown unit '{name}'{_suggest(name)}", repr(unit))
+        units[reg_name] = units.get(reg_name, 0) + power
+    return _join_units(units)
+
+
+def _join_units(units: dict[str, int]) -> str:
+    """``{'meter': 2, 'second': -1}`` -> ``'meter ** 2 * second ** -1'`` (validated names only)."""
+    return " * ".join(f"{n} ** {p}" for n, p in units.items() if p != 0)
 
 
 def _is_quantity(value: Any) -> bool:
@@ -100,7 +146,8 @@ def _is_quantity(value: Any) -> bool:
 #   unit      ::= factor {joiner factor}                      (at most 6 factors)
 #   joiner    ::= [spaces] ("*" | "·" | "⋅") [spaces] | spaces | [spaces] "/" [spaces]
 #   factor    ::= name [power]
-#   power     ::= ("^" | "**") [sign] digit | ["⁻"] superscript-digit   (|power| 1 to 4)
+#   power     ::= [spaces] ("^" | "**") [spaces] [sign] digit | ["⁻"] superscript-digit
+#                                                              (|power| from 1 to 4)
 #   name      ::= letters (A-Z a-z _ µ μ Ω Å) | "°" | "°C" | "°F" | "℃" | "℉" | "%" | "‰"
 #
 # A factor after "/" is in the denominator; once a "/" is seen every further factor needs its
@@ -148,8 +195,9 @@ def _skip_spaces(s: str, i: int) -> int:
 
 def _scan_power(s: str, i: int) -> tuple[int, int]:
     """Read an optional power after a unit name at ``s[i]``; return (power, new index)."""
-    if s.startswith("**", i) or s.startswith("^", i):
-        j = i + (2 if s[i] == "*" else 1)
+    op = _skip_spaces(s, i)
+    if s.startswith("**", op) or s.startswith("^", op):
+        j = _skip_spaces(s, op + (2 if s[op] == "*" else 1))
         sign = 1
         if j < len(s) and s[j] in "+-\u2212":
             sign = -1 if s[j] != "+" else 1
@@ -174,7 +222,8 @@ def _scan_power(s: str, i: int) -> tuple[int, int]:
         return 1, i
     if len(digits) > 1 or not 1 <= int(digits) <= MAX_POWER:
         raise _Syntax(f"unit powers are whole numbers from -{MAX_POWER} to {MAX_POWER} (not 0)")
-    if k < len(s) and (s.startswith("**", k) or s[k] == "^" or s[k] in _SUPERSCRIPT or s[k].isdigit()):
+    after = _skip_spaces(s, k)
+    if k < len(s) and (s[k] in _SUPERSCRIPT or s[k].isdigit()) or s.startswith(("**", "^"), after):
         raise _Syntax("one power per unit name, no power towers")
     return sign * int(digits), k
 
@@ -291,9 +340,8 @@ def _parse_string(text: str, kind: str, field: str):
     if set(units) & _OFFSET_UNITS and (len(factors) != 1 or factors[0][1] != 1):
         raise input_error(field, f"degC and degF stand alone, with no power or other unit (e.g. '{example}')",
                           repr(text))
-    unit_text = " * ".join(f"{n} ** {p}" for n, p in units.items())  # validated names, small powers
-    try:
-        q = Q_(magnitude, unit_text)
+    try:  # the registry parses only validated names and small powers
+        q = registry().Quantity(magnitude, _join_units(units))
     except Exception:  # pint refuses a combination: still a one-line input error
         raise input_error(field, not_value, repr(text)) from None
     if hint and q.dimensionality != Q_(1, KINDS[kind][1]).dimensionality:
@@ -421,8 +469,8 @@ def to_si(value: Any, kind: str, field: str, *, array: bool = False) -> Any:
 
     Examples
     --------
-    >>> to_si("72 mN/m", "surface_tension", "sigma")
-    0.072
+    >>> to_si("1000 kg/m^3", "density", "rho")
+    1000.0
     >>> to_si("22 C", "temperature", "temperature")
     Traceback (most recent call last):
     ...
@@ -440,11 +488,11 @@ def to_si(value: Any, kind: str, field: str, *, array: bool = False) -> Any:
         if getattr(value, "_REGISTRY", None) is not registry():
             # A quantity from another registry: rebuilt here from its magnitude and unit names.
             mag = _real_array(value.magnitude, kind, field)
-            unit_text = _rebuild(value)
-            if unit_text is None:
+            names = _rebuild(value)
+            if names is None:
                 raise input_error(field, f"has a unit this package does not know (e.g. '{example}')",
                                   _show(str(value.units)))
-            value = Q_(mag, unit_text)
+            value = registry().Quantity(mag, names)
         mag = _convert(value, kind, field)
     else:
         mag = _real_array(value, kind, field)
@@ -495,7 +543,7 @@ def format_si(value: float, kind: str, unit: str | None = None, digits: int = 4)
         unit = KINDS[kind][1]
         mag = value
     else:
-        mag = Q_(value, KINDS[kind][1]).to(unit).magnitude
+        mag = Q_(value, KINDS[kind][1]).to(unit_text(unit)).magnitude
     if not math.isfinite(mag):
         return f"{mag} {unit}"
     return f"{mag:.{digits}g} {unit}"
