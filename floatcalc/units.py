@@ -510,7 +510,7 @@ _ANGLE_UNITS = {"degree", "radian", "arcminute", "arcsecond", "turn", "revolutio
 
 def _convert(q, kind: str, field: str):
     si_unit, example = KINDS[kind][1], KINDS[kind][2]
-    want = registry().Quantity(1, si_unit).dimensionality
+    want = Q_(1, si_unit).dimensionality
     names = {name for name, _ in q.unit_items()}
     angle_like = bool(names & _ANGLE_UNITS)
     if q.dimensionality != want or (kind == "angle" and names and not names <= _ANGLE_UNITS) or (
@@ -518,7 +518,7 @@ def _convert(q, kind: str, field: str):
     ):
         raise input_error(field, f"must be {_KIND_WORD[kind]} (e.g. '{example}')", _describe(q))
     try:
-        return q.to(si_unit).magnitude
+        return q.to(unit_text(si_unit)).magnitude
     except Exception:  # pint refuses the conversion (an offset unit in a product, ...)
         raise input_error(field, f"must be {_KIND_WORD[kind]} (e.g. '{example}')", _describe(q)) from None
 
