@@ -307,14 +307,16 @@ def _parse_string(text: str, kind: str, field: str):
         raise input_error(field, f"use a decimal point: {_decimal_point_hint(s, example)}", repr(text))
     number = m.group().replace("\u2212", "-")
     if len(number) > MAX_NUMBER:
-        raise input_error(field, f"the number may have at most {MAX_NUMBER} characters", repr(text))
+        raise input_error(field, f"the number may have at most {MAX_NUMBER} characters (e.g. '{example}')",
+                              repr(text))
     if exp_digits is not None and len(exp_digits) > MAX_EXPONENT_DIGITS:
         if exp_sign in ("-", "\u2212"):
-            raise input_error(field, f"the exponent may have at most {MAX_EXPONENT_DIGITS} digits", repr(text))
-        raise input_error(field, "must be a finite number", repr(text))
+            raise input_error(field, f"the exponent may have at most {MAX_EXPONENT_DIGITS} digits (e.g. '{example}')",
+                              repr(text))
+        raise input_error(field, f"must be a finite number (e.g. '{example}')", repr(text))
     magnitude = float(number)  # safe: ASCII digits, at most 32 characters
     if not math.isfinite(magnitude):
-        raise input_error(field, "must be a finite number", repr(text))
+        raise input_error(field, f"must be a finite number (e.g. '{example}')", repr(text))
     j = _skip_spaces(s, i)
     if j == len(s):
         factors: list[tuple[str, int]] = []
@@ -376,6 +378,8 @@ def _kind_hint(factors: list[tuple[str, int]], kind: str, number: str) -> str:
         return f"'C' is coulomb; for Celsius write {number} degC"
     if kind == "temperature" and name == "F":
         return f"'F' is farad; for Fahrenheit write {number} degF"
+    if kind == "temperature" and name in ("°", "º", "deg"):
+        return f"'{name}' alone is an angle; for Celsius write {number} degC"
     if kind == "salinity" and name in ("ppt", "psu", "PSU", "ppth"):
         return f"'{name}' is not read as parts per thousand; write {number} g/kg"
     return ""

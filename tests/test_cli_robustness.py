@@ -131,3 +131,24 @@ def test_print_json_escapes_what_json_dumps_leaves_raw(capsys):
 def test_one_line():
     assert one_line("a\nb\x85c") == "a\\nb\\x85c"
     assert one_line(12) == "12"
+
+
+def test_everything_a_command_prints_is_terminal_safe(monkeypatch, capsys):
+    # A command printing with plain print() (as the device table prints element names) still
+    # cannot emit raw control characters: main() guards stdout while a command runs.
+    import floatcalc.cli.cmd_liquid as cmd
+
+    def noisy(args):
+        print("leg \x1b[2J\x1b]0;owned\x07 \u202eevil\u2028x\r done\tok")
+        print("undecodable argv byte: \udcff")
+        return 0
+
+    monkeypatch.setattr(cmd, "run", noisy)
+    real = sys.stdout
+    code, out, err = run(capsys, "liquid")
+    assert sys.stdout is real
+    assert code == 0 and err == ""
+    for raw in ("\x1b", "\x07", "\u202e", "\u2028", "\r", "\udcff"):
+        assert raw not in out
+    assert out == ("leg \\x1b[2J\\x1b]0;owned\\x07 \\u202eevil\\u2028x\\r done\tok\n"
+                   "undecodable argv byte: \\udcff\n")

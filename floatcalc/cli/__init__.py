@@ -19,6 +19,7 @@ import warnings
 
 from ..errors import ConvergenceError, FloatcalcError, InputError
 from ._format import one_line as _one_line
+from ._format import terminal_safe_stdout
 
 
 def _command_modules():
@@ -91,7 +92,7 @@ def _run(argv: list[str] | None) -> int:
         parser.print_help()
         return EXIT_BAD_INPUT
     try:
-        with warnings.catch_warnings():
+        with warnings.catch_warnings(), terminal_safe_stdout():
             warnings.simplefilter("ignore")  # results carry their warnings; print those instead
             return int(args.func(args) or 0)
     except BrokenPipeError:

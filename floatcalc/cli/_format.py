@@ -2,10 +2,13 @@
 
 from __future__ import annotations
 
+import contextlib
 import json
 import math
+import re
 import sys
-from typing import Any, Iterable
+import unicodedata
+from typing import Any, Iterable, Iterator
 
 
 def _clean(obj: Any) -> Any:
@@ -33,6 +36,52 @@ def one_line(text: Any) -> str:
     'leg\\\\x1b[2J\\\\nnext'
     """
     return "".join(c if c.isprintable() else repr(c)[1:-1] for c in str(text))
+
+
+_PLAIN = re.compile(r"[\n\t\x20-\x7e]*")
+
+
+def _terminal_safe(text: str) -> str:
+    """``text`` with the characters that act on a terminal escaped: C0/C1 controls other than
+    newline and tab (ESC, CR, BEL, CSI ``\\x9b``), format characters such as bidi overrides,
+    line and paragraph separators, and lone surrogates (which could not even be encoded)."""
+    if _PLAIN.fullmatch(text):  # fast path: plain ASCII lines
+        return text
+    return "".join(
+        c if c in "\n\t" or unicodedata.category(c) not in ("Cc", "Cf", "Cs", "Zl", "Zp")
+        else repr(c)[1:-1] for c in text)
+
+
+class _SafeWriter:
+    """A stdout stand-in that passes text on through :func:`_terminal_safe`."""
+
+    def __init__(self, stream):
+        self._stream = stream
+
+    def write(self, text: str) -> int:
+        self._stream.write(_terminal_safe(text))
+        return len(text)
+
+    def writelines(self, lines) -> None:
+        for line in lines:
+            self.write(line)
+
+    def __getattr__(self, name):  # flush, fileno, isatty, encoding, ...
+        return getattr(self._stream, name)
+
+
+@contextlib.contextmanager
+def terminal_safe_stdout() -> Iterator[None]:
+    """While active, everything a command prints on stdout is passed through
+    :func:`_terminal_safe`, so text from a design file or the command line (element names,
+    descriptions, notes) cannot clear the screen or retitle the terminal, whichever module
+    prints it."""
+    real = sys.stdout
+    sys.stdout = _SafeWriter(real)
+    try:
+        yield
+    finally:
+        sys.stdout = real
 
 
 def _json_escape(text: str) -> str:
