@@ -91,8 +91,14 @@ def Q_(value: Any, unit: Any):
     <Quantity(0.25, 'millimeter')>
     """
     if isinstance(unit, str):
-        unit = unit_text(unit)
+        unit = _unit(unit)
     return registry().Quantity(value, unit)
+
+
+@functools.lru_cache(maxsize=512)
+def _unit(unit: str):
+    """The registry unit of a checked unit text (cached: internal code makes many quantities)."""
+    return registry().Unit(unit_text(unit))
 
 
 @functools.lru_cache(maxsize=512)
