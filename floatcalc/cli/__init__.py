@@ -3,18 +3,23 @@
 Each subcommand lives in its own module ``floatcalc/cli/cmd_<name>.py`` that defines
 ``register(subparsers)`` and an integer ``ORDER`` (its place in ``--help``). Modules are found
 by name, so adding a command touches no shared file. Every command accepts ``--json``.
-Bad input prints one line on stderr and exits with code 2.
+Bad input prints one line on stderr and exits with code 2; a solver that fails exits with 3.
+When the reader of the output goes away early (``floatcalc ... | head``) the command stops
+quietly with exit code 141 (128 + SIGPIPE, what a shell reports for ``seq 1000000 | head``).
 """
 
 from __future__ import annotations
 
 import argparse
 import importlib
+import os
 import pkgutil
 import sys
 import warnings
 
-from ..errors import FloatcalcError
+from ..errors import ConvergenceError, FloatcalcError, InputError
+from ._format import one_line as _one_line
+from ._format import terminal_safe_stdout
 
 
 def _command_modules():
@@ -25,6 +30,7 @@ def _command_modules():
 
 EXIT_BAD_INPUT = 2
 EXIT_SOLVER = 3
+EXIT_BROKEN_PIPE = 141  # 128 + SIGPIPE (13), as for any Unix tool whose reader went away
 
 
 class _Parser(argparse.ArgumentParser):
@@ -34,18 +40,15 @@ class _Parser(argparse.ArgumentParser):
         self.exit(EXIT_BAD_INPUT, f"floatcalc: error: {_one_line(message)} (see '{self.prog} --help')\n")
 
 
-def _one_line(text: str) -> str:
-    """Escape control and line-break characters (\\n, \\r, \\x85, \\u2028, ...) echoed from argv,
-    so that an error stays on one line."""
-    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in str(text))
-
-
 def build_parser() -> argparse.ArgumentParser:
     parser = _Parser(
         prog="floatcalc",
         description="Load that legs, pins, balls, pads and rings carry on a liquid surface "
         "by surface tension and meniscus pressure (static estimate, clean liquid).",
     )
+    from .. import __version__
+
+    parser.add_argument("--version", action="version", version=f"floatcalc {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     for mod in _command_modules():
         mod.register(sub)
@@ -73,30 +76,68 @@ def _join_negative_values(argv: list[str]) -> list[str]:
     return out
 
 
-def main(argv: list[str] | None = None) -> int:
-    """Entry point of the ``floatcalc`` console script; returns the exit code."""
+def _exit_code(exc: FloatcalcError) -> int:
+    """Exit code of a floatcalc error: 2 for bad input (every InputError), 3 for a solver."""
+    if isinstance(exc, InputError):
+        return EXIT_BAD_INPUT
+    if isinstance(exc, ConvergenceError):
+        return EXIT_SOLVER
+    return EXIT_BAD_INPUT if isinstance(exc, ValueError) else EXIT_SOLVER
+
+
+def _run(argv: list[str] | None) -> int:
     parser = build_parser()
     args = parser.parse_args(_join_negative_values(sys.argv[1:] if argv is None else list(argv)))
     if not getattr(args, "func", None):
         parser.print_help()
         return EXIT_BAD_INPUT
     try:
-        with warnings.catch_warnings():
+        with warnings.catch_warnings(), terminal_safe_stdout():
             warnings.simplefilter("ignore")  # results carry their warnings; print those instead
             return int(args.func(args) or 0)
+    except BrokenPipeError:
+        raise
     except FloatcalcError as exc:
-        code = EXIT_BAD_INPUT if isinstance(exc, ValueError) else EXIT_SOLVER
         # A design file with several problems reports them all, one line each (head line first);
         # every other error is a single line. Control characters echoed from input are escaped.
         for line in str(exc).split("\n"):
             print(f"floatcalc: error: {_one_line(line)}", file=sys.stderr)
-        return code
+        return _exit_code(exc)
     except (OSError, UnicodeDecodeError) as exc:
         print(f"floatcalc: error: {_one_line(exc)}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         print("floatcalc: interrupted", file=sys.stderr)
         return 130
+
+
+def _silence_stdout() -> None:
+    """Point stdout at /dev/null so that the flush at interpreter exit cannot fail again."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError, AttributeError):  # stdout without a file descriptor (tests)
+        pass
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Entry point of the ``floatcalc`` console script; returns the exit code.
+
+    Output is flushed before returning, so that a reader that has gone away (``| head``) is
+    noticed here and answered with :data:`EXIT_BROKEN_PIPE` and no message.
+    """
+    try:
+        try:
+            code = _run(argv)
+        except SystemExit:  # argparse after --help, --version or a usage error
+            sys.stdout.flush()
+            raise
+        sys.stdout.flush()
+        return code
+    except BrokenPipeError:
+        _silence_stdout()
+        return EXIT_BROKEN_PIPE
 
 
 if __name__ == "__main__":  # pragma: no cover
