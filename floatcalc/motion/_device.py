@@ -1,0 +1,192 @@
+"""The one place where :mod:`floatcalc.motion` reads a device: its quasi-static heave law.
+
+Everything the jump and stroke models need of a design goes through :func:`heave_law` (and,
+for a textured coating that floods, :func:`with_coating`, which rebuilds the design with another
+coating and hands it back to :func:`heave_law`). When the device model changes, only this
+module has to follow.
+
+Today the law is built from :class:`floatcalc.device.Device`: the device is held level and
+pushed down in heave; at each heave z the effective depths, forces and contact depths of every
+force point come from :func:`floatcalc.core.equilibrium.point_state` (neighbours' menisci
+superposed), and the total force is their sum. The law ends at the first heave at which any
+force point reaches its own limit depth (``Support.limit_depth``): the first element to break
+through. Forces there are in σ l_c and depths in l_c; they are scaled back to SI here (force
+scale σ l_c, length scale l_c, as in :func:`floatcalc.device.solve.solve_device`).
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any, NamedTuple
+
+import numpy as np
+
+#: Number of heave samples from first contact to the limit.
+LAW_POINTS = 401
+
+
+class HeaveLaw(NamedTuple):
+    """Quasi-static force–depth law of a level device (SI).
+
+    Attributes
+    ----------
+    depth : ndarray [m]
+        Heave (depth of the device's reference plane below the undisturbed surface), increasing,
+        from first contact to ``limit_depth``.
+    force : ndarray [N]
+        Total upward force of the liquid on all elements at each heave (rises with depth).
+    limit_depth : float [m]
+        Heave at which the first element reaches its limit depth (breaks through).
+    limit_force : float [N]
+        Total force at ``limit_depth``: the largest vertical force the device can take. It is
+        the smaller of the level device's limit and the static capacity with the load at the
+        centre of mass (weight plus the largest payload there, which lets the device tilt); when
+        the centre of mass is off the centre of support the second is smaller and the law is
+        cut there (``level_limit_force`` keeps the level value).
+    weight : float [N]
+        Weight of body and legs.
+    body_weight : float [N]
+        Weight of the body alone (without the elements).
+    liquid : Liquid
+    first_to_fail : str
+        Name of the element that reaches its limit first.
+    element_names : tuple of str
+    element_depths : ndarray [m]
+        Depth of each element's deepest point at the limit heave (for hydrostatic pressure).
+    element_sizes : ndarray [m]
+        Cross-section radius of each element (wire or foot radius; for the Weber number).
+    element_perimeters : ndarray [m]
+        Contact perimeter of each element at its limit.
+    element_angles : ndarray [rad]
+        Effective advancing contact angle of each element (after its texture model).
+    """
+
+    depth: np.ndarray
+    force: np.ndarray
+    limit_depth: float
+    limit_force: float
+    weight: float
+    body_weight: float
+    liquid: Any
+    first_to_fail: str
+    element_names: tuple
+    element_depths: np.ndarray
+    element_sizes: np.ndarray
+    element_perimeters: np.ndarray
+    element_angles: np.ndarray
+    level_limit_force: float
+
+
+def heave_law(design) -> HeaveLaw:
+    """Quasi-static total force against heave of a level device, up to the first breakthrough.
+
+    Parameters
+    ----------
+    design : Design or path of a design file
+
+    Returns
+    -------
+    HeaveLaw
+        ``depth`` [m], ``force`` [N], ``limit_depth`` [m], ``limit_force`` [N], ``weight`` [N]
+        and the per-element data listed in :class:`HeaveLaw`.
+
+    Examples
+    --------
+    >>> from floatcalc.device import example
+    >>> law = heave_law(example("skimmer"))
+    >>> bool(law.limit_force > law.weight), bool(np.all(np.diff(law.depth) > 0))
+    (True, True)
+    """
+    from scipy.optimize import brentq
+
+    from ..core.equilibrium import capacity, point_state
+    from ..device import Device
+    from ..device.elements import effective_angle
+
+    dev = Device.from_design(design)
+    liq = dev.liquid
+    lc, s = liq.lc, liq.sigma
+    fs = s * lc
+    sup = dev.support()
+    lim = sup.limit_depth
+
+    def margin(z):
+        _, e, _, _ = point_state(sup, z, 0.0, 0.0)
+        return float(np.max(e - lim))
+
+    # first contact: the shallowest heave at which a point reaches the start of its table
+    z0 = float(np.min(sup.depth[:, 0] - sup.offset))
+    hi = float(np.max(lim - sup.offset)) + 1.0
+    lo = z0
+    if margin(lo) >= 0.0:  # pragma: no cover - an element starts at its own limit
+        z_lim = lo
+    else:
+        while margin(hi) < 0.0:  # pragma: no cover - coupling pulls the surface down strongly
+            hi += 1.0
+        z_lim = brentq(margin, lo, hi, xtol=1e-12, rtol=1e-12)
+    z = np.linspace(z0, z_lim, LAW_POINTS)
+    F = np.array([point_state(sup, zz, 0.0, 0.0)[2].sum() for zz in z])
+    # The tables are piecewise linear; keep the law strictly monotone for inversion (a flat
+    # step, e.g. before the last points touch, is nudged by a relative 1e-12, far below any
+    # printed digit).
+    F = np.maximum.accumulate(F)
+    F = F + np.arange(len(F)) * 1e-12 * max(float(F[-1]), 1e-300)
+    level_limit = float(F[-1])
+    # Safe side: a push through an off-centre centre of mass tilts the device and an element
+    # gives way earlier; take the static capacity at the centre of mass if it is smaller.
+    W = dev.weight / fs
+    xg, yg = (c / lc for c in dev.centre_of_mass)
+    P, _, e_cap, j_cap = capacity(sup, W, xg, yg, xg, yg)
+    cap = W + P
+    if cap < F[-1]:
+        z_lim = float(np.interp(cap, F, z))
+        z = np.linspace(z0, z_lim, LAW_POINTS)
+        F = np.array([point_state(sup, zz, 0.0, 0.0)[2].sum() for zz in z])
+        F = np.maximum.accumulate(F)
+        F = F + np.arange(len(F)) * 1e-12 * max(float(F[-1]), 1e-300)
+    _, e_lim, _, _ = point_state(sup, z_lim, 0.0, 0.0)
+    j = int(np.argmax(e_lim - lim)) if cap >= level_limit else int(j_cap)
+    if cap < level_limit:
+        e_lim = e_cap  # depths of the tilted device at its capacity
+    n_el = len(dev.models)
+    el_depth = np.array([float(np.max(e_lim[sup.owner == i])) for i in range(n_el)]) * lc
+    sizes = np.array([float(p.get("radius", p.get("wire_radius", 0.0)) or 0.0) for p in dev.design.legs])
+    angles = np.array([effective_angle(p["coating"]["advancing"], p["coating"]) for p in dev.design.legs])
+    return HeaveLaw(
+        depth=z * lc, force=F * fs, limit_depth=float(z_lim * lc), limit_force=float(F[-1] * fs),
+        weight=float(dev.weight), body_weight=float(dev.design.body["mass"] * liq.g), liquid=liq,
+        first_to_fail=dev.names[int(sup.owner[j])], element_names=tuple(dev.names),
+        element_depths=el_depth, element_sizes=sizes,
+        element_perimeters=np.array([m.perimeter for m in dev.models]), element_angles=angles, level_limit_force=level_limit * fs,
+    )
+
+
+def coating_of(design, index: int) -> dict:
+    """The validated coating table (SI) of element ``index``."""
+    return dict(design.legs[index]["coating"])
+
+
+def with_coating(design, texture: str, value: float):
+    """The same design with every element's coating replaced by a texture model.
+
+    ``texture`` is ``"wenzel"`` (``value`` = roughness r) or ``"cassie"`` (``value`` = solid
+    fraction f); each element keeps its own advancing (and receding) angle as the intrinsic
+    angle of the coating material.
+    """
+    import copy
+
+    from ..device.design import design_from_data
+
+    data = copy.deepcopy(design.data)
+    key = "roughness" if texture == "wenzel" else "solid_fraction"
+    for leg in data["legs"]:
+        c = dict(leg["coating"])
+        c.pop("roughness", None)
+        c.pop("solid_fraction", None)
+        c["texture"] = texture
+        c[key] = float(min(max(value, 1.0), 10.0)) if texture == "wenzel" else float(min(max(value, 1e-6), 1.0))
+        leg["coating"] = c
+    return design_from_data(data, "design")
+
+
+_ = math
