@@ -159,7 +159,7 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
     >>> from floatcalc.device import example
     >>> r = jump(example("skimmer"), "40 ms")
     >>> r.breaks_surface, round(r.max_takeoff_speed.to("m/s").magnitude, 2)
-    (False, 0.8)
+    (False, 0.81)
     """
     from .. import _validate as v
     from ..units import to_si
