@@ -161,32 +161,35 @@ def heave_law(design) -> HeaveLaw:
     )
 
 
-def coating_of(design, index: int) -> dict:
-    """The validated coating table (SI) of element ``index``."""
-    return dict(design.legs[index]["coating"])
+def intrinsic_angles(design) -> np.ndarray:
+    """Advancing angle [rad] of each element's coating material, before any texture model."""
+    return np.array([float(p["coating"]["advancing"]) for p in design.legs])
 
 
-def with_coating(design, texture: str, value: float):
-    """The same design with every element's coating replaced by a texture model.
+def with_coating(design, models):
+    """The same design with each element's coating replaced by a texture model.
 
-    ``texture`` is ``"wenzel"`` (``value`` = roughness r) or ``"cassie"`` (``value`` = solid
-    fraction f); each element keeps its own advancing (and receding) angle as the intrinsic
-    angle of the coating material.
+    ``models`` holds one ``(texture, value)`` per element (or a single pair for all):
+    ``("wenzel", r)`` with roughness r, ``("cassie", f)`` with solid fraction f. Each element
+    keeps its own advancing (and receding) angle as the intrinsic angle of its coating
+    material. Roughness is capped at 10, the design-file limit (beyond, r cos θ is clipped to
+    complete (non-)wetting anyway for |cos θ| ≥ 0.1).
     """
     import copy
 
     from ..device.design import design_from_data
 
     data = copy.deepcopy(design.data)
-    key = "roughness" if texture == "wenzel" else "solid_fraction"
-    for leg in data["legs"]:
+    if isinstance(models, tuple) and len(models) == 2 and isinstance(models[0], str):
+        models = [models] * len(data["legs"])
+    for leg, (texture, value) in zip(data["legs"], models):
         c = dict(leg["coating"])
         c.pop("roughness", None)
         c.pop("solid_fraction", None)
         c["texture"] = texture
-        c[key] = float(min(max(value, 1.0), 10.0)) if texture == "wenzel" else float(min(max(value, 1e-6), 1.0))
+        if texture == "wenzel":
+            c["roughness"] = float(min(max(value, 1.0), 10.0))
+        elif texture == "cassie":
+            c["solid_fraction"] = float(min(max(value, 1e-6), 1.0))
         leg["coating"] = c
     return design_from_data(data, "design")
-
-
-_ = math

@@ -195,3 +195,45 @@ def coating_under_pressure(texture: dict, contact_angle: Any, liquid, depth: Any
 
 
 _ = np
+
+
+def textured_heave_law(design, texture: dict | None, speed: float):
+    """Heave law of a design whose elements all carry ``texture``, after the flooding check.
+
+    Each element's coating material keeps its advancing angle; dry, the texture gives the
+    Cassie–Baxter angle. The pressure under each element at the device's limit (its deepest
+    point's hydrostatic pressure, the largest it meets before breaking through) plus ½ρv² at
+    ``speed`` [m/s] is compared with the texture's Cassie-to-Wenzel pressure; flooded elements
+    fall back to the Wenzel angle and the law is rebuilt (safe side: flooding is taken to happen
+    before the limit is reached).
+
+    Returns
+    -------
+    law : HeaveLaw
+    states : list of CoatingState (one per element; empty without a texture)
+    notes : list of str
+    """
+    from ..core import wetting
+    from ._device import heave_law, intrinsic_angles, with_coating
+
+    if texture is None:
+        return heave_law(design), [], []
+    kind, a, p, h = texture["texture"], texture["post_size"], texture["pitch"], texture["post_height"]
+    f = wetting.solid_fraction(kind, a, p)
+    r = wetting.roughness(kind, a, p, h)
+    th = intrinsic_angles(design)
+    law = heave_law(with_coating(design, ("cassie", f)))
+    states = [coating_under_pressure(texture, float(t), law.liquid, depth=max(float(d), 0.0), speed=speed)
+              for t, d in zip(th, law.element_depths)]
+    flooded = [s.floods for s in states]
+    notes = []
+    if any(flooded):
+        law_w = heave_law(with_coating(design, [("wenzel", r) if fl else ("cassie", f) for fl in flooded]))
+        names = [n for n, fl in zip(law.element_names, flooded) if fl]
+        notes.append(
+            f"textured coating floods on {len(names)} element(s) ({', '.join(names[:4])}{'…' if len(names) > 4 else ''}): "
+            f"pressure {max(s.pressure.to('Pa').magnitude for s in states):.4g} Pa reaches the Cassie-to-Wenzel "
+            f"pressure {states[0].critical_pressure.to('Pa').magnitude:.4g} Pa; they fall back to the Wenzel angle "
+            f"and the limit force drops from {law.limit_force * 1e3:.4g} mN to {law_w.limit_force * 1e3:.4g} mN")
+        law = law_w
+    return law, states, notes
