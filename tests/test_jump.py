@@ -183,3 +183,16 @@ def test_cli_json_keys(capsys):
     assert d["jump_height_m"] == pytest.approx(0.2**2 / (2 * 9.80665))
     code = main(["jump", "--example", "twin_rod", "--push-time", "abc"])
     assert code == 2 and "push_time" in capsys.readouterr().err
+
+
+def test_textured_coating_checked_for_push_and_landing():
+    """A wide-pitch post texture (f = 1/225, depinning pressure ~ 58 Pa, by the closed form of
+    tests/test_wetting.py) holds the hydrostatic pressure at the limit depth (~ 40 Pa) but
+    floods on landing at the take-off speed (½ρv² ~ 65 Pa)."""
+    wide = {"texture": "posts", "post_size": 10e-6, "pitch": 150e-6, "post_height": 30e-6}
+    r = jump(example("twin_rod"), "50 ms", profile="half-sine", texture=wide)
+    assert [c.state for c in r.coating] == ["cassie", "cassie"]
+    assert r.floods_on_landing is True
+    assert any("landing" in w for w in r.warnings)
+    fine = {"texture": "posts", "post_size": 10e-6, "pitch": 40e-6, "post_height": 30e-6}
+    assert jump(example("twin_rod"), "50 ms", profile="half-sine", texture=fine).floods_on_landing is False

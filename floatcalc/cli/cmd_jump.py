@@ -19,6 +19,9 @@ def register(sub) -> None:
                    help="demanded push force between body and legs (peak of the profile), e.g. 30mN")
     p.add_argument("--profile", default="constant", choices=("constant", "half-sine"),
                    help="time course of the push (default constant)")
+    from .cmd_stroke import add_texture_args
+
+    add_texture_args(p)
     add_json_flag(p)
     p.set_defaults(func=run)
 
@@ -34,10 +37,12 @@ def _design(args):
 
 
 def run(args) -> int:
+    from ..motion.coating import texture_from_args
     from ..motion.jump import jump
 
+    tex = texture_from_args(args.texture, args.post_size, args.pitch, args.post_height)
     r = jump(_design(args), args.push_time, takeoff_speed=args.takeoff_speed, push_force=args.push_force,
-             profile=args.profile)
+             profile=args.profile, texture=tex)
     if args.json:
         print_json(r.to_dict())
         return 0
@@ -60,5 +65,10 @@ def run(args) -> int:
                                                     f"(jump height {d['jump_height_m'] * 1e3:.4g} mm)"))
         rows.append(("leg extension needed during the push", f"{d['leg_stroke_m'] * 1e3:.4g} mm"))
     rows.append(("capillary time √(l_c/g)", f"{d['capillary_time_s'] * 1e3:.3g} ms"))
+    for name, c in zip(r.coating_elements, r.coating):
+        rows.append((f"coating, {name}", f"{c.state} ({c.pressure.to('Pa').magnitude:.4g} Pa against "
+                                         f"{c.critical_pressure.to('Pa').magnitude:.4g} Pa)"))
+    if r.floods_on_landing is not None:
+        rows.append(("coating floods on landing", "YES" if r.floods_on_landing else "no"))
     print_table("Jump off the surface (quasi-static meniscus)", rows, [*r.warnings, *r.cautions])
     return 0

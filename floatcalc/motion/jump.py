@@ -50,6 +50,7 @@ References
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass
 from typing import Any
@@ -97,6 +98,9 @@ class JumpResult(MotionResult):
     leg_weber_number: float | None = field(default=None)
     capillary_time: Any = qfield("s")
     leg_wave_time: Any = qfield("s")
+    coating: tuple = field(default=())
+    coating_elements: tuple = field(default=())
+    floods_on_landing: bool | None = field(default=None)
     time: Any = field(default=None, json=False)
     meniscus_force: Any = field(default=None, json=False)
     leg_depth: Any = field(default=None, json=False)
@@ -129,7 +133,7 @@ def max_takeoff_speed(limit_force: float, mass: float, push_time: float, profile
 
 
 def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force: Any | None = None,
-         profile: str = "constant") -> JumpResult:
+         profile: str = "constant", texture: dict | None = None) -> JumpResult:
     """Take-off of a device pushing off the liquid surface in ``push_time``.
 
     Parameters
@@ -144,6 +148,11 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
         the half-sine). Give at most one of ``takeoff_speed`` and ``push_force``; with neither,
         the largest push that keeps the surface whole is used.
     profile : ``"constant"`` or ``"half-sine"``
+    texture : dict, optional
+        Texture of every element's coating (keys of :mod:`floatcalc.motion.coating`). The
+        pressure under each element at its limit depth plus ½ρU² at the largest leg speed of
+        the push is checked against its Cassie-to-Wenzel pressure (flooded elements take the
+        Wenzel angle), and again for the landing at the take-off speed (``floods_on_landing``).
 
     Returns
     -------
@@ -162,8 +171,7 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
     (False, 0.81)
     """
     from .. import _validate as v
-    from ..units import to_si
-    from ._device import heave_law
+    from .coating import textured_heave_law
     from ._inputs import duration
 
     T = duration(push_time, "push_time")
@@ -171,7 +179,33 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
         raise input_error("profile", f"must be one of {', '.join(PROFILES)}", repr(profile))
     if takeoff_speed is not None and push_force is not None:
         raise input_error("push", "give a take-off speed or a push force, not both", "both")
-    law = heave_law(design)
+    law, states, notes = textured_heave_law(design, texture, 0.0)
+    r = _on_law(law, T, profile, takeoff_speed, push_force, v)
+    if texture is not None and r["u_leg"] is not None and r["u_leg"] > 0:
+        law2, states2, notes2 = textured_heave_law(design, texture, r["u_leg"])
+        if law2.limit_force != law.limit_force:
+            law, states, notes = law2, states2, notes2
+            r = _on_law(law, T, profile, takeoff_speed, push_force, v)
+    landing = None
+    if texture is not None:
+        v_land = r["v_take"] if r["v_take"] is not None else r["v_max"]
+        _, st_land, _ = textured_heave_law(design, texture, v_land)
+        landing = any(st.floods for st in st_land)
+        if landing and not any(st.floods for st in states):
+            notes.append(f"landing at {v_land:.3g} m/s (the take-off speed, no drag) floods the textured coating: "
+                         "afterwards the elements keep the Wenzel angle and carry less")
+    if texture is not None and profile == "constant":
+        notes.append("constant push: the legs' speed at the start is not defined (a step); the coating check of the "
+                     "push uses the hydrostatic pressure only")
+    res = r["result"]
+    return dataclasses.replace(res, coating=tuple(states), coating_elements=tuple(law.element_names) if states else (),
+                               floods_on_landing=landing, warnings=tuple(notes) + res.warnings)
+
+
+def _on_law(law, T, profile, takeoff_speed, push_force, v):
+    """The jump on a given heave law (see :func:`jump`)."""
+    from ..units import to_si
+
     liq = law.liquid
     g = liq.g
     W, Wb = law.weight, law.body_weight
@@ -257,7 +291,7 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
                         f"{law.level_limit_force * 1e3:.4g} mN level)")
     warnings.append("jump height is v²/(2g) of the centre of mass with air drag neglected")
     v_take = None if breaks else v_off
-    return JumpResult(
+    res = JumpResult(
         profile=profile, push_time=Q_(T, "s"),
         max_takeoff_speed=Q_(v_max, "m/s"), max_jump_height=Q_(v_max**2 / (2 * g), "m"),
         takeoff_speed=None if v_take is None else Q_(v_take, "m/s"),
@@ -272,3 +306,4 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
         time=t, meniscus_force=F, leg_depth=z, body_speed=v_b,
         warnings=tuple(warnings), cautions=tuple(liq.cautions),
     )
+    return {"result": res, "u_leg": u_leg, "v_take": v_take, "v_max": v_max}
