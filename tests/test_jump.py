@@ -196,3 +196,15 @@ def test_textured_coating_checked_for_push_and_landing():
     assert any("landing" in w for w in r.warnings)
     fine = {"texture": "posts", "post_size": 10e-6, "pitch": 40e-6, "post_height": 30e-6}
     assert jump(example("twin_rod"), "50 ms", profile="half-sine", texture=fine).floods_on_landing is False
+
+
+def test_device_too_heavy_to_float_cannot_jump():
+    heavy = design_from_data({
+        "schema_version": 1, "liquid": {"name": "water"},
+        "body": {"mass": "5 g", "centre_of_mass": ["0 mm", "0 mm"]},
+        "legs": [{"kind": "rod", "position": ["0 mm", y], "radius": "0.15 mm", "length": "20 mm",
+                  "material": "steel", "coating": {"advancing": "115 deg"}} for y in ("5 mm", "-5 mm")],
+    })
+    r = jump(heavy, "30 ms")
+    assert r.breaks_surface and r.takeoff_speed is None and r.max_takeoff_speed.magnitude == 0.0
+    assert any("cannot carry its own weight" in w for w in r.warnings)

@@ -230,15 +230,17 @@ def _on_law(law, T, profile, takeoff_speed, push_force, v):
         P_pk = P_max
 
     warnings: list[str] = []
-    if Flim <= W:
-        warnings.append("the device cannot carry its own weight: no jump is possible")
-        P_pk = min(P_pk, max(P_max, Wb))
+    sinks = Flim <= W
+    if sinks:
+        warnings.append(f"the device cannot carry its own weight ({W * 1e3:.4g} mN against a limit of "
+                        f"{Flim * 1e3:.4g} mN): it breaks through at rest, no jump is possible")
+        P_pk = Wb
 
     t = np.linspace(0.0, T, TIME_POINTS)
     P = Wb + (P_pk - Wb) * shape(profile, t, T)
     F = P + Wl  # liquid force on the (quasi-static) elements
     peak = float(F.max())
-    breaks = bool(peak > Flim * (1.0 + _HOLD_RTOL))
+    breaks = bool(peak > Flim * (1.0 + _HOLD_RTOL)) or sinks
     # depth of the elements from the force–depth law (held at the limit depth once past it)
     z = np.interp(np.minimum(F, Flim), law.force, law.depth)
     # body speed while the elements stand in the surface, then the device's momentum
@@ -254,7 +256,9 @@ def _on_law(law, T, profile, takeoff_speed, push_force, v):
         u_leg = float(np.max(np.abs(np.gradient(z, t))))
 
     t_break = None
-    if breaks:
+    if sinks:
+        t_break = 0.0
+    elif breaks:
         k = int(np.argmax(F > Flim * (1.0 + _HOLD_RTOL)))
         if k > 0:  # linear interpolation of the crossing
             t_break = float(t[k - 1] + (Flim - F[k - 1]) / (F[k] - F[k - 1]) * (t[k] - t[k - 1]))
