@@ -127,7 +127,7 @@ def test_two_body_integration_with_solve_ivp():
         return float(np.interp(z, LAW.depth, LAW.force, left=0.0, right=LAW.limit_force))
 
     def rhs(t, y):
-        yb, vb, z, w = y
+        _, vb, z, w = y
         P = Wb + (Ppk - Wb) * math.sin(math.pi * t / T)
         return [vb, (P - Wb) / mb, w, (P + Wl - Fz(z) - c * w) / ml]
 
@@ -135,7 +135,7 @@ def test_two_body_integration_with_solve_ivp():
                     dense_output=True)
     tt = np.linspace(0, T, 801)
     Fpeak = max(Fz(z) for z in sol.sol(tt)[2])
-    yb, vb, z, w = sol.y[:, -1]
+    yb, vb, _, w = sol.y[:, -1]
     v_off = (mb * vb - ml * w) / (mb + ml)
     v_model = r.takeoff_speed.to("m/s").magnitude
     rebound = ml * r.max_leg_speed.to("m/s").magnitude / (mb + ml)

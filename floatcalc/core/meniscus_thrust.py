@@ -21,12 +21,12 @@ The largest thrust at vertical load u = f_z maximises f_x on the set
 ψ_L, ψ_R ∈ [θ − π, θ] with f_z = u. Its stationary points satisfy sin(ψ_L + ψ_R) = 0 (Lagrange):
 ψ_L + ψ_R = 0 gives f_x = 0, ψ_L + ψ_R = π the symmetric optimum
 
-.. math:: h = \sqrt{1-u^2}\qquad(\psi_R = \arcsin u,\ \psi_L = \pi - \psi_R \le \theta),
+.. math:: h = \\sqrt{1-u^2}\\qquad(\\psi_R = \\arcsin u,\\ \\psi_L = \\pi - \\psi_R \\le \\theta),
 
 which needs u ≥ sin θ on a leg with θ > 90°. Otherwise the optimum lies on the boundary, one side
 at θ or at θ − π and the other from the constraint; for θ > 90° and u < sin θ it is
 
-.. math:: h = \tfrac12\bigl(\sqrt{1-(2u-\sin\theta)^2} - \cos\theta\bigr)\qquad(\psi_L = \theta).
+.. math:: h = \\tfrac12\\bigl(\\sqrt{1-(2u-\\sin\\theta)^2} - \\cos\\theta\\bigr)\\qquad(\\psi_L = \\theta).
 
 :func:`max_thrust` evaluates the symmetric point and every boundary candidate (both arcsine
 branches) and keeps the largest feasible one; where none is feasible the leg cannot carry u

@@ -13,7 +13,7 @@ The device enters only through :func:`floatcalc.motion._device.heave_law`.
 
 from __future__ import annotations
 
-__all__ = ["jump", "stroke", "coating_under_pressure"]
+__all__ = ["coating_under_pressure", "jump", "stroke"]
 
 
 def __getattr__(name):

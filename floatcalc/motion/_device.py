@@ -16,7 +16,6 @@ scale σ l_c, length scale l_c, as in :func:`floatcalc.device.solve.solve_device
 
 from __future__ import annotations
 
-import math
 from typing import Any, NamedTuple
 
 import numpy as np
@@ -52,7 +51,8 @@ class HeaveLaw(NamedTuple):
         Name of the element that reaches its limit first.
     element_names : tuple of str
     element_depths : ndarray [m]
-        Depth of each element's deepest point at the limit heave (for hydrostatic pressure).
+        Depth of each element's deepest point below the undisturbed surface at the limit (for
+        the hydrostatic pressure there).
     element_sizes : ndarray [m]
         Cross-section radius of each element (wire or foot radius; for the Weber number).
     element_perimeters : ndarray [m]
@@ -103,7 +103,7 @@ def heave_law(design) -> HeaveLaw:
     from ..device import Device
     from ..device.elements import effective_angle
 
-    dev = Device.from_design(design)
+    dev = Device.from_design(as_design(design))
     liq = dev.liquid
     lc, s = liq.lc, liq.sigma
     fs = s * lc
@@ -136,7 +136,7 @@ def heave_law(design) -> HeaveLaw:
     # gives way earlier; take the static capacity at the centre of mass if it is smaller.
     W = dev.weight / fs
     xg, yg = (c / lc for c in dev.centre_of_mass)
-    P, _, e_cap, j_cap = capacity(sup, W, xg, yg, xg, yg)
+    P, u_cap, _, j_cap = capacity(sup, W, xg, yg, xg, yg)
     cap = W + P
     if cap < F[-1]:
         z_lim = float(np.interp(cap, F, z))
@@ -144,12 +144,14 @@ def heave_law(design) -> HeaveLaw:
         F = np.array([point_state(sup, zz, 0.0, 0.0)[2].sum() for zz in z])
         F = np.maximum.accumulate(F)
         F = F + np.arange(len(F)) * 1e-12 * max(float(F[-1]), 1e-300)
-    _, e_lim, _, _ = point_state(sup, z_lim, 0.0, 0.0)
+    d_lim, e_lim, _, _ = point_state(sup, z_lim, 0.0, 0.0)
     j = int(np.argmax(e_lim - lim)) if cap >= level_limit else int(j_cap)
     if cap < level_limit:
-        e_lim = e_cap  # depths of the tilted device at its capacity
+        d_lim = point_state(sup, *u_cap)[0]  # the tilted device at its capacity
     n_el = len(dev.models)
-    el_depth = np.array([float(np.max(e_lim[sup.owner == i])) for i in range(n_el)]) * lc
+    # depth below the undisturbed surface (not the effective depth below the neighbours'
+    # depressed surface): it sets the hydrostatic pressure at the element's lowest point
+    el_depth = np.array([float(np.max(d_lim[sup.owner == i])) for i in range(n_el)]) * lc
     sizes = np.array([float(p.get("radius", p.get("wire_radius", 0.0)) or 0.0) for p in dev.design.legs])
     angles = np.array([effective_angle(p["coating"]["advancing"], p["coating"]) for p in dev.design.legs])
     return HeaveLaw(
@@ -157,13 +159,21 @@ def heave_law(design) -> HeaveLaw:
         weight=float(dev.weight), body_weight=float(dev.design.body["mass"] * liq.g), liquid=liq,
         first_to_fail=dev.names[int(sup.owner[j])], element_names=tuple(dev.names),
         element_depths=el_depth, element_sizes=sizes,
-        element_perimeters=np.array([m.perimeter for m in dev.models]), element_angles=angles, level_limit_force=level_limit * fs,
+        element_perimeters=np.array([m.perimeter for m in dev.models]), element_angles=angles,
+        level_limit_force=level_limit * fs,
     )
+
+
+def as_design(design):
+    """A :class:`~floatcalc.device.Design` from a design or the path of a design file."""
+    from ..device import Design, load_design
+
+    return design if isinstance(design, Design) else load_design(design)
 
 
 def intrinsic_angles(design) -> np.ndarray:
     """Advancing angle [rad] of each element's coating material, before any texture model."""
-    return np.array([float(p["coating"]["advancing"]) for p in design.legs])
+    return np.array([float(p["coating"]["advancing"]) for p in as_design(design).legs])
 
 
 def with_coating(design, models):
@@ -179,7 +189,7 @@ def with_coating(design, models):
 
     from ..device.design import design_from_data
 
-    data = copy.deepcopy(design.data)
+    data = copy.deepcopy(as_design(design).data)
     if isinstance(models, tuple) and len(models) == 2 and isinstance(models[0], str):
         models = [models] * len(data["legs"])
     for leg, (texture, value) in zip(data["legs"], models):

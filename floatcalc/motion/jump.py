@@ -59,8 +59,8 @@ import numpy as np
 
 from ..errors import input_error
 from ..results import field, qfield
-from ._result import MotionResult
 from ..units import Q_
+from ._result import MotionResult
 
 REFERENCES = (
     "Koh et al., Science 349, 517 (2015): leg force below the surface-tension limit throughout the push",
@@ -171,8 +171,8 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
     (False, 0.81)
     """
     from .. import _validate as v
-    from .coating import textured_heave_law
     from ._inputs import duration
+    from .coating import textured_heave_law
 
     T = duration(push_time, "push_time")
     if profile not in PROFILES:

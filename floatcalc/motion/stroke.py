@@ -144,7 +144,7 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
 
     law0 = heave_law(design)
     liq = law0.liquid
-    g, s, rho = liq.g, liq.sigma, liq.rho
+    g, s = liq.g, liq.sigma
     m = law0.weight / g
     if leg_speed is None:
         U = Fx * T / m
@@ -154,7 +154,10 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
         if U < 0:
             raise input_error("leg_speed", "must be zero or positive", f"{U:g} m/s")
         source = "given"
-    law, states, notes = textured_heave_law(design, texture, U)
+    if texture is None:
+        law, states, notes = law0, [], []
+    else:
+        law, states, notes = textured_heave_law(design, texture, U)
     W, Flim = law.weight, law.limit_force
     Fz = W + Fe
     P = float(np.sum(law.element_perimeters))
