@@ -126,3 +126,16 @@ def test_cli_json(capsys):
         assert k in d
     code = main(["stroke", "--example", "twin_rod", "--stroke-time", "40ms", "--thrust", "3mN", "--texture", "posts"])
     assert code == 2 and "post_size" in capsys.readouterr().err
+
+
+def test_device_thrust_is_the_sum_of_element_capacities():
+    # twin rod: two equal rods share the weight equally, so each carries W/2 on a contact line
+    # P_i = 2L + 2πR; the device's bound is twice one rod's σP_i h(W/(2σP_i), θ).
+    r = stroke(TWIN, "50 ms", "1 mN")
+    caps = r.element_max_thrust.to("N").magnitude
+    assert caps.sum() == pytest.approx(r.max_thrust.to("N").magnitude, rel=1e-12)
+    assert caps[0] == pytest.approx(caps[1], rel=1e-9)
+    liq = TWIN.liquid
+    sP = liq.sigma * (2 * 0.06 + 2 * math.pi * 0.25e-3)
+    W = r.weight.to("N").magnitude
+    assert caps[0] == pytest.approx(sP * max_thrust(0.5 * W / sP, math.radians(115)), rel=1e-3)

@@ -59,6 +59,9 @@ class HeaveLaw(NamedTuple):
         Contact perimeter of each element at its limit.
     element_angles : ndarray [rad]
         Effective advancing contact angle of each element (after its texture model).
+    element_force : ndarray (elements, samples) [N]
+        Force of each element at each heave of ``depth`` (level device); the columns sum to
+        ``force`` (before the monotone nudge).
     """
 
     depth: np.ndarray
@@ -75,6 +78,7 @@ class HeaveLaw(NamedTuple):
     element_perimeters: np.ndarray
     element_angles: np.ndarray
     level_limit_force: float
+    element_force: np.ndarray
 
 
 def heave_law(design) -> HeaveLaw:
@@ -126,6 +130,11 @@ def heave_law(design) -> HeaveLaw:
         z_lim = brentq(margin, lo, hi, xtol=1e-12, rtol=1e-12)
     z = np.linspace(z0, z_lim, LAW_POINTS)
     F = np.array([point_state(sup, zz, 0.0, 0.0)[2].sum() for zz in z])
+    n_el = len(dev.models)
+
+    def per_element(zs):
+        return np.array([np.bincount(sup.owner, weights=point_state(sup, zz, 0.0, 0.0)[2], minlength=n_el)
+                         for zz in zs]).T
     # The tables are piecewise linear; keep the law strictly monotone for inversion (a flat
     # step, e.g. before the last points touch, is nudged by a relative 1e-12, far below any
     # printed digit).
@@ -148,7 +157,7 @@ def heave_law(design) -> HeaveLaw:
     j = int(np.argmax(e_lim - lim)) if cap >= level_limit else int(j_cap)
     if cap < level_limit:
         d_lim = point_state(sup, *u_cap)[0]  # the tilted device at its capacity
-    n_el = len(dev.models)
+    Fe = per_element(z)
     # depth below the undisturbed surface (not the effective depth below the neighbours'
     # depressed surface): it sets the hydrostatic pressure at the element's lowest point
     el_depth = np.array([float(np.max(d_lim[sup.owner == i])) for i in range(n_el)]) * lc
@@ -160,7 +169,7 @@ def heave_law(design) -> HeaveLaw:
         first_to_fail=dev.names[int(sup.owner[j])], element_names=tuple(dev.names),
         element_depths=el_depth, element_sizes=sizes,
         element_perimeters=np.array([m.perimeter for m in dev.models]), element_angles=angles,
-        level_limit_force=level_limit * fs,
+        level_limit_force=level_limit * fs, element_force=Fe * fs,
     )
 
 

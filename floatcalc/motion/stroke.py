@@ -4,21 +4,23 @@ Model
 -----
 During a stroke of duration T the legs push on the liquid with a horizontal force F_x (the
 thrust) while carrying the weight W plus an extra vertical force F_e (for example the reaction
-of a leg swung down). Both are taken as constant over the stroke and shared by all elements in
-proportion to their capacity (the device's quasi-static heave law, from
-:func:`floatcalc.motion._device.heave_law`). Two conditions keep every element on the surface:
+of a leg swung down), both constant over the stroke (quasi-static). The vertical load is shared
+as the level device shares it: element i carries F_i, its force at the heave where the device's
+quasi-static heave law (:func:`floatcalc.motion._device.heave_law`) gives F_z = W + F_e. Two
+conditions keep every element on the surface:
 
-1. vertical: F_z = W + F_e ≤ F_lim, the heave law's limit (first element at its limit depth);
-2. resultant: the surface-tension force on a contact line of total length P is at most σ P in
+1. vertical: F_z ≤ F_lim, the heave law's limit (first element at its limit depth);
+2. resultant: the surface-tension force on a contact line of length P_i is at most σ P_i in
    any direction (the contact-line bound; Hu, Chan & Bush [1]_ give σP as the maximum curvature
-   force of a strider), and on a leg of advancing angle θ the interface on each side cannot
-   turn past θ. For thin legs this gives the largest thrust
+   force of a strider), and on a leg of advancing angle θ_i the interface on each side cannot
+   turn past θ_i. For thin legs this gives each element's largest thrust, and the device's is
+   their sum (the legs share the thrust as their capacities allow):
 
-   .. math:: F_{x,\\max} = \\sigma P\\; h\\!\\left(\\frac{F_z}{\\sigma P},\\ \\theta\\right)
+   .. math:: F_{x,\max} = \sum_i \sigma P_i\; h\!\left(\frac{F_i}{\sigma P_i},\ \theta_i\right)
 
-   with h from :func:`floatcalc.core.meniscus_thrust.max_thrust` (θ: the smallest effective
-   advancing angle of the elements). The whole vertical load is charged to surface tension (the
-   pressure part would leave more of σP for thrust), so the bound is on the safe side.
+   with h from :func:`floatcalc.core.meniscus_thrust.max_thrust`. The whole vertical load of an
+   element is charged to surface tension (its pressure part would leave more of σP_i for
+   thrust), so the bound is on the safe side.
 
 The thrust is passed on to the liquid as momentum (vortices shed by the legs [1]_, waves above
 c_min [2]_); the device gains F_x T / m of speed per stroke (drag neglected).
@@ -89,6 +91,8 @@ class StrokeResult(MotionResult):
     capillary_time: Any = qfield("s")
     coating: tuple = field(default=())
     coating_elements: tuple = field(default=())
+    element_names: tuple = field(default=())
+    element_max_thrust: Any = qfield("N", default=None)
     warnings: tuple[str, ...] = field(default=())
     cautions: tuple[str, ...] = field(default=())
     references: tuple[str, ...] = field(default=REFERENCES)
@@ -162,9 +166,18 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
     Fz = W + Fe
     P = float(np.sum(law.element_perimeters))
     sP = s * P
-    th = float(np.min(law.element_angles))
-    h_dem = float(meniscus_thrust.max_thrust(Fz / sP, th)) * sP if Fz <= Flim else 0.0
-    h_rest = float(meniscus_thrust.max_thrust(W / sP, th)) * sP if W <= Flim else 0.0
+    sP_i = s * law.element_perimeters
+
+    def capacities(Fv):
+        """Thrust capacity of each element [N] when the level device carries Fv [N]."""
+        if Fv > Flim * (1 + 1e-9):
+            return np.zeros(len(sP_i))
+        F_i = np.array([np.interp(Fv, law.force, row) for row in law.element_force])
+        return meniscus_thrust.max_thrust(F_i / sP_i, law.element_angles) * sP_i
+
+    caps = capacities(Fz)
+    h_dem = float(caps.sum())
+    h_rest = float(capacities(W).sum())
     if Fz > Flim * (1 + 1e-9):
         breaks_by = "vertical"
     elif Fx > h_dem * (1 + 1e-9):
@@ -178,9 +191,9 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
     elif breaks_by == "thrust":
         warnings.append(f"the thrust {Fx * 1e3:.4g} mN exceeds what the menisci can pass on at this vertical load "
                         f"({h_dem * 1e3:.4g} mN): the legs break through")
-    if Fz > sP:
-        warnings.append("the vertical load exceeds σ × contact line: the pressure part carries the rest, and no thrust "
-                        "capacity is credited to it (safe side)")
+    if breaks_by != "vertical" and np.any(caps == 0.0):
+        warnings.append("on some elements the vertical load exceeds σ × their contact line (the pressure part carries "
+                        "the rest): no thrust capacity is credited to them (safe side)")
     R = float(np.max(law.element_sizes)) if len(law.element_sizes) else 0.0
     if R > 0.3 * liq.lc:
         warnings.append(f"leg radius {R * 1e3:.3g} mm is not small against l_c = {liq.lc * 1e3:.3g} mm: the thin-leg "
@@ -196,8 +209,8 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
     if law.limit_force < law.level_limit_force * (1 - 1e-6):
         warnings.append("the centre of mass is off the centre of support: the limit is the capacity at the centre of "
                         "mass, not the level device's")
-    warnings.append("thrust shared by all elements in proportion to their capacity; if only some legs row, "
-                    "give a design of those legs")
+    warnings.append("thrust shared by all elements as their capacities allow; if only some legs row, give a "
+                    "design of those legs")
     return StrokeResult(
         stroke_time=Q_(T, "s"), thrust=Q_(Fx, "N"), extra_vertical=Q_(Fe, "N"), vertical_force=Q_(Fz, "N"),
         breaks_surface=bool(breaks_by), breaks_by=breaks_by,
@@ -208,5 +221,6 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
         weber_number=float(we), min_wave_speed=Q_(c_min, "m/s"), above_min_wave_speed=bool(U > c_min),
         capillary_time=Q_(t_cap, "s"), coating=tuple(states),
         coating_elements=tuple(law.element_names) if states else (),
+        element_names=tuple(law.element_names), element_max_thrust=Q_(caps, "N"),
         warnings=tuple(warnings), cautions=tuple(liq.cautions),
     )
