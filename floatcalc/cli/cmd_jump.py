@@ -11,7 +11,9 @@ def register(sub) -> None:
     p = sub.add_parser("jump", help="jump off the surface: largest take-off speed in a push time, does a push "
                        "break through")
     p.add_argument("file", nargs="?", default=None, help="design file (TOML, see README 'Design files')")
-    p.add_argument("--example", default=None, help="a built-in example design instead of a file")
+    p.add_argument("--example", default=None,
+                   help="a built-in example design instead of a file (device examples, or 'strider': an invented "
+                        "10 mg strider-like walker)")
     p.add_argument("--push-time", required=True, help="duration of the push, e.g. 20ms")
     g = p.add_mutually_exclusive_group()
     g.add_argument("--takeoff-speed", default=None, help="demanded take-off speed, e.g. 0.5m/s")
@@ -27,13 +29,21 @@ def register(sub) -> None:
 
 
 def _design(args):
-    from ..device import example, load_design
+    """The design of a file, a device example, or an invented motion example (data/motion_*.toml)."""
+    from pathlib import Path
+
+    from ..device import example, list_examples, load_design
     from ..errors import input_error
 
     if (args.file is None) == (args.example is None):
         raise input_error("design", "give a design file or --example NAME (see 'floatcalc device --list-examples')",
                           "both" if args.file else "neither")
-    return example(args.example) if args.example else load_design(args.file)
+    if args.file:
+        return load_design(args.file)
+    motion = Path(__file__).resolve().parent.parent / "data" / f"motion_{args.example}.toml"
+    if args.example not in [e["name"] for e in list_examples()] and args.example.isidentifier() and motion.is_file():
+        return load_design(motion)
+    return example(args.example)
 
 
 def run(args) -> int:

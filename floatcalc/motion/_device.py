@@ -37,11 +37,9 @@ class HeaveLaw(NamedTuple):
     limit_depth : float [m]
         Heave at which the first element reaches its limit depth (breaks through).
     limit_force : float [N]
-        Total force at ``limit_depth``: the largest vertical force the device can take. It is
-        the smaller of the level device's limit and the static capacity with the load at the
-        centre of mass (weight plus the largest payload there, which lets the device tilt); when
-        the centre of mass is off the centre of support the second is smaller and the law is
-        cut there (``level_limit_force`` keeps the level value).
+        Total force at ``limit_depth``: the largest vertical force the device can take, the
+        smallest of the level device's limit, the static capacity with the load at the centre of
+        mass (which lets the device tilt) and the contact-line bound; the law is cut there.
     weight : float [N]
         Weight of body and legs.
     body_weight : float [N]
@@ -59,6 +57,13 @@ class HeaveLaw(NamedTuple):
         Contact perimeter of each element at its limit.
     element_angles : ndarray [rad]
         Effective advancing contact angle of each element (after its texture model).
+    level_limit_force : float [N]
+        Limit of the level device (first element at its limit depth), before the caps below.
+    capacity_at_centre_of_mass : float [N]
+        Weight plus the largest payload at the centre of mass (static, the device may tilt).
+    contact_line_bound : float [N]
+        PHYSICS.md bound at the level limit: Σ σ P_i + ρ g D_i A_i (contact line P_i, deepest
+        depth D_i, plan area A_i of each element). ``limit_force`` never exceeds it.
     element_force : ndarray (elements, samples) [N]
         Force of each element at each heave of ``depth`` (level device); the columns sum to
         ``force`` (before the monotone nudge).
@@ -79,6 +84,8 @@ class HeaveLaw(NamedTuple):
     element_angles: np.ndarray
     level_limit_force: float
     element_force: np.ndarray
+    capacity_at_centre_of_mass: float
+    contact_line_bound: float
 
 
 def heave_law(design) -> HeaveLaw:
@@ -141,22 +148,43 @@ def heave_law(design) -> HeaveLaw:
     F = np.maximum.accumulate(F)
     F = F + np.arange(len(F)) * 1e-12 * max(float(F[-1]), 1e-300)
     level_limit = float(F[-1])
-    # Safe side: a push through an off-centre centre of mass tilts the device and an element
+    # Safe side (1): a push through an off-centre centre of mass tilts the device and an element
     # gives way earlier; take the static capacity at the centre of mass if it is smaller.
     W = dev.weight / fs
     xg, yg = (c / lc for c in dev.centre_of_mass)
     P, u_cap, _, j_cap = capacity(sup, W, xg, yg, xg, yg)
     cap = W + P
-    if cap < F[-1]:
-        z_lim = float(np.interp(cap, F, z))
+    # Safe side (2): the contact-line bound (PHYSICS.md): surface tension at most σ × contact
+    # line, pressure at most ρ g × deepest depth × plan area, element by element.
+    perim = np.array([m.perimeter for m in dev.models]) / lc
+    area = np.array([_polygon_area(m.footprint) for m in dev.models]) / lc**2
+
+    def bound_at(zz, d=None):
+        d = point_state(sup, zz, 0.0, 0.0)[0] if d is None else d
+        deep = np.array([float(np.max(d[sup.owner == i])) for i in range(n_el)])
+        return float(np.sum(perim) + np.sum(np.maximum(deep, 0.0) * area))  # σ l_c (ρ g l_c³ = σ l_c)
+
+    bound = bound_at(z_lim)
+    final = min(level_limit, cap, bound)
+    j_level = int(np.argmax(point_state(sup, z_lim, 0.0, 0.0)[1] - lim))
+    if final < level_limit:
+        if bound <= cap:  # the law crosses the bound B(z) (rising with depth) first: find where
+            zb = brentq(lambda zz: point_state(sup, zz, 0.0, 0.0)[2].sum() - bound_at(zz), z0, z_lim,
+                        xtol=1e-12) if point_state(sup, z0, 0.0, 0.0)[2].sum() < bound_at(z0) else z0
+            final = min(float(point_state(sup, zb, 0.0, 0.0)[2].sum()), final) if zb > z0 else final
+        def excess(zz):
+            return point_state(sup, zz, 0.0, 0.0)[2].sum() - final
+
+        z_lim = brentq(excess, z0, z_lim, xtol=1e-13) if excess(z0) < 0.0 else z0
         z = np.linspace(z0, z_lim, LAW_POINTS)
         F = np.array([point_state(sup, zz, 0.0, 0.0)[2].sum() for zz in z])
         F = np.maximum.accumulate(F)
         F = F + np.arange(len(F)) * 1e-12 * max(float(F[-1]), 1e-300)
-    d_lim, e_lim, _, _ = point_state(sup, z_lim, 0.0, 0.0)
-    j = int(np.argmax(e_lim - lim)) if cap >= level_limit else int(j_cap)
-    if cap < level_limit:
+    d_lim = point_state(sup, z_lim, 0.0, 0.0)[0]
+    j = j_level
+    if cap < level_limit and cap <= bound:
         d_lim = point_state(sup, *u_cap)[0]  # the tilted device at its capacity
+        j = int(j_cap)
     Fe = per_element(z)
     # depth below the undisturbed surface (not the effective depth below the neighbours'
     # depressed surface): it sets the hydrostatic pressure at the element's lowest point
@@ -168,9 +196,16 @@ def heave_law(design) -> HeaveLaw:
         weight=float(dev.weight), body_weight=float(dev.design.body["mass"] * liq.g), liquid=liq,
         first_to_fail=dev.names[int(sup.owner[j])], element_names=tuple(dev.names),
         element_depths=el_depth, element_sizes=sizes,
-        element_perimeters=np.array([m.perimeter for m in dev.models]), element_angles=angles,
+        element_perimeters=perim * lc, element_angles=angles,
         level_limit_force=level_limit * fs, element_force=Fe * fs,
+        capacity_at_centre_of_mass=cap * fs, contact_line_bound=bound * fs,
     )
+
+
+def _polygon_area(pts) -> float:
+    """Area [m²] of a plan polygon (shoelace formula)."""
+    x, y = np.asarray(pts, dtype=float).T
+    return 0.5 * abs(float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1))))
 
 
 def as_design(design):
@@ -212,3 +247,20 @@ def with_coating(design, models):
             c["solid_fraction"] = float(min(max(value, 1e-6), 1.0))
         leg["coating"] = c
     return design_from_data(data, "design")
+
+
+def limit_notes(law: HeaveLaw) -> list[str]:
+    """Warnings that say which cap set the law's limit force (see :class:`HeaveLaw`)."""
+    notes = []
+    model = min(law.level_limit_force, law.capacity_at_centre_of_mass)
+    if law.capacity_at_centre_of_mass < law.level_limit_force * (1 - 1e-6) and \
+            law.capacity_at_centre_of_mass <= law.contact_line_bound:
+        notes.append("the centre of mass is off the centre of support: a push tilts the device, and the limit is its "
+                     f"capacity at the centre of mass ({law.capacity_at_centre_of_mass * 1e3:.4g} mN instead of "
+                     f"{law.level_limit_force * 1e3:.4g} mN level)")
+    if law.limit_force < model * (1 - 1e-6) and law.contact_line_bound < model:
+        notes.append(f"the device model's limit {model * 1e3:.4g} mN exceeds the contact-line bound (σ × contact line "
+                     "+ ρ g × depth × plan area, PHYSICS.md) by "
+                     f"{(model / law.limit_force - 1) * 100:.3g} %; the limit is capped at "
+                     f"{law.limit_force * 1e3:.4g} mN (safe side; for rods the end-cap model is the likely cause)")
+    return notes

@@ -289,10 +289,9 @@ def _on_law(law, T, profile, takeoff_speed, push_force, v):
     if we is not None and we > 1.0:
         warnings.append(f"leg speed {u_leg:.3g} m/s gives a Weber number ρU²R/σ = {we:.3g} > 1: inertia can break "
                         "the meniscus earlier than the static limit")
-    if law.limit_force < law.level_limit_force * (1 - 1e-6):
-        warnings.append("the centre of mass is off the centre of support: a push tilts the device, and the limit is "
-                        f"its capacity at the centre of mass ({law.limit_force * 1e3:.4g} mN instead of "
-                        f"{law.level_limit_force * 1e3:.4g} mN level)")
+    from ._device import limit_notes
+
+    warnings.extend(limit_notes(law))
     warnings.append("jump height is v²/(2g) of the centre of mass with air drag neglected")
     v_take = None if breaks else v_off
     res = JumpResult(

@@ -206,9 +206,9 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
     if T < t_cap:
         warnings.append(f"stroke time {T * 1e3:.3g} ms is shorter than the capillary time √(l_c/g) = "
                         f"{t_cap * 1e3:.3g} ms: the meniscus is not quasi-static (dynamic forces not modelled)")
-    if law.limit_force < law.level_limit_force * (1 - 1e-6):
-        warnings.append("the centre of mass is off the centre of support: the limit is the capacity at the centre of "
-                        "mass, not the level device's")
+    from ._device import limit_notes
+
+    warnings.extend(limit_notes(law))
     warnings.append("thrust shared by all elements as their capacities allow; if only some legs row, give a "
                     "design of those legs")
     return StrokeResult(
