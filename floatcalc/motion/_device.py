@@ -136,12 +136,14 @@ def heave_law(design) -> HeaveLaw:
             hi += 1.0
         z_lim = brentq(margin, lo, hi, xtol=1e-12, rtol=1e-12)
     z = np.linspace(z0, z_lim, LAW_POINTS)
-    F = np.array([point_state(sup, zz, 0.0, 0.0)[2].sum() for zz in z])
     n_el = len(dev.models)
 
     def per_element(zs):
         return np.array([np.bincount(sup.owner, weights=point_state(sup, zz, 0.0, 0.0)[2], minlength=n_el)
                          for zz in zs]).T
+
+    Fe = per_element(z)
+    F = Fe.sum(axis=0)
     # The tables are piecewise linear; keep the law strictly monotone for inversion (a flat
     # step, e.g. before the last points touch, is nudged by a relative 1e-12, far below any
     # printed digit).
@@ -177,15 +179,14 @@ def heave_law(design) -> HeaveLaw:
 
         z_lim = brentq(excess, z0, z_lim, xtol=1e-13) if excess(z0) < 0.0 else z0
         z = np.linspace(z0, z_lim, LAW_POINTS)
-        F = np.array([point_state(sup, zz, 0.0, 0.0)[2].sum() for zz in z])
-        F = np.maximum.accumulate(F)
+        Fe = per_element(z)
+        F = np.maximum.accumulate(Fe.sum(axis=0))
         F = F + np.arange(len(F)) * 1e-12 * max(float(F[-1]), 1e-300)
     d_lim = point_state(sup, z_lim, 0.0, 0.0)[0]
     j = j_level
     if cap < level_limit and cap <= bound:
         d_lim = point_state(sup, *u_cap)[0]  # the tilted device at its capacity
         j = int(j_cap)
-    Fe = per_element(z)
     # depth below the undisturbed surface (not the effective depth below the neighbours'
     # depressed surface): it sets the hydrostatic pressure at the element's lowest point
     el_depth = np.array([float(np.max(d_lim[sup.owner == i])) for i in range(n_el)]) * lc
