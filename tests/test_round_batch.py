@@ -182,3 +182,88 @@ def test_shapes_and_broadcasting():
     assert grid["max_force"].shape == (2, 2) and grid["table"]["depth"].shape == (2, 2, 241)
     ref = B.pad_laws(1.0, 0.05, math.radians(150))
     assert grid["max_force"][1, 1] == ref["max_force"]
+
+
+# ---------------------------------------------------------------------------------------------
+# Rings (floatcalc.core.ring_batch over the tables of floatcalc.core.ring_table)
+
+
+def test_inner_and_extended_outer_tables_against_the_direct_solver():
+    """Tables of ring_table against fresh direct shooting (core.axisym.solve) off the grid
+    (scripts/build_ring_table.py checks 1000 points: 8.5e-10 inner, 8e-13 outer extension)."""
+    from floatcalc.core import axisym, ring_table
+
+    rng = np.random.default_rng(21)
+    r = np.exp(rng.uniform(np.log(0.01), np.log(300.0), 6))
+    p = rng.uniform(-math.pi + 1e-6, math.pi - 1e-6, 6)
+    p[:2] = [3.14, -3.13]  # near the top of the wire, where the enclosed cap is steepest
+    np.testing.assert_allclose(ring_table.inner_height(r, p), axisym.solve(r, p, side="inner")["height"], rtol=1e-6)
+    r2 = np.exp(rng.uniform(np.log(100.0), np.log(300.0), 3))
+    p2 = rng.uniform(-3.1, 3.1, 3)
+    np.testing.assert_allclose(ring_table.outer_height(r2, p2), axisym.solve(r2, p2)["height"], rtol=1e-6)
+
+
+@pytest.mark.slow
+def test_ring_fast_path_against_direct_inner_solves():
+    """floatcalc.core.round_bodies.ring_limit shoots the enclosed meniscus directly at every
+    step (independent of the inner table); the limit force agrees to 1e-7 (measured ≤ 4e-10 on
+    these rings, ≤ 1e-8 over the whole range by scripts/check_ring_batch.py). The depth at the
+    limit sits on a flat maximum: a shift of 1e-5 in depth changes the force by ~1e-10, so it is
+    compared to 1e-4."""
+    from floatcalc.core import ring_batch as RB
+
+    Rr = np.array([2.3, 0.1])
+    b = np.array([0.074, 0.01])
+    th = np.radians([150.0, 60.0])
+    out = RB.ring_laws(Rr, b, th)
+    for i in range(Rr.size):
+        best, cur = rb.ring_limit(Rr[i], b[i], th[i])
+        assert out["max_force"][i] == pytest.approx(best["force"], rel=1e-7)
+        assert out["max_force"][i] >= best["force"] * (1 - 1e-12)  # refinement never lower
+        assert out["depth_at_max"][i] == pytest.approx(best["depth"], rel=1e-4)
+        assert out["phi_inner_at_max"][i] == pytest.approx(best["phi_inner"], rel=1e-3)
+        n = out["curve"]["n"][i]
+        assert n == cur["depth"].size
+        np.testing.assert_allclose(out["curve"]["force"][i, :n], cur["force"], rtol=1e-7)
+
+
+def test_ring_enclosed_weight_keller_against_direct_volume():
+    """Keller (Phys. Fluids 10, 3009, 1998): the inner line's pull 2π r_i sin ψ_i equals the
+    weight of the depressed liquid inside the ring, here the volume integrated by the direct
+    solver along its shot (independent of the table and of the pull)."""
+    from floatcalc.core import axisym
+    from floatcalc.core import ring_batch as RB
+
+    out = RB.ring_laws(np.array([2.3, 0.5]), np.array([0.074, 0.1]), np.radians([150.0, 120.0]))
+    rci = np.array([2.3, 0.5]) - np.array([0.074, 0.1]) * np.sin(out["phi_inner_at_max"])
+    vol = axisym.solve(rci, out["psi_inner_at_max"], side="inner")["volume"]
+    np.testing.assert_allclose(out["enclosed_at_max"], vol, rtol=1e-6)
+
+
+def test_large_ring_tends_to_the_2d_rod_law():
+    """A ring much larger than l_c carries the 2D limit per length of a rod of the wire's
+    radius on each unit of its centre line (Vella, Lee & Kim, Langmuir 22, 5979, 2006;
+    floatcalc.core.rod2d); the difference falls like 1/R_r² (measured 2e-5 at R_r = 100)."""
+    from floatcalc.core import ring_batch as RB
+    from floatcalc.core import rod2d
+
+    b, th = 0.5, math.radians(120)
+    rod = float(rod2d.limit_force(b, th)["force"])
+    err = [abs(float(RB.ring_laws(R, b, th)["max_force"]) / (2 * math.pi * R) / rod - 1) for R in (30.0, 100.0)]
+    assert err[1] < 1e-4 and err[1] < err[0] / 5
+
+
+def test_ring_contact_line_bound_and_table():
+    from floatcalc.core import ring_batch as RB
+
+    rng = np.random.default_rng(22)
+    Rr = np.exp(rng.uniform(np.log(0.05), np.log(100.0), 12))
+    b = np.maximum(Rr * np.exp(rng.uniform(np.log(1e-3), np.log(0.5), 12)), 1e-4)
+    th = rng.uniform(0.0, math.pi, 12)
+    out = RB.ring_laws(Rr, b, th)
+    # PHYSICS.md: vertical surface-tension force ≤ σ × contact-line length (both lines)
+    assert np.all(np.abs(out["surface_tension_at_max"]) <= 2 * np.pi * (2 * Rr) * (1 + 1e-12))
+    assert np.all(out["max_force"] >= out["table"]["force"].max(axis=-1) * (1 - 1e-9))
+    assert np.all(np.diff(out["table"]["depth"], axis=-1) >= 0)
+    one = RB.ring_laws(Rr[3], b[3], th[3])
+    assert float(one["max_force"]) == pytest.approx(out["max_force"][3], rel=1e-12)
