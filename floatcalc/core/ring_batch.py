@@ -33,9 +33,9 @@ l_c); tested against the direct solver over R_r = 0.05 … 100 l_c, b/R_r = 1e-3
 (contact inclinations within 0.04 rad of ±π at the ends of a curve, or radii above 300 l_c)
 fall back to the direct solver, which costs about 10 ms a point.
 
->>> out = ring_laws(2.3, 0.074, np.radians(150))   # a 5 mm ring of 0.2 mm wire on water
+>>> out = ring_laws(2.3, 0.074, np.radians(150))   # R_r = 2.3 l_c (about 6 mm on water), 0.2 mm wire
 >>> round(float(out["max_force"]), 3)
-1.656
+29.605
 
 References
 ----------

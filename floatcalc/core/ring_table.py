@@ -122,7 +122,7 @@ def outer_height(rc, psi):
     up to r_c = 100, this module's extension from there to 300 l_c, direct solver beyond.
 
     >>> round(float(outer_height(200.0, 1.0)), 5)   # close to the 2D value −2 sin(1/2) = −0.95885
-    -0.95646
+    -0.9566
     """
     from scipy.special import k0e, k1e
 
