@@ -132,10 +132,10 @@ class _Ring:
         D = _d_out(Rr, b, th, phi_o)
         # bracket on the inner grid inside the rising run
         Di, s0, ln = self.Di[rows], self.s0[rows], self.ln[rows]
-        j = np.empty(D.size, dtype=int)
-        for k in range(D.size):
-            run = Di[k, s0[k]:s0[k] + ln[k]]
-            j[k] = s0[k] + int(np.clip(np.searchsorted(run, D[k], side="right") - 1, 0, ln[k] - 2))
+        col = np.arange(Di.shape[1])[None, :]
+        in_run = (col >= s0[:, None]) & (col < (s0 + ln)[:, None])
+        below = np.count_nonzero(in_run & (Di <= D[:, None]), axis=1)  # searchsorted in the run
+        j = s0 + np.clip(below - 1, 0, ln - 2)
         r = np.arange(D.size)
         pa, pb = self.phi_i[j], self.phi_i[j + 1]
         phi_i = _inner_match(Rr, b, th, D, pa, pb, Di[r, j], Di[r, j + 1])
