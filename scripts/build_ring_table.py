@@ -30,10 +30,17 @@ def _check(n, seed=20261202):
     r2 = np.exp(rng.uniform(np.log(100.0), np.log(T.OUT_R_MAX), n // 4))
     p2 = rng.uniform(-3.1, 3.1, n // 4)
     e_out = np.abs(T.outer_height(r2, p2) / solve(r2, p2)["height"] - 1.0)
+    r3 = np.exp(rng.uniform(np.log(T.CAP_R_USE), np.log(T.OUT_R_MAX), n // 4))
+    p3 = rng.uniform(3.1, np.pi, n // 4) * np.where(rng.random(n // 4) < 0.5, -1.0, 1.0)
+    d3 = solve(r3, p3)["height"]
+    e_cap = np.abs(T.outer_height(r3, p3) / d3 - 1.0)
+    a_cap = np.abs(T.outer_height(r3, p3) - d3)
     k, j = int(np.argmax(e_in)), int(np.argmax(e_out))
+    c = int(np.argmax(e_cap))
     return (f"inner: max relative error {e_in.max():.2e} on {n} random points (at r_c = {r[k]:.4g}, "
             f"psi = {p[k]:.4f}); outer extension: {e_out.max():.2e} on {n // 4} points "
-            f"(at r_c = {r2[j]:.4g}, psi = {p2[j]:.4f})")
+            f"(at r_c = {r2[j]:.4g}, psi = {p2[j]:.4f}); cap: {e_cap.max():.2e} relative (at r_c = {r3[c]:.4g}, "
+            f"psi = {p3[c]:.5f}), {a_cap.max():.2e} l_c absolute, on {n // 4} points")
 
 
 def main() -> None:

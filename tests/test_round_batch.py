@@ -201,6 +201,11 @@ def test_inner_and_extended_outer_tables_against_the_direct_solver():
     r2 = np.exp(rng.uniform(np.log(100.0), np.log(300.0), 3))
     p2 = rng.uniform(-3.1, 3.1, 3)
     np.testing.assert_allclose(ring_table.outer_height(r2, p2), axisym.solve(r2, p2)["height"], rtol=1e-6)
+    # cap of the exterior table, 3.1 < |ψ| ≤ π: absolute 1e-6 l_c (z_c → 0 towards π for thin
+    # bodies; the solver's own uncertainty there is up to 5e-5 l_c, core.axisym.solve)
+    r3 = np.array([0.03, 0.3, 0.64, 5.0, 120.0])
+    p3 = np.array([3.12, -3.14, 3.1355, 3.1415, -3.13])
+    np.testing.assert_allclose(ring_table.outer_height(r3, p3), axisym.solve(r3, p3)["height"], rtol=0, atol=1e-6)
 
 
 @pytest.mark.slow
