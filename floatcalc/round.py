@@ -575,4 +575,172 @@ def pin_limit(radius: Any, length: Any, contact_angle: Any, liq=None, material_d
 
 
 
+
+
 __all__ = ["pin_limit", "pin", "ball", "pad", "ring", "PinResult", "RoundResult", "RoundForceCurve"]
+
+
+# ---------------------------------------------------------------------------------------------
+# Batched element tables (for device models): many elements of one kind in one call
+
+
+@dataclass(frozen=True)
+class ElementTables:
+    """Force–depth tables of many round elements of one kind (SI, one row per element).
+
+    Built by :func:`element_tables`; the rows are what a device interpolates: ``points``
+    depths of the element's lowest point evenly spaced from first contact to the limit
+    (``depth_m``), the upward force there (``force_N``) and its surface-tension part, and the
+    contact-line depth that drives the neighbours' coupling (``contact_depth_m``, from the
+    surface-tension part by Keller's theorem for the linearised outer meniscus, with the outer
+    contact radius ``contact_radius_m``).
+    """
+
+    kind: str
+    depth_m: np.ndarray
+    force_N: np.ndarray
+    surface_tension_N: np.ndarray
+    contact_depth_m: np.ndarray
+    limit_force_N: np.ndarray
+    limit_depth_m: np.ndarray
+    max_force_N: np.ndarray
+    depth_at_max_m: np.ndarray
+    contact_radius_m: np.ndarray
+    perimeter_m: np.ndarray
+    own_weight_N: np.ndarray
+    warnings: tuple[tuple[str, ...], ...]
+
+
+def _si_array(x, name: str, positive: bool = True) -> np.ndarray:
+    a = np.atleast_1d(np.asarray(x, dtype=float))
+    bad = ~np.isfinite(a) | ((a <= 0) if positive else (a < 0))
+    if np.any(bad):
+        raise input_error(name, "must be a positive finite number in SI units" if positive else
+                          "must be a finite number, zero or more, in SI units", f"{a[bad][0]:g}")
+    return a
+
+
+def element_tables(kind: str, *, contact_angle: Any, liquid: Liquid | None = None,
+                   surface_tension: Any | None = None, material_density: Any = DEFAULT_MATERIAL_DENSITY,
+                   radius: Any = None, thickness: Any = None, length: Any = None, ring_radius: Any = None,
+                   wire_radius: Any = None, points: int = 241) -> ElementTables:
+    """Limit and device force–depth table of many balls, pads, pins or rings in one call.
+
+    The same laws and numbers as :func:`ball`, :func:`pad`, :func:`pin` and :func:`ring`
+    followed by the device's round-element adapter (curve cut at the limit, started at first
+    contact, resampled on ``points`` even depths), without the meniscus profile for drawing,
+    vectorised over elements by :mod:`floatcalc.core.round_batch` and
+    :mod:`floatcalc.core.ring_batch` (agreement to 1e-8 relative for ball, pad and pin; rings
+    use tabulated enclosed menisci, 1e-8 from the direct path in the limit force).
+
+    Parameters
+    ----------
+    kind : {"ball", "pad", "pin", "ring"}
+    contact_angle : array_like [rad]
+        Advancing (effective) contact angle of each element, 0 to π.
+    liquid : Liquid, optional
+        Default water at 20 °C.
+    surface_tension : array_like [N/m], optional
+        Per-element surface tension overriding the liquid's (contaminated samples); the
+        capillary length follows as sqrt(σ/(ρ g)).
+    material_density : array_like [kg/m³]
+        For the own weight (default steel 7850 kg/m³, common practice).
+    radius, thickness, length, ring_radius, wire_radius : array_like [m]
+        Geometry of the kind: ball ``radius``; pad ``radius``, ``thickness``; pin ``radius``,
+        ``length`` (protrusion below the body: the table runs to tip depth = length); ring
+        ``ring_radius``, ``wire_radius``. All inputs broadcast together (1-D).
+    points : int
+        Points of each table.
+
+    Returns
+    -------
+    ElementTables
+
+    Examples
+    --------
+    >>> t = element_tables("ball", radius=[0.5e-3, 1e-3], contact_angle=np.radians(150))
+    >>> t.depth_m.shape, bool(np.all(t.limit_force_N > 0))
+    ((2, 241), True)
+    """
+    from scipy.special import k0e, k1e
+
+    liq = _liquid(liquid)
+    if kind not in ("ball", "pad", "pin", "ring"):
+        raise input_error("kind", "must be one of ball, pad, pin, ring", repr(kind))
+    th = np.atleast_1d(np.asarray(contact_angle, dtype=float))
+    if np.any(~np.isfinite(th) | (th < 0) | (th > math.pi)):
+        raise input_error("contact_angle", "must be between 0 and 180 deg (in radians here)",
+                          f"{th[~np.isfinite(th) | (th < 0) | (th > math.pi)][0]:g} rad")
+    sig = liq.sigma if surface_tension is None else _si_array(surface_tension, "surface_tension")
+    rho_s = _si_array(material_density, "material_density")
+    need = {"ball": ("radius",), "pad": ("radius", "thickness"), "pin": ("radius", "length"),
+            "ring": ("ring_radius", "wire_radius")}[kind]
+    given = {"radius": radius, "thickness": thickness, "length": length, "ring_radius": ring_radius,
+             "wire_radius": wire_radius}
+    geo = {}
+    for name in need:
+        if given[name] is None:
+            raise input_error(name, f"required for a {kind}", "nothing")
+        geo[name] = _si_array(given[name], name)
+    arrs = np.broadcast_arrays(th, np.atleast_1d(np.asarray(sig, dtype=float)), rho_s, *geo.values())
+    th, sig, rho_s = (a.ravel() for a in arrs[:3])
+    geo = {k: a.ravel() for k, a in zip(geo, arrs[3:])}
+    lc = np.sqrt(sig / (liq.rho * liq.g))
+    fs = sig * lc
+    lo = 1e-3 if kind == "ball" else MIN_RADIUS_LC
+    for name in ("radius", "ring_radius", "wire_radius"):
+        if name in geo:
+            s = geo[name] / lc
+            bad = (s < (lo if name != "ring_radius" else MIN_RADIUS_LC) * (1 - 1e-12)) | (s > MAX_RADIUS_LC)
+            if np.any(bad):
+                k = int(np.flatnonzero(bad)[0])
+                raise input_error(name, f"must be between {lo:g} and {MAX_RADIUS_LC:g} capillary lengths",
+                                  f"{geo[name][k] * 1e3:.4g} mm")
+    if kind == "ring" and np.any(geo["ring_radius"] < 2.0 * geo["wire_radius"]):
+        k = int(np.flatnonzero(geo["ring_radius"] < 2.0 * geo["wire_radius"])[0])
+        raise input_error("ring_radius", "must be at least twice the wire radius", f"{geo['ring_radius'][k] * 1e3:.4g} mm")
+    from .core import ring_batch, round_batch
+
+    warn: list[list[str]] = [[] for _ in th]
+    if kind == "ball":
+        R = geo["radius"]
+        out = round_batch.ball_laws(R / lc, th, points=points)
+        rc = out["contact_radius_at_max"] * lc
+        weight = rho_s * 4.0 / 3.0 * math.pi * R**3 * liq.g
+        per = 2.0 * math.pi * np.maximum(rc, 1e-9)
+        for i in np.flatnonzero(out["submerged"]):
+            warn[i].append("the force rises until the ball is fully submerged: buoyancy alone carries it "
+                           "(no capillary limit)")
+    elif kind == "pad":
+        a, t = geo["radius"], geo["thickness"]
+        out = round_batch.pad_laws(a / lc, t / lc, th, points=points)
+        rc, weight, per = a, rho_s * math.pi * a * a * t * liq.g, 2.0 * math.pi * a
+        for i in np.flatnonzero(th < 1e-9):
+            warn[i].append("contact angle 0°: the top-edge stage has no range; liquid floods the top at once")
+    elif kind == "pin":
+        b, L = geo["radius"], geo["length"]
+        out = round_batch.pin_laws(b / lc, L / lc, th, points=points)
+        rc, weight, per = b, rho_s * math.pi * b * b * L * liq.g, 2.0 * math.pi * b
+        out["max_force"], out["depth_at_max"] = out["limit_force"], out["limit_depth"]
+    else:
+        Rr, b = geo["ring_radius"], geo["wire_radius"]
+        out = ring_batch.ring_laws(Rr / lc, b / lc, th, points=points)
+        rc, weight, per = Rr + b, rho_s * math.pi * b * b * 2.0 * math.pi * Rr * liq.g, 4.0 * math.pi * Rr
+        for i in np.flatnonzero(out["curve"]["depth"][:, 0] > 1e-9):
+            warn[i].append(f"curve starts at depth {out['curve']['depth'][i, 0] * lc[i] * 1e3:.3g} mm: shallower "
+                           "states have no matching inner meniscus on the followed branch")
+    tab = out["table"]
+    lcc, fsc = lc[:, None], fs[:, None]
+    # the contact depth again with the device's floor of 1e-9 m on the contact radius
+    r = np.maximum(rc, 1e-9)[:, None]
+    h0 = tab["surface_tension"] * fsc * lcc / (sig[:, None] * 2.0 * math.pi * r * k1e(r / lcc) / k0e(r / lcc))
+    return ElementTables(
+        kind=kind, depth_m=tab["depth"] * lcc, force_N=tab["force"] * fsc,
+        surface_tension_N=tab["surface_tension"] * fsc, contact_depth_m=h0,
+        limit_force_N=out["limit_force"] * fs, limit_depth_m=out["limit_depth"] * lc,
+        max_force_N=out["max_force"] * fs, depth_at_max_m=out["depth_at_max"] * lc,
+        contact_radius_m=np.asarray(rc, dtype=float) * np.ones_like(lc), perimeter_m=per * np.ones_like(lc),
+        own_weight_N=weight * np.ones_like(lc), warnings=tuple(tuple(w) for w in warn))
+
+
+__all__ += ["element_tables", "ElementTables"]

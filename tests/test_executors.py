@@ -19,7 +19,8 @@ def _study(**kw):
     m = rod_model(count=4.0, payload_mass=2.2e-3)
     d = {"contact_angle": parse_distribution("normal:150deg:8deg", "angle", "contact_angle"),
          "radius": parse_distribution("tol:0.2mm:0.02mm", "length", "radius")}
-    # 7000 samples: four chunks, the last one short, so chunk bookkeeping is exercised.
+    # 7000 samples: sixteen chunks of 438 (executors.chunk_size), the last one short, so chunk
+    # bookkeeping is exercised.
     return uncertainty(m, d, contamination=Contamination(0.3, 5e-3, 20e-3), samples=7000, seed=99, **kw)
 
 
@@ -29,11 +30,77 @@ def _same(a, b):
     assert np.array_equal(a.payload_capacity_percentiles.magnitude, b.payload_capacity_percentiles.magnitude)
 
 
-def test_local_processes_equal_serial():
+def test_local_processes_equal_serial(monkeypatch):
+    from floatcalc.studies import executors
+
     s = _study(executor="serial")
-    p = _study(executor="local", workers=2)
+    p = _study(executor="local", workers=2)   # small: the local executor keeps it in-process
     assert p.executor == "local"
     _same(s, p)
+    # force the pool path (and groups of several chunks) for the same study
+    monkeypatch.setattr(executors, "PARALLEL_MIN_S", 0.0)
+    monkeypatch.setattr(executors, "TASK_MIN_S", 1e-9)
+    _same(s, _study(executor="local", workers=2))
+    monkeypatch.setattr(executors, "TASK_MIN_S", 10.0)   # groups as large as allowed
+    _same(s, _study(executor="local", workers=2))
+
+
+def _pid_after(x):
+    import os
+    import time
+
+    time.sleep(0.02)
+    return x, os.getpid()
+
+
+def test_local_pool_is_persistent_and_used(monkeypatch):
+    import os
+
+    from floatcalc.studies import executors
+
+    monkeypatch.setattr(executors, "PARALLEL_MIN_S", 0.0)
+    monkeypatch.setattr(executors, "TASK_MIN_S", 1e-9)
+    executors.shutdown_pool()
+    a = run_chunks(_pid_after, [(k,) for k in range(12)], executor="local", workers=2)
+    assert [x for x, _ in a] == list(range(12))                 # task order kept
+    assert any(pid != os.getpid() for _, pid in a)              # worker processes did run tasks
+    pool = executors._POOL["pool"]
+    assert pool is not None
+    b = run_chunks(_pid_after, [(k,) for k in range(12)], executor="local", workers=2)
+    assert executors._POOL["pool"] is pool                      # started once, reused
+    workers = set(pool._processes)                              # the pool's own processes
+    assert {p for _, p in a + b} - {os.getpid()} <= workers
+    executors.shutdown_pool()
+    assert executors._POOL["pool"] is None
+
+
+def test_small_local_runs_stay_in_process():
+    import os
+
+    from floatcalc.studies import executors
+
+    executors.shutdown_pool()
+    out = run_chunks(_pid_after, [(k,) for k in range(3)], executor="local", workers=2)  # ~0.06 s of work
+    assert {p for _, p in out} == {os.getpid()} and executors._POOL["pool"] is None
+
+
+def test_chunk_size_depends_on_study_size_only():
+    from floatcalc.studies.executors import chunk_size
+
+    assert chunk_size(1000, 2000, 250) == 250       # several chunks even for small studies
+    assert chunk_size(10_000, 2000, 250) == 625
+    assert chunk_size(10**7, 2000, 250) == 2000
+
+
+def test_dask_process_cluster_equals_serial():
+    """Dask workers in separate processes (pickled tasks, as on a real cluster); ~2 s."""
+    distributed = pytest.importorskip("distributed", reason="dask.distributed is in the test extra; "
+                                      "skipped only where it is not installed")
+    with distributed.LocalCluster(n_workers=2, processes=True, threads_per_worker=1, dashboard_address=None,
+                                  host="127.0.0.1", protocol="tcp") as cluster:
+        d = _study(scheduler=cluster.scheduler_address)
+        assert d.executor == "dask"
+        _same(_study(executor="serial"), d)
 
 
 def test_local_dask_cluster_equals_serial():

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -243,3 +244,97 @@ def test_thick_ring_matches_both_sides():
     d_in = -float(ax.solve(Rr - b * math.sin(pi_), pi_ + th - math.pi, side="inner")["height"])
     assert d_out + b * (1 - math.cos(po)) == pytest.approx(D, rel=1e-8)
     assert d_in + b * (1 - math.cos(pi_)) == pytest.approx(D, rel=1e-8)
+
+
+# ---------------------------------------------------------------------------------------------
+# element_tables: many elements of one kind at once (the device's fast path)
+
+
+def _adapter_table(res, d_lim, rc, lc, sigma, points=241):
+    """The steps of the device's round-element adapter (floatcalc/device/elements.py,
+    _RoundKind.model) on one public result's curve, in SI, with numpy.interp."""
+    from scipy.special import k0e, k1e
+
+    c = res.curve
+    D, F, Fst = (q.to(u).magnitude for q, u in ((c.depth, "m"), (c.force, "N"), (c.surface_tension, "N")))
+    keep = D < d_lim
+    f_lim, s_lim = np.interp(d_lim, D, F), np.interp(d_lim, D, Fst)
+    D, F, Fst = np.append(D[keep], d_lim), np.append(F[keep], f_lim), np.append(Fst[keep], s_lim)
+    if D[0] < 0.0 < D[-1]:
+        k = D > 0.0
+        F, Fst = (np.concatenate([[np.interp(0.0, D, T)], T[k]]) for T in (F, Fst))
+        D = np.concatenate([[0.0], D[k]])
+    grid = np.linspace(D[0], D[-1], points)
+    rc = max(rc, 1e-9)
+    h0 = np.interp(grid, D, Fst) * lc / (sigma * 2 * math.pi * rc * k1e(rc / lc) / k0e(rc / lc))
+    return grid, np.interp(grid, D, F), h0
+
+
+def test_element_tables_equal_public_functions_and_adapter_steps():
+    """Same numbers as ball/pad/pin (plus the adapter's table steps) to 1e-8: the batched core
+    and the public scalar path evaluate one contact-height table, so this checks that the
+    batch reproduces the scalar algorithm and its unit handling (not the table itself: see
+    tests/test_round_batch.py for the direct-solver and published checks)."""
+    from floatcalc.round import element_tables
+
+    w = water()
+    lc, s = w.lc, w.sigma
+    R = np.array([0.3e-3, 1.2e-3, 4e-3])
+    th = np.radians([165.0, 110.0, 70.0])
+    cases = {
+        "ball": (dict(radius=R), [ball(R[i], th[i], liquid=w, material_density=7850.0) for i in range(3)]),
+        "pad": (dict(radius=R, thickness=0.1 * R),
+                [pad(R[i], 0.1 * R[i], th[i], liquid=w, material_density=7850.0) for i in range(3)]),
+        "pin": (dict(radius=0.1 * R, length=10 * R),
+                [pin(0.1 * R[i], th[i], length=10 * R[i], liquid=w, material_density=7850.0) for i in range(3)]),
+    }
+    for kind, (geo, ref) in cases.items():
+        t = element_tables(kind, contact_angle=th, liquid=w, **geo)
+        for i, r in enumerate(ref):
+            if kind == "pin":
+                d_lim, rc = 10 * R[i], 0.1 * R[i]
+                assert t.own_weight_N[i] == pytest.approx(r.own_weight.to("N").magnitude, rel=1e-12)
+            else:
+                d_lim, rc = r.depth_at_max.to("m").magnitude, r.contact_radius_at_max.to("m").magnitude
+                assert t.max_force_N[i] == pytest.approx(r.max_force.to("N").magnitude, rel=1e-8)
+                assert t.depth_at_max_m[i] == pytest.approx(d_lim, rel=1e-8)
+                assert t.own_weight_N[i] == pytest.approx(r.own_weight.to("N").magnitude, rel=1e-12)
+            g, f, h = _adapter_table(r, d_lim, rc, lc, s)
+            for got, want in ((t.depth_m[i], g), (t.force_N[i], f), (t.contact_depth_m[i], h)):
+                assert np.max(np.abs(got - want)) <= 1e-8 * np.max(np.abs(want))
+
+
+def test_element_tables_ring_against_public_ring():
+    """The ring's fast path (tabulated enclosed meniscus) against ring() (direct inner solves):
+    limit force to 1e-7 (measured ~1e-11 here); depth on the flat maximum to 1e-4."""
+    from floatcalc.round import element_tables
+
+    w = water()
+    t = element_tables("ring", ring_radius=5e-3, wire_radius=0.2e-3, contact_angle=math.radians(150), liquid=w)
+    r = ring("5 mm", "0.2 mm", "150 deg", liquid=w, material_density=7850.0)
+    assert t.max_force_N[0] == pytest.approx(r.max_force.to("N").magnitude, rel=1e-7)
+    assert t.depth_at_max_m[0] == pytest.approx(r.depth_at_max.to("m").magnitude, rel=1e-4)
+    assert t.own_weight_N[0] == pytest.approx(r.own_weight.to("N").magnitude, rel=1e-12)
+    assert t.perimeter_m[0] == pytest.approx(4 * math.pi * 5e-3)
+    # the table: the adapter's steps on ring()'s curve; its end (the limit depth) moves with
+    # the depth at the flat maximum, so the rows agree to that depth's 1e-4
+    g, f, h = _adapter_table(r, r.depth_at_max.to("m").magnitude, 5.2e-3, w.lc, w.sigma)
+    for got, want in ((t.depth_m[0], g), (t.force_N[0], f), (t.contact_depth_m[0], h)):
+        assert np.max(np.abs(got - want)) <= 1e-4 * np.max(np.abs(want))
+
+
+def test_element_tables_per_element_surface_tension_and_bad_input():
+    from floatcalc.round import element_tables
+
+    w = water()
+    t = element_tables("pad", radius=2e-3, thickness=0.2e-3, contact_angle=math.radians(110),
+                       surface_tension=[w.sigma, 0.05], liquid=w)
+    low = pad("2 mm", "0.2 mm", "110 deg", liquid=dataclasses.replace(w, sigma=0.05), material_density=7850.0)
+    assert t.max_force_N[1] == pytest.approx(low.max_force.to("N").magnitude, rel=1e-8)
+    assert t.max_force_N[1] < t.max_force_N[0]
+    for kw in (dict(kind="cube", radius=1e-3), dict(kind="ball", radius=-1e-3), dict(kind="ball"),
+               dict(kind="ball", radius=1e-3, contact_angle=4.0), dict(kind="ring", ring_radius=1e-3, wire_radius=0.6e-3)):
+        kw.setdefault("contact_angle", 2.0)
+        with pytest.raises(InputError) as e:
+            element_tables(**kw)
+        assert "\n" not in str(e.value)

@@ -93,10 +93,23 @@ def evaluate(rc, psi):
         q = _spline().ev(np.log(r_i), a_i)
         out[inside] = -np.sign(psi[inside]) * q * 2.0 * np.sin(0.5 * a_i) * k0e(r_i) / k1e(r_i)
     if not np.all(inside):
-        from .axisym import solve
-
-        out[~inside] = solve(rc[~inside], psi[~inside])["height"]
+        out[~inside] = _direct(rc[~inside], psi[~inside])
     return out.reshape(shape)
+
+
+#: Up to this many points outside the table are solved three at a time (the direct solver's
+#: plain-float path, about 4x faster per point than its array path for a few points).
+FEW = 64
+
+
+def _direct(rc, psi):
+    """Direct solves of points outside the table; the same answers (to the solver's 1e-13
+    shooting tolerance) whichever way they are grouped: every point iterates on its own."""
+    from .axisym import solve
+
+    if rc.size > FEW:
+        return solve(rc, psi)["height"]
+    return np.concatenate([solve(rc[k:k + 3], psi[k:k + 3])["height"] for k in range(0, rc.size, 3)])
 
 
 def in_table(rc, psi):

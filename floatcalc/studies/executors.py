@@ -6,7 +6,10 @@ results are identical on every executor. :func:`run_chunks` returns the chunk re
 chunk order.
 
 * ``"serial"`` – in this process;
-* ``"local"`` – :class:`concurrent.futures.ProcessPoolExecutor` on the local cores;
+* ``"local"`` – a persistent :class:`concurrent.futures.ProcessPoolExecutor` on the local
+  cores, started once per process (``fork`` on Linux when no other thread runs, else
+  ``forkserver``), fed with groups of chunks that each run for ≥ ~0.2 s; a run too small to
+  gain from processes finishes in the calling process (see :func:`_run_local`);
 * ``"dask"`` – an existing ``dask.distributed`` scheduler given by its address
   (``tcp://host:8786``), or a ``Client`` object. Dask is an optional dependency (the
   ``cluster`` extra), imported only here and only when asked for;
@@ -21,6 +24,7 @@ A tiny progress bar on stderr shows chunks done when stderr is a terminal, or wh
 
 from __future__ import annotations
 
+import math
 import os
 import sys
 import time
@@ -87,6 +91,18 @@ def check_workers(workers: Any) -> int | None:
     return w
 
 
+def chunk_size(total: int, largest: int, smallest: int, parts: int = 16) -> int:
+    """Items per chunk for a study of ``total`` items: about ``total / parts``, kept within
+    [``smallest``, ``largest``]. Depends on the study size only (never on the executor or the
+    machine), so seeded chunks, and therefore results, are the same everywhere; small studies
+    still get several chunks to share among workers.
+
+    >>> chunk_size(1000, 2000, 250), chunk_size(10_000, 2000, 250), chunk_size(10**6, 2000, 250)
+    (250, 625, 2000)
+    """
+    return int(min(largest, max(smallest, math.ceil(total / parts))))
+
+
 def run_chunks(fn: Callable[..., Any], tasks: Sequence[tuple], *, executor: str | None = "auto",
                scheduler: Any = None, workers: int | None = None, large: bool = False,
                progress: bool | None = None, label: str = "study") -> list[Any]:
@@ -123,20 +139,125 @@ def run_chunks(fn: Callable[..., Any], tasks: Sequence[tuple], *, executor: str 
     return _run_dask(fn, tasks, scheduler, bar)
 
 
-def _run_local(fn, tasks, workers, bar) -> list[Any]:
+#: A local run whose estimated remaining work (first task's time × tasks left) is below this
+#: many seconds finishes in the calling process: handing it to workers would cost more than it saves.
+PARALLEL_MIN_S = 0.25
+#: Tasks are grouped so that each submission to a worker runs for at least about this long.
+TASK_MIN_S = 0.2
+
+_POOL: dict[str, Any] = {"pool": None, "key": None}
+
+
+def start_method() -> str:
+    """Start method for local worker processes.
+
+    ``"fork"`` where the platform has it and the calling process runs no other thread (cheap:
+    a worker starts as a copy of this process, imports and caches included); else
+    ``"forkserver"`` (safe when threads run, e.g. a Dask client or a web page) or ``"spawn"``.
+    """
     import multiprocessing
-    from concurrent.futures import ProcessPoolExecutor, as_completed
+    import threading
+
+    methods = multiprocessing.get_all_start_methods()
+    if "fork" in methods and threading.active_count() == 1:
+        return "fork"
+    return "forkserver" if "forkserver" in methods else "spawn"
+
+
+def local_pool(workers: int):
+    """The persistent local process pool with ``workers`` processes (started once, reused).
+
+    A pool of another size, or one that broke, is shut down and replaced. See
+    :func:`shutdown_pool`.
+    """
+    import multiprocessing
+    from concurrent.futures import ProcessPoolExecutor
+
+    pool = _POOL["pool"]
+    if pool is not None and (_POOL["key"] != workers or getattr(pool, "_broken", False)):
+        shutdown_pool()
+        pool = None
+    if pool is None:
+        method = start_method()
+        ctx = multiprocessing.get_context(method)
+        if method == "forkserver":
+            ctx.set_forkserver_preload(["numpy", "floatcalc.studies.uncertainty", "floatcalc.studies.sweep"])
+        pool = ProcessPoolExecutor(max_workers=workers, mp_context=ctx)
+        _POOL["pool"], _POOL["key"] = pool, workers
+    return pool
+
+
+def shutdown_pool() -> None:
+    """Stop the persistent local pool, if one runs (it is also stopped at interpreter exit)."""
+    pool = _POOL["pool"]
+    _POOL["pool"] = _POOL["key"] = None
+    if pool is not None:
+        pool.shutdown(wait=True, cancel_futures=True)
+
+
+def _run_group(fn, group):
+    return [fn(*t) for t in group]
+
+
+def _run_local(fn, tasks, workers, bar) -> list[Any]:
+    """Tasks on the persistent pool, in groups of about :data:`TASK_MIN_S` seconds each.
+
+    The first task runs here and is timed: if the rest would take less than
+    :data:`PARALLEL_MIN_S` seconds it also runs here (starting and feeding processes would
+    cost more). Otherwise the rest is cut into consecutive groups, each at least
+    :data:`TASK_MIN_S` long by that estimate and at least two per worker while there are
+    enough tasks, so that transfer costs are paid once per group, not per task. One group is
+    in flight per worker; while they run, this process takes groups from the back of the
+    queue itself. Grouping never changes a result: each task keeps its own arguments (and
+    seed), and results come back in task order. If the pool breaks (a worker killed), the
+    groups not yet done run here.
+    """
+    from collections import deque
+    from concurrent.futures import FIRST_COMPLETED, wait
+    from concurrent.futures.process import BrokenProcessPool
 
     n = min(workers or os.cpu_count() or 1, len(tasks))
-    # "spawn": safe even when the calling process runs threads (a Dask client, a web page).
-    ctx = multiprocessing.get_context("spawn")
-    results: list[Any] = [None] * len(tasks)
-    with ProcessPoolExecutor(max_workers=n, mp_context=ctx) as pool:
-        futs = {pool.submit(fn, *t): i for i, t in enumerate(tasks)}
-        for f in as_completed(futs):
-            results[futs[f]] = f.result()
+    t = time.perf_counter()
+    first = fn(*tasks[0])
+    t_first = time.perf_counter() - t
+    bar.step()
+    rest = tasks[1:]
+    if n <= 1 or not rest or t_first * len(rest) < PARALLEL_MIN_S:
+        out = [first]
+        for task in rest:
+            out.append(fn(*task))
             bar.step()
-    return results
+        return out
+    per = max(1, math.ceil(TASK_MIN_S / max(t_first, 1e-9)))
+    per = min(per, max(1, len(rest) // (2 * n)))  # keep every worker busy to the end
+    groups = [rest[i:i + per] for i in range(0, len(rest), per)]
+    done: list[Any] = [None] * len(groups)
+    pending = deque(range(len(groups)))
+    inflight: dict[Any, int] = {}
+    try:
+        pool = local_pool(n)
+        while pending or inflight:
+            while pending and len(inflight) < n:
+                i = pending.popleft()
+                inflight[pool.submit(_run_group, fn, groups[i])] = i
+            if pending:  # help: run the last waiting group here
+                i = pending.pop()
+                done[i] = _run_group(fn, groups[i])
+                bar.step(len(groups[i]))
+                finished = [f for f in inflight if f.done()]
+            else:
+                finished, _ = wait(inflight, return_when=FIRST_COMPLETED)
+            for f in finished:
+                i = inflight.pop(f)
+                done[i] = f.result()
+                bar.step(len(groups[i]))
+    except BrokenProcessPool:
+        shutdown_pool()
+        for i, g in enumerate(groups):
+            if done[i] is None:
+                done[i] = _run_group(fn, g)
+                bar.step(len(g))
+    return [first] + [r for grp in done for r in grp]
 
 
 def _run_dask(fn, tasks, scheduler, bar) -> list[Any]:

@@ -6,8 +6,9 @@ contaminated surface is modelled as a mixture: with probability p the surface te
 lowered by a uniformly distributed amount. Each sample is one design; the model gives its
 ``spare_payload`` (payload minus the weight of the design payload) and its payload capacity.
 
-Reproducibility: the run is cut into chunks of fixed size (:data:`CHUNK`, or
-:data:`CHUNK_SLOW` for point-by-point models), chunk i draws from
+Reproducibility: the run is cut into chunks whose size depends only on the number of samples
+(about N/16 within :data:`CHUNK_MIN`–:data:`CHUNK`, or :data:`CHUNK_SLOW` for point-by-point
+models), chunk i draws from
 ``numpy.random.default_rng(SeedSequence(seed).spawn(n_chunks)[i])``, and inputs are drawn in
 a fixed order, so the samples, and therefore every figure, are identical whichever executor
 (serial, local processes, Dask) runs the chunks and in whatever order they finish.
@@ -45,10 +46,11 @@ import numpy as np
 from ..errors import input_error
 from ..results import Result, field, qfield
 from ..units import KINDS, format_si, to_si
-from .executors import run_chunks
+from .executors import chunk_size, run_chunks
 from .models import Model
 
-CHUNK = 2000          # samples per chunk, vectorised models
+CHUNK = 2000          # samples per chunk, vectorised models (at most)
+CHUNK_MIN = 250       # and at least: about N/16 in between (executors.chunk_size)
 CHUNK_SLOW = 25       # samples per chunk, point-by-point models (e.g. whole devices)
 BATCHES = 20          # at most; fewer for small runs so that each batch has ≥ 50 samples
 MAX_SAMPLES = 10_000_000
@@ -260,7 +262,7 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     fixed_all = model.merged(dict(values or {}))
     fixed = {k: float(v) for k, v in fixed_all.items() if k not in distributions}
     dists = tuple(sorted(distributions.items()))
-    chunk = CHUNK if model.vectorised else CHUNK_SLOW
+    chunk = chunk_size(N, CHUNK, CHUNK_MIN) if model.vectorised else CHUNK_SLOW
     n_chunks = math.ceil(N / chunk)
     children = np.random.SeedSequence(s).spawn(n_chunks)
     sizes = [min(chunk, N - i * chunk) for i in range(n_chunks)]
