@@ -18,7 +18,8 @@ reaches detachment.
 
 Estimation: weighted least squares, minimising :math:`S = \\sum_i r_i^2`,
 :math:`r_i = (F_i - \\hat F_i)/u_i` (:func:`scipy.optimize.least_squares`, trust-region
-reflective, own central-difference Jacobian), after a coarse scan of each angle for the start.
+reflective, own central-difference Jacobian; forward differences for the laws built per angle),
+after a coarse scan of each angle for the start.
 Error models, each giving u_i:
 
 * stated absolute uncertainty a (``"0.1 mN"``) or a per-row column ``force uncertainty [unit]``:
@@ -521,6 +522,7 @@ class _Problem:
     def jac(self, x, free=None):
         free = free or self.free
         J = np.empty((self.F.size, len(free)))
+        r0 = self.resid(x, free) if self.kind.slow else None
         for j, name in enumerate(free):
             if name == "tare":
                 J[:, j] = -self.scale["tare"] / self.u
@@ -529,7 +531,14 @@ class _Problem:
             xp, xm = np.array(x, dtype=float), np.array(x, dtype=float)
             xp[j] += h
             xm[j] -= h
-            J[:, j] = (self.resid(xp, free) - self.resid(xm, free)) / (2 * h)
+            if r0 is not None:  # slow laws: forward differences (one new curve per parameter)
+                lo, hi = self.bounds(free)
+                if xp[j] > hi[j]:
+                    J[:, j] = (r0 - self.resid(xm, free)) / h
+                else:
+                    J[:, j] = (self.resid(xp, free) - r0) / h
+            else:
+                J[:, j] = (self.resid(xp, free) - self.resid(xm, free)) / (2 * h)
         return J
 
     def bounds(self, free=None):
