@@ -14,7 +14,9 @@ closed form floatcalc uses:
   arc is cos α; the force per length is 2σ sin ψ + ∫_{−φ}^{φ} (−ρ g z) cos α R dα.
 
 Depth of the lowest point: D = −(z_c − R). Data are made at chosen φ (no inversion needed),
-with seeded normal noise on the force.
+with seeded normal noise on the force. Push-in data start at first touch (D ≥ 0): the states
+with D < 0 (rod above the surface holding up a raised meniscus) are reached only by pulling
+out, and a rod lowered from the air carries no liquid force before it touches.
 """
 
 from __future__ import annotations
@@ -47,7 +49,8 @@ def _data(theta_deg, liq, noise, seed, n=40):
     phis = np.linspace(0.02, math.pi - 0.05, 400)
     curve = np.array([_reference(p, th, liq.sigma, liq.rho, liq.g) for p in phis])
     k = int(np.argmax(curve[:, 1]))                       # up to the largest force (the load limit)
-    sel = np.linspace(0, k, n).round().astype(int)
+    k0 = int(np.argmax(curve[:, 0] >= 0.0))               # from first touch (D >= 0)
+    sel = np.linspace(k0, k, n).round().astype(int)
     D, F = curve[sel, 0], curve[sel, 1]
     rng = np.random.default_rng(seed)
     return D, F + rng.normal(0.0, noise, D.size), rng
