@@ -69,12 +69,8 @@ def test_heave_law_within_contact_line_bound():
     assert LAW.limit_force <= _bound(LAW) * (1 + 1e-9)
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "the device's rod end-cap model (core.finite_rod.end_length, linearised K0 meniscus round the "
-    "ends) adds about 2 x 0.3 l_c of 2D force per rod, more than the contact line at a thin rod's end "
-    "(pi R) can carry: four 20 mm rods of 0.15 mm give 13.4 mN against the contact-line bound of "
-    "12.8 mN (PHYSICS.md); the motion models cap their limit at the bound and say so. Reported to the "
-    "integrator. strict: remove this mark when the end caps respect the bound."))
+# The rod ends are bounded by σ × the chord across each end face (core.finite_rod.end_force),
+# so the device law itself respects the PHYSICS.md contact-line bound.
 def test_device_model_level_limit_within_contact_line_bound():
     assert LAW.level_limit_force <= LAW.contact_line_bound
 

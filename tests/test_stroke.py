@@ -19,7 +19,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from floatcalc import groups
+from floatcalc import dimensionless as groups
 from floatcalc.cli import main
 from floatcalc.core.meniscus_thrust import max_thrust, max_vertical
 from floatcalc.device import example
@@ -130,12 +130,14 @@ def test_cli_json(capsys):
 
 def test_device_thrust_is_the_sum_of_element_capacities():
     # twin rod: two equal rods share the weight equally, so each carries W/2 on a contact line
-    # P_i = 2L + 2πR; the device's bound is twice one rod's σP_i h(W/(2σP_i), θ).
+    # P_i = 2L + 4R sin φ (sides and end chords); the device's bound is twice one rod's σP_i h(W/(2σP_i), θ).
     r = stroke(TWIN, "50 ms", "1 mN")
     caps = r.element_max_thrust.to("N").magnitude
     assert caps.sum() == pytest.approx(r.max_thrust.to("N").magnitude, rel=1e-12)
     assert caps[0] == pytest.approx(caps[1], rel=1e-9)
     liq = TWIN.liquid
-    sP = liq.sigma * (2 * 0.06 + 2 * math.pi * 0.25e-3)
+    from floatcalc.device import Device
+
+    sP = liq.sigma * Device.from_design(TWIN).models[0].perimeter  # the rod's one contact perimeter
     W = r.weight.to("N").magnitude
     assert caps[0] == pytest.approx(sP * max_thrust(0.5 * W / sP, math.radians(115)), rel=1e-3)

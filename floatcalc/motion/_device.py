@@ -236,8 +236,8 @@ def with_coating(design, models):
 
     data = copy.deepcopy(as_design(design).data)
     if isinstance(models, tuple) and len(models) == 2 and isinstance(models[0], str):
-        models = [models] * len(data["legs"])
-    for leg, (texture, value) in zip(data["legs"], models):
+        models = [models] * len(data["elements"])
+    for leg, (texture, value) in zip(data["elements"], models):
         c = dict(leg["coating"])
         c.pop("roughness", None)
         c.pop("solid_fraction", None)

@@ -26,9 +26,9 @@ The thrust is passed on to the liquid as momentum (vortices shed by the legs [1]
 c_min [2]_); the device gains F_x T / m of speed per stroke (drag neglected).
 
 Dimensionless checks: Weber number We = ρU²R/σ of the leg (leg speed U, leg radius R;
-:func:`floatcalc.groups.weber_number`), We ≥ 1 warns that inertia can break the meniscus before
+:func:`floatcalc.dimensionless.weber_number`), We ≥ 1 warns that inertia can break the meniscus before
 the static limit; leg speed against the minimum capillary–gravity wave speed
-c_min = (4gσ/ρ)^{1/4} ≈ 0.23 m/s (:func:`floatcalc.groups.min_wave_speed`) — a bound for steady,
+c_min = (4gσ/ρ)^{1/4} ≈ 0.23 m/s (:func:`floatcalc.dimensionless.min_wave_speed`) — a bound for steady,
 straight motion only: accelerating or curved strokes radiate waves below it. Stroke times
 shorter than the capillary time √(l_c/g) (about 17 ms for water) warn that the meniscus is not
 quasi-static. With a textured coating the pressure under each element at its limit depth plus
@@ -131,7 +131,7 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
     >>> r.breaks_surface, round(r.max_thrust.to("mN").magnitude, 2)
     (False, 12.43)
     """
-    from .. import groups
+    from .. import dimensionless as groups
     from ..core import meniscus_thrust
     from ..units import to_si
     from ._inputs import duration
