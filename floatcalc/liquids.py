@@ -307,7 +307,8 @@ def liquid(name: str, temperature: Any = "20 degC", salinity: Any | None = None)
     key = _ALIASES.get(key, key)
     if key == "water":
         if salinity is not None and to_si(salinity, "salinity", "salinity") != 0.0:
-            return seawater(temperature, salinity)
+            raise input_error("salinity", "applies to seawater, not pure water: choose the liquid 'seawater' "
+                              "(salinity 0 means pure water)", repr(salinity))
         return water(temperature)
     if key == "seawater":
         return seawater(temperature, "35 g/kg" if salinity is None else salinity)
@@ -318,7 +319,7 @@ def liquid(name: str, temperature: Any = "20 degC", salinity: Any | None = None)
             "liquid", f"unknown liquid{hint}; known: {', '.join(['water', 'seawater', *_NAMED])}", repr(name)
         )
     if salinity is not None:
-        raise input_error("salinity", "applies only to water and seawater", repr(salinity))
+        raise input_error("salinity", "applies only to seawater (and 0 to water)", repr(salinity))
     d = _NAMED[key]
     T = _temperature(temperature)
     _check_T(T, d.t_min + _p.KELVIN, d.t_max + _p.KELVIN, key)

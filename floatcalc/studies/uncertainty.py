@@ -229,8 +229,9 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
         Its ``limit_output`` (for rods ``spare_payload`` [N]) < 0 means the sample sinks; its
         ``capacity_output`` (for rods ``payload_mass`` [kg]) is summarised by percentiles.
     distributions : dict
-        Input name -> :class:`Distribution` (SI). Inputs not named stay at ``values`` or the
-        model's base values.
+        Input name -> :class:`Distribution` (SI) or the CLI's text (``"normal:150deg:5deg"``,
+        ``"uniform:LOW:HIGH"``, ``"tol:NOMINAL:TOL"``). Inputs not named stay at ``values`` or
+        the model's base values.
     values : dict, optional
         Base values (SI) of the other inputs, e.g. the design ``payload_mass`` [kg].
     contamination : Contamination, optional
@@ -254,9 +255,13 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     """
     N = _whole(samples, "samples", MIN_SAMPLES, MAX_SAMPLES)
     s = _whole(seed, "seed", 0, 2**63 - 1)
+    if not isinstance(distributions, dict):
+        raise input_error("distributions", "must be a dict of input name -> distribution", type(distributions).__name__)
     for name in distributions:
         if name not in model.inputs:
             raise input_error("distribution", f"unknown input; known: {', '.join(sorted(model.inputs))}", repr(name))
+    distributions = {k: (parse_distribution(d, model.inputs[k].kind, k) if isinstance(d, str) else d)
+                     for k, d in distributions.items()}
     if contamination is not None and "surface_tension" not in model.inputs:
         raise input_error("contamination", f"model '{model.name}' has no surface_tension input", None)
     fixed_all = model.merged(dict(values or {}))
