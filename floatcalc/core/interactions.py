@@ -86,7 +86,9 @@ from . import bem_k0, inner2d
 
 PI = math.pi
 NODES = 24          # Gauss–Legendre nodes of the inner map inside the solve (about 1e-9)
-_FD = 1e-6          # central-difference step of the inner map's derivatives
+_FD = 1e-4          # difference step of the inner map's derivatives (see _panel_map)
+_FD_FINE = 1e-7     # ... once the residual is small
+_HMIN = 1.0         # smallest side panel near a rod end, in rod radii
 
 
 @dataclass(frozen=True)
@@ -231,7 +233,7 @@ def _rod_panels(rod: RodBody, ppl: float):
     """Panels of one rod: side panels on both long sides, then end-face panels."""
     R, L = rod.radius, rod.length
     h_max = 1.0 / ppl
-    h_min = min(h_max, max(R, 0.1 * h_max))
+    h_min = min(h_max, max(_HMIN * R, 0.02 * h_max))
     s = _graded_nodes(L, h_min, h_max)
     tx, ty = math.cos(rod.heading), math.sin(rod.heading)
     nx, ny = -ty, tx
@@ -275,7 +277,6 @@ class State:
     surface_tension: np.ndarray
     pressure: np.ndarray
     contact_length: np.ndarray
-    dforce_ddepth: np.ndarray
     panel_x: np.ndarray
     panel_y: np.ndarray
     panel_h: np.ndarray
@@ -287,6 +288,25 @@ class State:
     virtual_h: np.ndarray = field(repr=False, default=None)
     virtual_slope: np.ndarray = field(repr=False, default=None)
     B: np.ndarray = field(repr=False, default=None)
+    depth: np.ndarray = field(repr=False, default=None)
+    effective_depth: np.ndarray = field(repr=False, default=None)   # round bodies: D − h_in
+    _lazy: tuple = field(repr=False, default=None)
+    _derivs: tuple = field(repr=False, default=None)
+
+    @property
+    def dforce_ddepth(self) -> np.ndarray:
+        """(n_bodies, n_bodies) dF_i/dD_j [σ] with all contact positions re-solved (computed
+        on first access: implicit-function theorem on the Newton Jacobian)."""
+        if self._derivs is None:
+            self._derivs = self.layout._derivatives(self)
+        return self._derivs[1]
+
+    @property
+    def dx_ddepth(self) -> np.ndarray | None:
+        """Sensitivity of the solved unknowns to the depths (computed on first access)."""
+        if self._derivs is None:
+            self._derivs = self.layout._derivatives(self)
+        return self._derivs[0]
 
     def meniscus(self, x, y=None) -> np.ndarray:
         """Outer linear field (depth [l_c]) at plan points (in 2D mode: at positions x)."""
@@ -414,6 +434,7 @@ class Layout:
         return cls([], _two_d=(centres, radius, theta))
 
     def _prepare(self):
+        self._lu = None
         n = self.px.size
         self.n_panels = n
         if n:
@@ -479,21 +500,24 @@ class Layout:
             px[e] = np.where(st0 | st2, 1.0 / Re, 0.0)
         return h, psi, delta, hx, px, dx
 
-    def _panel_map(self, xr, Dloc, derivs=True):
+    def _panel_map(self, xr, Dloc, derivs=True, fd=_FD):
         h, psi, delta, hx, px, dx = self._contact(xr, Dloc)
         em, ep = np.exp(-delta), np.exp(delta)
         if not derivs:
             a, b = inner2d.amplitudes(h, psi, NODES)
             return a * em + b * ep, -a * em + b * ep, h, psi
-        hh = np.concatenate([h, h + _FD, h - _FD, h, h])
-        pp = np.concatenate([psi, psi, psi, psi + _FD, psi - _FD])
+        # central differences over a step that smooths the map's E ln|E| kink at E = 0 (the
+        # isolated-meniscus state, where the exact derivative is log-singular): Newton then
+        # sees the secant slope on that scale and converges robustly
+        hh = np.concatenate([h, h + fd, h - fd, h, h])
+        pp = np.concatenate([psi, psi, psi, psi + fd, psi - fd])
         A, Bm = inner2d.amplitudes(hh, pp, NODES)
         n = h.size
         a, b = A[:n], Bm[:n]
-        ah = (A[n:2 * n] - A[2 * n:3 * n]) / (2 * _FD)
-        bh = (Bm[n:2 * n] - Bm[2 * n:3 * n]) / (2 * _FD)
-        ap = (A[3 * n:4 * n] - A[4 * n:]) / (2 * _FD)
-        bp = (Bm[3 * n:4 * n] - Bm[4 * n:]) / (2 * _FD)
+        ah = (A[n:2 * n] - A[2 * n:3 * n]) / (2 * fd)
+        bh = (Bm[n:2 * n] - Bm[2 * n:3 * n]) / (2 * fd)
+        ap = (A[3 * n:4 * n] - A[4 * n:]) / (2 * fd)
+        bp = (Bm[3 * n:4 * n] - Bm[4 * n:]) / (2 * fd)
         hv = a * em + b * ep
         gv = -a * em + b * ep
         ax_ = ah * hx + ap * px
@@ -555,11 +579,11 @@ class Layout:
         return x
 
     # -- solve ----------------------------------------------------------------------------------
-    def _residual(self, x, depth, Dloc, derivs=True):
+    def _residual(self, x, depth, Dloc, derivs=True, fd=_FD):
         n = self.n_panels
         xr, B = x[:n], x[n:]
         if derivs:
-            hv, gv, h, psi, hv_x, gv_x, hv_D, gv_D = self._panel_map(xr, Dloc)
+            hv, gv, h, psi, hv_x, gv_x, hv_D, gv_D = self._panel_map(xr, Dloc, fd=fd)
         else:
             hv, gv, h, psi = self._panel_map(xr, Dloc, derivs=False)
         rr = gv - self.M @ hv - self.W @ B
@@ -593,7 +617,7 @@ class Layout:
             D = D + tilt[self.owner] * self.P["s"]
         return D
 
-    def solve(self, depth, tilt=None, start=None, *, tol: float = 1e-11, max_iter: int = 40) -> State:
+    def solve(self, depth, tilt=None, start=None, *, tol: float = 1e-10, max_iter: int = 60) -> State:
         """Solve all contact positions together at the given depths.
 
         Parameters
@@ -609,8 +633,12 @@ class Layout:
         tilt = None if tilt is None else np.asarray(tilt, dtype=float).reshape(self.n_bodies)
         Dloc = self._local_depth(depth, tilt)
         n, nb = self.n_panels, self.round_idx.size
-        if start is not None:
-            x = np.array(start.x if isinstance(start, State) else start, dtype=float)
+        if isinstance(start, State):
+            x = np.array(start.x, dtype=float)
+            if start._derivs is not None and start._derivs[0] is not None:
+                x = x + start._derivs[0] @ (depth - start.depth)  # first-order predictor
+        elif start is not None:
+            x = np.array(start, dtype=float)
         else:
             xr = self._guess_x(Dloc)
             B0 = np.array([law("B", d) for law, d in zip(self.laws, depth[self.round_idx])])
@@ -618,62 +646,103 @@ class Layout:
         lo = np.concatenate([self.lo, np.full(nb, -np.inf)])
         hi = np.concatenate([self.hi, np.full(nb, np.inf)])
         mstep = np.concatenate([self.maxstep, np.full(nb, np.inf)])
+        x = np.clip(x, lo, hi)
+        from scipy.linalg import lu_factor, lu_solve
+
         converged = False
         it = 0
-        r, aux = self._residual(x, depth, Dloc)
+        r, aux = self._residual(x, depth, Dloc, derivs=False)
         nr = float(np.max(np.abs(r))) if r.size else 0.0
+        n2 = float(r @ r)
+        lu = self._lu if (self._lu is not None and start is not None) else None
+        fresh = False
         for it in range(1, max_iter + 1):
             if nr < tol:
                 converged = True
                 break
-            try:
-                dx = -np.linalg.solve(aux["J"], r)
-            except np.linalg.LinAlgError:
-                break
+            if lu is None:
+                _, auxj = self._residual(x, depth, Dloc, fd=_FD if nr > 1e-5 else _FD_FINE)
+                try:
+                    lu = lu_factor(auxj["J"], check_finite=False)
+                except (ValueError, np.linalg.LinAlgError):
+                    break
+                fresh = True
+            dx = -lu_solve(lu, r, check_finite=False)
             big = np.max(np.abs(dx) / mstep) if dx.size else 0.0
             if big > 1.0:
                 dx = dx / big
             lam = 1.0
-            for _ in range(12):
+            ok = False
+            for _ in range(12 if fresh else 1):
                 xn = np.clip(x + lam * dx, lo, hi)
-                rn, auxn = self._residual(xn, depth, Dloc)
+                rn, _ = self._residual(xn, depth, Dloc, derivs=False)
                 nrn = float(np.max(np.abs(rn)))
-                if nrn < nr or nrn < tol:
+                n2n = float(rn @ rn)
+                # fresh Jacobian: Armijo on ½|r|²; reused one: demand a clear contraction
+                if nrn < tol or n2n < ((1.0 - 1e-4 * lam) if fresh else 0.25) * n2:
+                    ok = True
                     break
                 lam *= 0.5
-            else:
-                break
-            x, r, aux, nr = xn, rn, auxn, nrn
+            if not ok:
+                if fresh:
+                    break
+                lu = None  # refresh the Jacobian at the current point and retry
+                continue
+            if not fresh and nrn > 0.05 * nr:
+                lu = None  # slow contraction: refresh the Jacobian for the next step
+            x, r, nr, n2 = xn, rn, nrn, n2n
+            fresh = False
         else:
             converged = nr < tol
-        return self._state(x, depth, Dloc, aux, converged, it)
+        self._lu = lu
+        _, aux = self._residual(x, depth, Dloc, derivs=False)
+        return self._state(x, depth, Dloc, aux, converged, it, lu)
 
-    def _state(self, x, depth, Dloc, aux, converged, it):
-        n, nb = self.n_panels, self.round_idx.size
+    def _state(self, x, depth, Dloc, aux, converged, it, lu=None):
+        n = self.n_panels
         xr, B = x[:n], x[n:]
-        fst, fp, clen, fx, fD = self._forces(xr, Dloc, aux["h"], aux["psi"])
+        fst, fp, clen, _, _ = self._forces(xr, Dloc, aux["h"], aux["psi"])
         nbod = self.n_bodies
         own = self.owner
         F_st = np.bincount(own, fst, minlength=nbod) if n else np.zeros(nbod)
         F_p = np.bincount(own, fp, minlength=nbod) if n else np.zeros(nbod)
         C = np.bincount(own, clen, minlength=nbod) if n else np.zeros(nbod)
+        if self.round_idx.size:
+            Deff, hin = aux["Deff"], aux["hin"]
+            for j, (law, i) in enumerate(zip(self.laws, self.round_idx)):
+                d = Deff[j]
+                F_st[i] = law("surface_tension", d)
+                F_p[i] = law("pressure", d) + min(hin[j], 0.0) * law("proj", d)
+                C[i] = law("length", d)
+        st = State(force=F_st + F_p, surface_tension=F_st, pressure=F_p, contact_length=C,
+                   panel_x=self.px.copy(), panel_y=self.py.copy(),
+                   panel_h=aux["h"], panel_psi=aux["psi"], converged=bool(converged), x=x,
+                   iterations=it, layout=self, virtual_h=aux["hv"], virtual_slope=aux["gv"], B=B,
+                   depth=depth.copy(), effective_depth=aux.get("Deff", np.zeros(0)))
+        st._lazy = (Dloc, lu)
+        return st
+
+    def _derivatives(self, st: State):
+        """dx/dD and dF/dD of a solved state (implicit-function theorem on the Jacobian)."""
+        Dloc, lu = st._lazy
+        x, depth = st.x, st.depth
+        n, nb = self.n_panels, self.round_idx.size
+        _, aux = self._residual(x, depth, Dloc, fd=_FD_FINE)
+        _, _, _, fx, fD = self._forces(x[:n], Dloc, aux["h"], aux["psi"])
+        nbod = self.n_bodies
+        own = self.owner
         # ∂F/∂x (nbod × nx) and ∂F/∂D (nbod × nbod) at fixed x; ∂r/∂D (nx × nbod)
         Fx = np.zeros((nbod, n + nb))
         FD = np.zeros((nbod, nbod))
-        if n:
-            Fx[own, np.arange(n)] = fx
-            FD += self.E.T * fD[None, :] @ self.E
         rD = np.zeros((n + nb, nbod))
         if n:
+            Fx[own, np.arange(n)] = fx
+            FD += (self.E.T * fD[None, :]) @ self.E
             rD[:n] = (aux["gv_D"][:, None] * self.E) - self.M @ (aux["hv_D"][:, None] * self.E)
         if nb:
             Deff, hin = aux["Deff"], aux["hin"]
             for j, (law, i) in enumerate(zip(self.laws, self.round_idx)):
                 d = Deff[j]
-                corr = min(hin[j], 0.0)
-                F_st[i] = law("surface_tension", d)
-                F_p[i] = law("pressure", d) + corr * law("proj", d)
-                C[i] = law("length", d)
                 dF = law("force", d, 1)
                 dFh = -dF + (law("proj", d) if hin[j] < 0 else 0.0)   # ∂F/∂h_in
                 # h_in = Q hv(x) + Z B
@@ -684,15 +753,29 @@ class Layout:
             dB = aux["dB"]
             hinD = self.Q @ (aux["hv_D"][:, None] * self.E)        # ∂h_in/∂D at fixed x
             rD[n:] = -dB[:, None] * (self.Eb - hinD)
+        dxdD = self._sensitivity(aux["J"], rD, lu)
+        dF = FD + Fx @ dxdD if dxdD is not None else np.full((nbod, nbod), np.nan)
+        return dxdD, dF
+
+    def _sensitivity(self, J, rD, lu):
+        """dx/dD = −J⁻¹ ∂r/∂D: iterative refinement on the factorised (possibly older) Jacobian,
+        a fresh factorisation if that does not converge."""
+        from scipy.linalg import lu_factor, lu_solve
+
+        if rD.size == 0:
+            return np.zeros_like(rD)
+        scale = float(np.max(np.abs(rD))) or 1.0
+        if lu is not None:
+            y = -lu_solve(lu, rD, check_finite=False)
+            for _ in range(30):
+                res = -rD - J @ y
+                if float(np.max(np.abs(res))) < 1e-10 * scale:
+                    return y
+                y = y + lu_solve(lu, res, check_finite=False)
         try:
-            dxdD = -np.linalg.solve(aux["J"], rD)
-            dF = FD + Fx @ dxdD
-        except np.linalg.LinAlgError:
-            dF = np.full((nbod, nbod), np.nan)
-        return State(force=F_st + F_p, surface_tension=F_st, pressure=F_p, contact_length=C,
-                     dforce_ddepth=dF, panel_x=self.px.copy(), panel_y=self.py.copy(),
-                     panel_h=aux["h"], panel_psi=aux["psi"], converged=bool(converged), x=x,
-                     iterations=it, layout=self, virtual_h=aux["hv"], virtual_slope=aux["gv"], B=B)
+            return -lu_solve(lu_factor(J, check_finite=False), rD, check_finite=False)
+        except (ValueError, np.linalg.LinAlgError):
+            return None
 
     # -- field ----------------------------------------------------------------------------------
     def _field(self, st: State, x, y):
@@ -719,7 +802,7 @@ class Layout:
 # Limits
 
 
-def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.05, tol: float = 1e-7,
+def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: float = 1e-5,
           start=None) -> dict:
     """Depth and force of body ``body`` at its limit (largest force over its own depth).
 
@@ -728,8 +811,8 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.05, tol: fl
 
     The depth is raised from a shallow start in steps (warm-started solves) until the force
     falls, or until no solution exists beyond a fold of the branch or a rod floods (φ → π);
-    the limit is then found by golden-section search on the force (to ``tol`` in depth; the
-    force is stationary there), or by bisection on the last solvable depth at a fold.
+    the limit is then found by a bounded scalar search on the force (to ``tol`` in depth; the
+    force is stationary there: Brent's bounded method), or by bisection on the last solvable depth at a fold.
 
     Returns
     -------
@@ -768,6 +851,14 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.05, tol: fl
         return s, ok
 
     st, ok = run(d0, start)
+    for _ in range(4):  # a round body pushed off its branch by the neighbours' field: shift
+        if ok or not (isinstance(body, (int, np.integer)) and layout.bodies[b] is not None
+                      and isinstance(layout.bodies[b], RoundBody) and st.converged):
+            break
+        j = int(np.flatnonzero(layout.round_idx == b)[0])
+        law = layout.laws[j]
+        d0 += (law.lo + 0.3 * (law.hi - law.lo)) - st.effective_depth[j]
+        st, ok = run(d0, None)
     if not ok:
         raise _conv_error(f"limit: no solution at the start depth {d0:.4g} of body {body}")
     pts = [(d0, obj(st), st)]
@@ -801,27 +892,21 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.05, tol: fl
     if k == 0:
         return _lim(srt[0], False)
     a_, c_ = srt[k - 1][0], srt[min(k + 1, len(srt) - 1)][0]
-    g = 0.5 * (math.sqrt(5) - 1)
+    from scipy.optimize import minimize_scalar
+
     cache = {}
 
-    def F(dv):
-        s, okv = run(dv, srt[k][2])
-        cache[dv] = s
-        return obj(s) if okv else -np.inf
+    def negF(dv):
+        s_, okv = run(dv, cache.get("last", srt[k][2]))
+        if okv:
+            cache["last"] = s_
+        cache[dv] = (s_, okv)
+        return -obj(s_) if okv else np.inf
 
-    x1, x2 = c_ - g * (c_ - a_), a_ + g * (c_ - a_)
-    f1, f2 = F(x1), F(x2)
-    while c_ - a_ > tol:
-        if f1 > f2:
-            c_, x2, f2 = x2, x1, f1
-            x1 = c_ - g * (c_ - a_)
-            f1 = F(x1)
-        else:
-            a_, x1, f1 = x1, x2, f2
-            x2 = a_ + g * (c_ - a_)
-            f2 = F(x2)
-    dv = x1 if f1 > f2 else x2
-    best = (dv, max(f1, f2), cache[dv])
+    res = minimize_scalar(negF, bounds=(a_, c_), method="bounded", options={"xatol": tol})
+    dv = float(res.x)
+    s_best, ok_best = cache[dv] if dv in cache else run(dv, srt[k][2])
+    best = (dv, obj(s_best), s_best) if ok_best else srt[k]
     if srt[k][1] > best[1]:
         best = srt[k]
     return _lim(best, False)
@@ -839,6 +924,11 @@ def _conv_error(msg):
 
 
 def _not_flooded(layout: Layout, st: State, b: int) -> bool:
+    """False if a side panel of rod b floods (φ = π) or round body b leaves its branch."""
+    j = np.flatnonzero(layout.round_idx == b)
+    if j.size:
+        law = layout.laws[int(j[0])]
+        return bool(law.lo <= st.effective_depth[j[0]] <= law.hi)
     n = layout.n_panels
     m = (layout.owner == b) & layout.side
     return not np.any(st.x[:n][m] >= PI - 1e-9)
