@@ -13,8 +13,11 @@ Figures, measured side by side in one run:
 * ``ia_skimmer_limit_force``, baseline ``old_skimmer_limit_force``: that largest force [σ l_c]
   against the uncoupled sum of twelve ``core.finite_rod.limit`` (the model it replaces), and
   ``old_skimmer_limit_s`` its time;
-* ``ia_warm_solve_s_n12/n24/n48`` and ``ia_limit_s_n48``: cost growth with the element count
-  (hubs of 12 rods side by side).
+* ``ia_warm_solve_s_n12/n24/n48`` and ``ia_limit_s_n12/n24/n48``: cost growth with the element
+  count (hubs of 12 rods side by side, 18 l_c apart);
+* ``..._cpu_s``: the same as process CPU time (less sensitive to other jobs on a shared machine).
+
+Run from the worktree root: ``PYTHONPATH=. python tests/benchmarks/bench_interactions.py``.
 
 The machine is shared: set OPENBLAS_NUM_THREADS=1 (done below before NumPy is imported when
 run as a script) so the dense linear algebra does not fight other jobs for both cores.
@@ -52,12 +55,13 @@ def skimmer(cx=0.0, cy=0.0):
 
 def _warm(lay, n, steps=20):
     st = lay.solve(np.full(n, 1.0))
-    ts = []
+    ts, cs = [], []
     for k in range(steps):
-        t = time.perf_counter()
+        t, c = time.perf_counter(), time.process_time()
         st = lay.solve(np.full(n, 1.0 + 0.01 * (k + 1)), start=st)
         ts.append(time.perf_counter() - t)
-    return float(np.median(ts)), st
+        cs.append(time.process_time() - c)
+    return float(np.median(ts)), float(np.median(cs))
 
 
 def run(quick: bool = False) -> dict:
@@ -73,10 +77,11 @@ def run(quick: bool = False) -> dict:
     t = time.perf_counter()
     st = lay.solve(np.full(12, 1.0))
     out["ia_skimmer_cold_solve_s"] = time.perf_counter() - t
-    out["ia_skimmer_warm_solve_s"], _ = _warm(lay, 12, 10 if quick else 20)
-    t = time.perf_counter()
+    out["ia_skimmer_warm_solve_s"], out["ia_skimmer_warm_solve_cpu_s"] = _warm(lay, 12, 10 if quick else 20)
+    t, c = time.perf_counter(), time.process_time()
     lim = ia.limit(lay, np.zeros(12), "all")
     out["ia_skimmer_limit_s"] = time.perf_counter() - t
+    out["ia_skimmer_limit_cpu_s"] = time.process_time() - c
     out["ia_skimmer_limit_force"] = lim["force"]
     out["ia_skimmer_limit_depth"] = lim["depth"]
     t = time.perf_counter()
@@ -88,11 +93,13 @@ def run(quick: bool = False) -> dict:
         t = time.perf_counter()
         lay_m = ia.Layout(bs, 1.0)
         out[f"ia_build_s_n{12 * m}"] = time.perf_counter() - t
-        out[f"ia_warm_solve_s_n{12 * m}"], _ = _warm(lay_m, 12 * m, 5 if quick else 10)
-        if m == 4:
-            t = time.perf_counter()
-            ia.limit(lay_m, np.zeros(12 * m), "all")
-            out["ia_limit_s_n48"] = time.perf_counter() - t
+        out[f"ia_panels_n{12 * m}"] = lay_m.n_panels
+        out[f"ia_warm_solve_s_n{12 * m}"], out[f"ia_warm_solve_cpu_s_n{12 * m}"] = _warm(lay_m, 12 * m,
+                                                                                       5 if quick else 10)
+        t, c = time.perf_counter(), time.process_time()
+        ia.limit(lay_m, np.zeros(12 * m), "all")
+        out[f"ia_limit_s_n{12 * m}"] = time.perf_counter() - t
+        out[f"ia_limit_cpu_s_n{12 * m}"] = time.process_time() - c
     out["ia_cost_growth_warm_n48_over_n12"] = out["ia_warm_solve_s_n48"] / out["ia_warm_solve_s_n12"]
     return out
 

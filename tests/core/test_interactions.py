@@ -272,7 +272,7 @@ def test_keller_theorem_on_the_linear_outer_field():
     # error at the rod's corners (about 1.7 % at this mesh; the linear identity
     # ∫h dA = −∮ ∂ₙh ds is checked to 2.5 %).
     R, L = 0.1, 3.0
-    lay = ia.Layout([ia.RodBody(0.0, 0.0, 0.0, L, R, TH)], 2.0)
+    lay = ia.Layout([ia.RodBody(0.0, 0.0, 0.0, L, R, TH)], 2.0, end_panel=1.0, growth=1.5)
     st = lay.solve(np.array([0.2]))
     assert st.converged
     xa, wa = _composite([0, 0.5, 1.0, 1.4, 1.5, 1.6, 2.0, 3.0, 4.5, 6.5, 9.0])
