@@ -33,10 +33,12 @@ os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 
 import numpy as np  # noqa: E402
 
+# Targets on process CPU time: on the shared 2-core machine the wall time of a single-threaded
+# run is inflated by the other jobs' load (printed beside it).
 TARGETS = {
-    "ia_skimmer_warm_solve_s": ("<=", 0.01),
-    "ia_skimmer_limit_s": ("<=", 0.1),
-    "ia_limit_s_n48": ("<=", 1.0),
+    "ia_skimmer_warm_solve_cpu_s": ("<=", 0.01),
+    "ia_skimmer_limit_cpu_s": ("<=", 0.1),
+    "ia_limit_cpu_s_n48": ("<=", 1.0),
 }
 
 LC_MM = math.sqrt(0.07275 / (998.2 * 9.80665)) * 1e3   # water at 20 °C (IAPWS σ, Tanaka ρ)
@@ -68,7 +70,7 @@ def run(quick: bool = False) -> dict:
     from floatcalc.core import finite_rod
     from floatcalc.core import interactions as ia
 
-    out = {}
+    out = {"load_average_1min": os.getloadavg()[0], "cores": os.cpu_count()}
     bodies = skimmer()
     t = time.perf_counter()
     lay = ia.Layout(bodies, 1.0)
