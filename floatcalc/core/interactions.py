@@ -674,7 +674,27 @@ class Layout:
             Slope of each rod's axis (the end along the heading lower for positive tilt).
         start : State or array, optional
             Warm start (a nearby solved state).
+
+        Without a warm start, a solve that fails from the built-in first guess (the isolated
+        2D state of every section) is retried by continuation: from all bodies at the
+        shallowest of the depths, in 4 and then 16 steps, warm-starting each.
         """
+        st = self._solve(depth, tilt, start, tol, max_iter)
+        if st.converged or start is not None:
+            return st
+        depth = np.asarray(depth, dtype=float).reshape(self.n_bodies)
+        base = np.full(self.n_bodies, float(np.min(depth)))
+        for k in (4, 16):
+            s = self._solve(base, tilt, None, tol, max_iter)
+            for t in np.linspace(0.0, 1.0, k + 1)[1:]:
+                if not s.converged:
+                    break
+                s = self._solve(base + t * (depth - base), tilt, s, tol, max_iter)
+            if s.converged:
+                return s
+        return st
+
+    def _solve(self, depth, tilt, start, tol, max_iter) -> State:
         depth = np.asarray(depth, dtype=float).reshape(self.n_bodies)
         tilt = None if tilt is None else np.asarray(tilt, dtype=float).reshape(self.n_bodies)
         Dloc = self._local_depth(depth, tilt)
