@@ -188,19 +188,34 @@ def test_end_contribution_bounded(R, theta_deg):
 
 @settings(max_examples=12)
 @given(R=st_.floats(0.02, 0.5), theta=st_.floats(math.radians(95), math.radians(165)),
-       L=st_.floats(2.0, 40.0), frac=st_.floats(0.2, 1.0))
-def test_finite_rod_respects_contact_line_and_pressure_bounds(R, theta, L, frac):
+       L=st_.floats(2.0, 40.0), frac=st_.floats(0.2, 1.0), tilt=st_.floats(-0.02, 0.02))
+def test_finite_rod_respects_contact_line_and_pressure_bounds(R, theta, L, frac, tilt):
     # PHYSICS.md bounds (every model must respect them): vertical surface-tension force ≤
     # σ × contact-line length; pressure part ≤ ρg × deepest wetted depth × horizontal
-    # projection (2R L). At a random depth up to the 2D limit depth.
+    # projection (2R L). At a random depth up to 0.9 of the 2D limit depth, slightly tilted.
     L = max(L, 4 * R)
     lay = ia.Layout([ia.RodBody(0.0, 0.0, 1.0, L, R, theta)], 1.0)
-    D = frac * float(rod2d.limit_force(R, theta)["depth"])
-    st = lay.solve(np.array([D]))
+    D = 0.9 * frac * float(rod2d.limit_force(R, theta)["depth"])
+    tilt = min(abs(tilt), 0.05 * D / L) * math.copysign(1.0, tilt)
+    st = lay.solve(np.array([D]), np.array([tilt]))
     assert st.converged
     assert st.surface_tension[0] <= st.contact_length[0] * (1 + 1e-12)
     assert st.contact_length[0] <= 2 * L + 4 * R + 1e-12
-    assert 0 <= st.pressure[0] <= D * 2 * R * L * (1 + 1e-12)
+    deepest = D + abs(tilt) * L / 2
+    assert 0 <= st.pressure[0] <= deepest * 2 * R * L * (1 + 1e-12)
+
+
+def test_small_tilt_is_second_order_for_a_symmetric_rod():
+    # Symmetry: a rod tilted by ±τ about its centre is the same problem mirrored, so its force
+    # is even in τ (the first-order change vanishes); independent of the solver's internals.
+    R, L = 0.06, 6.0
+    lay = ia.Layout([ia.RodBody(0.0, 0.0, 0.7, L, R, TH)], 1.0)
+    D = 1.0
+    f0 = lay.solve(np.array([D])).force[0]
+    fp = lay.solve(np.array([D]), np.array([0.01])).force[0]
+    fm = lay.solve(np.array([D]), np.array([-0.01])).force[0]
+    assert fp == pytest.approx(fm, rel=1e-8)
+    assert abs(fp - f0) < 1e-3 * f0
 
 
 @settings(max_examples=8)
