@@ -386,7 +386,60 @@ class Layout:
         self._prepare()
 
     # -- geometry -------------------------------------------------------------------------------
+    def _check(self):
+        """Reject bad geometry and overlapping footprints (InputError, one line)."""
+        from ..errors import input_error
+
+        for i, b in enumerate(self.bodies):
+            if isinstance(b, RodBody):
+                if not (b.radius > 0 and b.length >= 4 * b.radius and 0 <= b.theta <= PI):
+                    raise input_error(f"bodies[{i}]", "rod needs radius > 0, length >= 4 radii, "
+                                      "0 <= theta <= pi", b)
+            elif isinstance(b, RoundBody):
+                if b.kind not in ("ball", "pad", "pin", "ring"):
+                    raise input_error(f"bodies[{i}].kind", "one of ball, pad, pin, ring", b.kind)
+            else:
+                raise input_error(f"bodies[{i}]", "a RodBody or RoundBody", type(b).__name__)
+
+        def seg(b):
+            if isinstance(b, RodBody):
+                h = 0.5 * b.length
+                c, t = np.array([b.cx, b.cy]), np.array([math.cos(b.heading), math.sin(b.heading)])
+                return c - h * t, c + h * t, b.radius
+            p = b.params
+            a = {"ball": p.get("radius"), "pad": p.get("radius"), "pin": p.get("radius"),
+                 "ring": p.get("ring_radius", 0.0) + p.get("wire_radius", 0.0)}[b.kind]
+            c = np.array([b.cx, b.cy])
+            return c, c, float(a)
+
+        def pt_seg(p, a, b):
+            d = b - a
+            L2 = float(d @ d)
+            t = 0.0 if L2 == 0 else min(1.0, max(0.0, float((p - a) @ d) / L2))
+            return float(np.hypot(*(p - a - t * d)))
+
+        def dist(p1, q1, p2, q2):
+            """Shortest distance between the plan segments p1q1 and p2q2."""
+            d1, d2, r = q1 - p1, q2 - p2, p2 - p1
+            den = d1[0] * d2[1] - d1[1] * d2[0]
+            if abs(den) > 1e-14:  # proper crossing?
+                t = (r[0] * d2[1] - r[1] * d2[0]) / den
+                u = (r[0] * d1[1] - r[1] * d1[0]) / den
+                if 0.0 <= t <= 1.0 and 0.0 <= u <= 1.0:
+                    return 0.0
+            return min(pt_seg(p1, p2, q2), pt_seg(q1, p2, q2), pt_seg(p2, p1, q1), pt_seg(q2, p1, q1))
+
+        segs = [seg(b) for b in self.bodies]
+        for i in range(len(segs)):
+            for j in range(i + 1, len(segs)):
+                p1, q1, r1 = segs[i]
+                p2, q2, r2 = segs[j]
+                if dist(p1, q1, p2, q2) < r1 + r2:
+                    raise input_error(f"bodies[{i}], bodies[{j}]", "footprints must not overlap in plan",
+                                      "overlapping elements")
+
     def _build(self, ppl):
+        self._check()
         from scipy.special import k0, k1
 
         rods = [i for i, b in enumerate(self.bodies) if isinstance(b, RodBody)]

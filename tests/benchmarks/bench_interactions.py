@@ -14,7 +14,7 @@ Figures, measured side by side in one run:
   against the uncoupled sum of twelve ``core.finite_rod.limit`` (the model it replaces), and
   ``old_skimmer_limit_s`` its time;
 * ``ia_warm_solve_s_n12/n24/n48`` and ``ia_limit_s_n12/n24/n48``: cost growth with the element
-  count (hubs of 12 rods side by side, 18 l_c apart);
+  count (hubs of 12 rods side by side, 24 l_c apart);
 * ``..._cpu_s``: the same as process CPU time (less sensitive to other jobs on a shared machine).
 
 Run from the worktree root: ``PYTHONPATH=. python tests/benchmarks/bench_interactions.py``.
@@ -91,7 +91,7 @@ def run(quick: bool = False) -> dict:
     out["old_skimmer_limit_s"] = time.perf_counter() - t
     out["old_skimmer_limit_force"] = old
     for m in (1, 2, 4):
-        bs = [b for k in range(m) for b in skimmer(cx=18.0 * k)]
+        bs = [b for k in range(m) for b in skimmer(cx=24.0 * k)]
         t = time.perf_counter()
         lay_m = ia.Layout(bs, 1.0)
         out[f"ia_build_s_n{12 * m}"] = time.perf_counter() - t

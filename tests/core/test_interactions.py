@@ -370,3 +370,15 @@ def test_isolated_limit_of_a_rod_is_2d_plus_bounded_end():
     lim = ia.isolated_limit(ia.RodBody(0.0, 0.0, 0.0, 10.0, R, TH), 1.0)
     f2 = float(rod2d.limit_force(R, TH)["force"])
     assert abs(lim["force"] - 10.0 * f2) < 2 * (2 * math.pi * R + math.pi * R * R * lim["depth"])
+
+
+def test_overlapping_or_bad_bodies_are_rejected():
+    # House rule: bad input raises InputError with a one-line message.
+    from floatcalc.errors import InputError
+
+    with pytest.raises(InputError, match="must not overlap"):
+        ia.Layout([ia.RodBody(0, 0, 0, 4.0, 0.1, TH), ia.RodBody(0, 0, 1.5, 4.0, 0.1, TH)])
+    with pytest.raises(InputError, match="kind"):
+        ia.Layout([ia.RoundBody(0, 0, "cube", {"theta": TH})])
+    with pytest.raises(InputError, match="rod needs"):
+        ia.Layout([ia.RodBody(0, 0, 0, 0.1, 0.1, TH)])
