@@ -53,11 +53,13 @@ solution's own (read from the far-field start of the axisymmetric shooting,
 contact circle, h_in, acts as a change of the far level: the body's state is its isolated state
 at the effective depth D − h_in. The pressure gain of sitting in a depressed region (h_in > 0)
 is left out (safe side, at most h_in × the body's wetted projection); a loss (h_in < 0) is
-kept. The angular modes m ≥ 1 of the incoming field are neglected: their effect on the force
-is second order in the incoming slope across the body (relative error about
-(a ∂h_in/∂r / h_in)² ≲ (a/d)² for a body of radius a at distance d from a neighbour). Under
-this scheme a round body's limit force with neighbours equals its limit alone (its limit depth
-shifts); rods get the full nonlinear gap effect.
+kept. The angular modes m ≥ 1 of the incoming field are neglected (and a round body
+scatters its neighbours' fields only through its own mode 0): a gradient across the body tilts
+its meniscus, whose vertical force changes only at second order, so the coupling term carries
+a relative error of order (a |∇h_in| / h_in)² ≈ a² (a in l_c; for a neighbour a few l_c away
+|∇h_in|/h_in = K₁/K₀ → 1). The nonlinear gap effect that lowers the limit of two close rods
+is not captured for round bodies: under this scheme a round body's limit force with
+neighbours equals its limit alone (only its limit depth shifts); rods get the full effect.
 
 **Solution and limits.** Newton's method on all unknowns at once with the dense Jacobian; the
 factorised Jacobian is kept between solves (chord steps, refreshed when a step contracts the
