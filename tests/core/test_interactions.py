@@ -382,3 +382,14 @@ def test_overlapping_or_bad_bodies_are_rejected():
         ia.Layout([ia.RoundBody(0, 0, "cube", {"theta": TH})])
     with pytest.raises(InputError, match="rod needs"):
         ia.Layout([ia.RodBody(0, 0, 0, 0.1, 0.1, TH)])
+
+
+def test_round_body_with_close_neighbour_warns():
+    # Safe-side rule: the mode-0 coupling cannot lower a round body's limit the way a shared
+    # meniscus does, so a close neighbour must produce a warning with the size of the effect
+    # (estimated from the exact 2D pair, parallel2d).
+    th = math.radians(110)
+    near = ia.Layout([ia.RodBody(0, 0, 0, 5.0, 0.05, th), ia.RoundBody(0, 0.8, "ball", {"radius": 0.3, "theta": th})])
+    far = ia.Layout([ia.RodBody(0, 0, 0, 5.0, 0.05, th), ia.RoundBody(0, 5.0, "ball", {"radius": 0.3, "theta": th})])
+    assert len(near.warnings) == 1 and "% lower" in near.warnings[0]
+    assert far.warnings == ()
