@@ -1,0 +1,395 @@
+"""Solved 3D meniscus interaction model (floatcalc.core.interactions, floatcalc.core.inner2d).
+
+Independent references named beside each check:
+
+* exact 2D shared meniscus of parallel rods, turning-point first integral (Vella, Lee & Kim,
+  Langmuir 22, 5979, 2006), as implemented in floatcalc.core.parallel2d (itself checked there
+  against a direct solve_ivp integration of Young–Laplace);
+* direct integration of the 2D Young–Laplace equation in arclength form with scipy's solve_ivp
+  (independent of both quadratures);
+* the closed-form 2D profile x(ψ) = −ln tan(ψ/4) − 2 cos(ψ/2) + const (far-field amplitude);
+* the exact 2D single-rod law (floatcalc.core.rod2d, Vella, Lee & Kim 2006);
+* the exact axisymmetric laws of floatcalc.core.round_bodies (shooting on Young–Laplace);
+* Keller's theorem (Phys. Fluids 10, 3009, 1998) and the bounds of PHYSICS.md.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from scipy.integrate import solve_ivp
+
+from floatcalc.core import inner2d, parallel2d, rod2d
+
+# ---------------------------------------------------------------------------------------------
+# The inner map (pure 1D/2D)
+
+
+@pytest.mark.parametrize("psi", [0.05, 0.7, 1.5707963, 2.4, 3.0])
+def test_isolated_amplitude_matches_closed_form_profile(psi):
+    # Source: closed-form isolated 2D profile x(ψ) = −ln tan(ψ/4) − 2 cos(ψ/2) + const with
+    # h = 2 sin(ψ/2) (first integral, Vella, Lee & Kim 2006). Far away h·e^{x − x_c} → A: the
+    # check evaluates the profile itself at ψ = 1e-7 (tolerance: the O(ψ²) tail, 1e-12).
+    h_c = 2 * math.sin(psi / 2)
+    a, b = inner2d.amplitudes(h_c, psi)
+    p_far = 1e-7
+    x_far = (-math.log(math.tan(p_far / 4)) - 2 * math.cos(p_far / 2)) - (
+        -math.log(math.tan(psi / 4)) - 2 * math.cos(psi / 2))
+    A_profile = 2 * math.sin(p_far / 2) * math.exp(x_far)
+    assert float(a) == pytest.approx(A_profile, rel=1e-9)
+    assert abs(float(b)) < 1e-14
+
+
+def _ode_distance(h0, psi0, stop):
+    """Integrate dh/ds = −sin ψ, dn/ds = cos ψ, dψ/ds = −h from the contact state outward to
+    the event ``stop`` ("turn": ψ = 0, "cross": h = 0). Returns (n, h, ψ) there."""
+    def rhs(s, y):
+        h, n, p = y
+        return [-math.sin(p), math.cos(p), -h]
+
+    ev = (lambda s, y: y[2]) if stop == "turn" else (lambda s, y: y[0])
+    ev.terminal = True
+    sol = solve_ivp(rhs, (0, 50), [h0, 0.0, psi0], events=ev, rtol=1e-12, atol=1e-14)
+    return sol.y_events[0][0]
+
+
+@pytest.mark.parametrize("h0,psi0", [(1.3, 0.9), (0.4, 0.2), (0.25, 1.2), (0.05, 0.6), (1.8, 2.5)])
+def test_virtual_data_reproduce_turning_point_or_crossing(h0, psi0):
+    # Independent method: solve_ivp on the 2D Young–Laplace equation in arclength form gives the
+    # distance N to the turning point (E < 0) or to the zero crossing (E > 0) and the state
+    # there; the virtual linear solution a e^{−n} + b e^{n} must have the same turning point
+    # (h_m at n = N, zero slope) or the same zero crossing, and the same invariant.
+    E = 2 * (1 - math.cos(psi0)) - h0 * h0
+    a, b = (float(v) for v in inner2d.amplitudes(h0, psi0))
+    if E < 0:
+        h, n, p = _ode_distance(h0, psi0, "turn")
+        assert n == pytest.approx(0.5 * math.log(a / b), abs=1e-8)          # turning point at N
+        assert 2 * math.sqrt(a * b) == pytest.approx(h, rel=1e-8)         # of depth h_m
+    else:
+        h, n, p = _ode_distance(h0, psi0, "cross")
+        assert n == pytest.approx(0.5 * math.log(-a / b), abs=1e-8)        # zero crossing at N
+        assert 2 * math.sqrt(-a * b) == pytest.approx(math.sqrt(E), rel=1e-8)
+
+
+@pytest.mark.parametrize("R,theta_deg,S", [(0.09, 115.0, 1.0), (0.3, 150.0, 1.5), (0.05, 100.0, 0.7),
+                                           (0.2, 125.0, 3.0)])
+def test_inner_map_exact_in_a_gap(R, theta_deg, S):
+    # Source: exact shared meniscus of two parallel rods (turning-point first integral, Vella,
+    # Lee & Kim 2006; floatcalc.core.parallel2d.turning_depth). In the gap the outer linear
+    # solution is h_m cosh(n − N): the virtual data carried to the panel line at distance R from
+    # the rod axis must be h_m cosh(S/2 − R) and −h_m sinh(S/2 − R). Tolerance 1e-6 (brief);
+    # both quadratures are good to about 1e-10.
+    th = math.radians(theta_deg)
+    phis = np.linspace(math.pi - th + 0.05, math.pi - 0.05, 7)
+    phis = phis[0.5 * S - R * np.sin(phis) > 1e-3]
+    psi = phis + th - math.pi
+    hm = parallel2d.turning_depth(psi, 0.5 * S - R * np.sin(phis))
+    h = np.sqrt(hm * hm + 4 * np.sin(0.5 * psi) ** 2)
+    hv, gv = inner2d.virtual_data(h, psi, R * (1 - np.sin(phis)))
+    assert np.max(np.abs(hv - hm * np.cosh(0.5 * S - R))) < 1e-6
+    assert np.max(np.abs(gv + hm * np.sinh(0.5 * S - R))) < 1e-6
+
+
+def test_inner_map_small_slope_is_identity():
+    # Linear limit (h'' = h): the virtual data are the data themselves to O(ψ³).
+    h = np.array([1e-4, -2e-4, 3e-5])
+    psi = np.array([2e-4, 1e-4, -3e-4])
+    hv, gv = inner2d.virtual_data(h, psi)
+    assert np.allclose(hv, h, rtol=0, atol=1e-10)
+    assert np.allclose(gv, -psi, rtol=0, atol=1e-10)
+
+
+# ---------------------------------------------------------------------------------------------
+# The solved model
+
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st_  # noqa: E402
+
+from floatcalc.core import interactions as ia  # noqa: E402
+from floatcalc.core import round_bodies  # noqa: E402
+
+TH = math.radians(115)
+
+
+@pytest.mark.parametrize("gap", [0.5, 1.0, 2.0, 4.0, 6.0])
+@pytest.mark.parametrize("N", [2, 3])
+def test_2d_rows_limit_matches_parallel2d(gap, N):
+    # Source: exact shared meniscus of N parallel rods, turning-point first integral (Vella,
+    # Lee & Kim, Langmuir 22, 5979, 2006), floatcalc.core.parallel2d.row_limit. Gap is surface
+    # to surface. The solver's 2D mode uses the exact line-source kernel e^{−|x|}/2, so only the
+    # inner map and the matching are tested: agreement to 1e-5 (parallel2d tabulates its curve
+    # on 2401 depths; its limit force is good to about 1e-6). Brief asked for 2 % (aim 0.5 %).
+    R = 0.08
+    S = gap + 2 * R
+    lay = ia.Layout.parallel_2d(np.arange(N) * S, R, TH)
+    lim = ia.limit(lay, np.zeros(N), "all")
+    ref = parallel2d.row_limit(R, TH, S, N)
+    assert lim["force"] == pytest.approx(ref["force"], rel=1e-5)
+    assert lim["depth"] == pytest.approx(ref["depth"], abs=2e-3)
+
+
+def test_2d_row_force_depth_curve_matches_parallel2d():
+    # Same source; the whole push-down curve (not only the limit) at several depths, 1e-6.
+    R, S, N = 0.1, 1.1, 3
+    cur = parallel2d.row_curve(R, TH, S, N, n=2401)
+    lay = ia.Layout.parallel_2d(np.arange(N) * S, R, TH)
+    st = None
+    for j in np.linspace(cur["i_max"] // 5, cur["i_max"] - 1, 6).astype(int):   # from D > 0
+        st = lay.solve(np.full(N, cur["depth"][j]), start=st)
+        assert st.converged
+        assert st.force.sum() == pytest.approx(cur["force"][j], abs=1e-6)
+
+
+def test_2d_single_rod_is_the_exact_rod_law():
+    # Source: exact 2D law of a single rod (Vella, Lee & Kim 2006; floatcalc.core.rod2d).
+    R = 0.05
+    lay = ia.Layout.parallel_2d([0.0], R, TH)
+    lim = ia.limit(lay, np.zeros(1), 0)
+    ref = rod2d.limit_force(R, TH)
+    assert lim["force"] == pytest.approx(float(ref["force"]), rel=1e-9)
+    assert lim["depth"] == pytest.approx(float(ref["depth"]), abs=1e-4)
+
+
+def _rod_limit(L, R=0.06, theta=TH, ppl=1.0):
+    return ia.limit(ia.Layout([ia.RodBody(0.0, 0.0, 0.4, L, R, theta)], ppl), np.zeros(1), 0)
+
+
+def test_long_rod_force_per_length_tends_to_2d_law():
+    # Source: exact 2D rod law (Vella, Lee & Kim 2006). The difference of two long rods' limits
+    # cancels their (equal) end contributions: (F(40) − F(20))/20 → f_2D. Tolerance 1e-3: the
+    # limit depth still differs by O(1/L) between the two lengths, a second-order effect on a
+    # stationary force.
+    f2 = float(rod2d.limit_force(0.06, TH)["force"])
+    F20, F40 = _rod_limit(20.0)["force"], _rod_limit(40.0)["force"]
+    assert (F40 - F20) / 20.0 == pytest.approx(f2, rel=1e-3)
+    assert abs(F40 / 40.0 - f2) < abs(F20 / 20.0 - f2)
+
+
+@pytest.mark.parametrize("R,theta_deg", [(0.02, 100.0), (0.06, 115.0), (0.2, 130.0), (0.4, 150.0)])
+def test_end_contribution_bounded(R, theta_deg):
+    # Bound of the brief on one end cap, from the PHYSICS.md contact-line and pressure bounds:
+    # its contribution to the limit, (F(L) − f_2D L)/2, is below σ·2πR + ρg·πR²·D. Finding
+    # (not a tuned expectation): at the limit it comes out negative for all these rods (−0.03
+    # to −0.19 σ l_c): the meniscus spreads round the end, so near-end sections reach their
+    # optimum, or flood (φ → π, for θ near 90°), at a shallower depth than the 2D section. The
+    # old end-cap formula (core.finite_rod) added +0.6 to +2.3 σ l_c per end. A lower bound:
+    # an end cannot remove more than the 2D force of the graded end region (2 l_c of rod).
+    th = math.radians(theta_deg)
+    L = 12.0
+    lim = _rod_limit(L, R, th)
+    f2 = float(rod2d.limit_force(R, th)["force"])
+    end = (lim["force"] - f2 * L) / 2
+    bound = 2 * math.pi * R + math.pi * R * R * lim["depth"]
+    assert end < bound
+    assert end > -2.0 * f2
+
+
+@settings(max_examples=12)
+@given(R=st_.floats(0.02, 0.5), theta=st_.floats(math.radians(95), math.radians(165)),
+       L=st_.floats(2.0, 40.0), frac=st_.floats(0.2, 1.0), tilt=st_.floats(-0.02, 0.02))
+def test_finite_rod_respects_contact_line_and_pressure_bounds(R, theta, L, frac, tilt):
+    # PHYSICS.md bounds (every model must respect them): vertical surface-tension force ≤
+    # σ × contact-line length; pressure part ≤ ρg × deepest wetted depth × horizontal
+    # projection (2R L). At a random depth up to 0.9 of the 2D limit depth, slightly tilted.
+    L = max(L, 4 * R)
+    lay = ia.Layout([ia.RodBody(0.0, 0.0, 1.0, L, R, theta)], 1.0)
+    D = 0.9 * frac * float(rod2d.limit_force(R, theta)["depth"])
+    tilt = min(abs(tilt), 0.05 * D / L) * math.copysign(1.0, tilt)
+    st = lay.solve(np.array([D]), np.array([tilt]))
+    assert st.converged
+    assert st.surface_tension[0] <= st.contact_length[0] * (1 + 1e-12)
+    assert st.contact_length[0] <= 2 * L + 4 * R + 1e-12
+    deepest = D + abs(tilt) * L / 2
+    assert 0 <= st.pressure[0] <= deepest * 2 * R * L * (1 + 1e-12)
+
+
+def test_small_tilt_is_second_order_for_a_symmetric_rod():
+    # Symmetry: a rod tilted by ±τ about its centre is the same problem mirrored, so its force
+    # is even in τ (the first-order change vanishes); independent of the solver's internals.
+    R, L = 0.06, 6.0
+    lay = ia.Layout([ia.RodBody(0.0, 0.0, 0.7, L, R, TH)], 1.0)
+    D = 1.0
+    f0 = lay.solve(np.array([D])).force[0]
+    fp = lay.solve(np.array([D]), np.array([0.01])).force[0]
+    fm = lay.solve(np.array([D]), np.array([-0.01])).force[0]
+    assert fp == pytest.approx(fm, rel=1e-8)
+    assert abs(fp - f0) < 1e-3 * f0
+
+
+@settings(max_examples=8)
+@given(seed=st_.integers(0, 10_000), n=st_.integers(2, 4))
+def test_random_layouts_respect_bounds(seed, n):
+    # PHYSICS.md bounds over random non-overlapping layouts of rods and round bodies.
+    rng = np.random.default_rng(seed)
+    bodies = []
+    while len(bodies) < n:
+        c = rng.uniform(-4, 4, 2)
+        if any(math.hypot(c[0] - b.cx, c[1] - b.cy) < 3.5 for b in bodies):
+            continue
+        if rng.uniform() < 0.7:
+            bodies.append(ia.RodBody(float(c[0]), float(c[1]), float(rng.uniform(0, math.pi)), 3.0,
+                                     float(rng.uniform(0.03, 0.2)), float(rng.uniform(1.7, 2.7))))
+        else:
+            bodies.append(ia.RoundBody(float(c[0]), float(c[1]), "ball",
+                                       {"radius": 0.3, "theta": float(rng.uniform(1.8, 2.6))}))
+    lay = ia.Layout(bodies, 1.0)
+    depth = rng.uniform(0.3, 0.9, n)
+    st = lay.solve(depth)
+    assert st.converged
+    assert np.all(st.surface_tension <= st.contact_length * (1 + 1e-12))
+    for i, b in enumerate(bodies):
+        proj = 2 * b.radius * b.length if isinstance(b, ia.RodBody) else math.pi * 0.3 ** 2
+        assert st.pressure[i] <= depth[i] * proj * (1 + 1e-9)
+
+
+@pytest.mark.parametrize("kind,params", [
+    ("ball", {"radius": 0.3, "theta": math.radians(110)}),
+    ("pad", {"radius": 0.5, "thickness": 0.1, "theta": math.radians(110)}),
+    ("pin", {"radius": 0.1, "length": 1.0, "theta": math.radians(110)}),
+    ("ring", {"ring_radius": 1.5, "wire_radius": 0.08, "theta": math.radians(120)}),
+])
+def test_round_body_alone_is_its_axisymmetric_law(kind, params):
+    # Source: exact axisymmetric laws (Young–Laplace shooting) of floatcalc.core.round_bodies.
+    # The solved model with the body alone (no incoming field) must give the same limit, 1e-4.
+    body = ia.RoundBody(0.0, 0.0, kind, params)
+    lim = ia.limit(ia.Layout([body]), np.zeros(1), 0)
+    iso = ia.isolated_limit(body)
+    assert lim["force"] == pytest.approx(iso["force"], rel=1e-4)
+    assert lim["depth"] == pytest.approx(iso["depth"], abs=1e-3)
+
+
+def test_large_ring_footpad_alone_matches_ring_law():
+    # Source: ring footpad law of floatcalc.core.round_bodies (outer K0 and inner I0 shooting);
+    # a large ring (R_r = 5 l_c) alone and with a far rod (20 l_c away: coupling e^{-20}).
+    th = math.radians(120)
+    ring = ia.RoundBody(0.0, 0.0, "ring", {"ring_radius": 5.0, "wire_radius": 0.1, "theta": th})
+    ref, _ = round_bodies.ring_limit(5.0, 0.1, th)
+    far = ia.RodBody(25.0, 0.0, 0.0, 4.0, 0.05, th)
+    lim = ia.limit(ia.Layout([ring, far], 1.0), np.array([0.0, 0.5]), 0)
+    assert lim["force"] == pytest.approx(ref["force"], rel=1e-4)
+
+
+def _composite(edges, n=8):
+    x, w = np.polynomial.legendre.leggauss(n)
+    xs = [a + (b - a) * (x + 1) / 2 for a, b in zip(edges[:-1], edges[1:])]
+    ws = [(b - a) * w / 2 for a, b in zip(edges[:-1], edges[1:])]
+    return np.concatenate(xs), np.concatenate(ws)
+
+
+def test_keller_theorem_on_the_linear_outer_field():
+    # Keller's theorem (Phys. Fluids 10, 3009, 1998): the vertical surface-tension force equals
+    # the weight of liquid displaced by the meniscus outside the contact lines. Quadrature of
+    # the solved outer field over the plan (tensor Gauss grid on blocks whose edges follow the
+    # footprint, 9 l_c beyond it; converged to 1e-7) against the solved pull Σ ℓ sin ψ, for a
+    # rod at a shallow depth. Tolerance 5 %: the outer field is the *virtual* linear one (its
+    # tail differs from the nonlinear meniscus by O(ψ²) ≈ 1 % here, the 2D ratio
+    # A(ψ)/sin ψ − 1 ≈ ψ²/12 … ψ²/6), and the collocated normal slopes carry a midpoint-rule flux
+    # error at the rod's corners (about 1.7 % at this mesh; the linear identity
+    # ∫h dA = −∮ ∂ₙh ds is checked to 2.5 %).
+    R, L = 0.1, 3.0
+    lay = ia.Layout([ia.RodBody(0.0, 0.0, 0.0, L, R, TH)], 2.0, end_panel=1.0, growth=1.5)
+    st = lay.solve(np.array([0.2]))
+    assert st.converged
+    xa, wa = _composite([0, 0.5, 1.0, 1.4, 1.5, 1.6, 2.0, 3.0, 4.5, 6.5, 9.0])
+    yb, wb = _composite([R, R + 0.1, 0.4, 1.0, 2.0, 3.5, 5.5, 9.0])
+    ys, wys = _composite([0, R])
+    xe, we = _composite([L / 2, L / 2 + 0.1, 2.0, 3.0, 4.5, 6.5, 9.0])
+    X, Y = np.meshgrid(xa, yb)
+    total = 4 * np.sum(st.meniscus(X, Y) * np.outer(wb, wa))      # symmetric quadrants
+    X, Y = np.meshgrid(xe, ys)
+    total += 4 * np.sum(st.meniscus(X, Y) * np.outer(wys, we))
+    flux = -np.sum(lay.plen * st.virtual_slope)
+    assert total == pytest.approx(flux, rel=2.5e-2)
+    assert total == pytest.approx(st.surface_tension[0], rel=5e-2)
+
+
+def test_neighbours_lower_the_joint_limit():
+    # PHYSICS.md: bodies that share a meniscus each carry less at the limit than alone (exact
+    # for parallel rods, Vella, Lee & Kim 2006). Two and three parallel finite rods pushed down
+    # together, gap 1 l_c: total limit below N × the limit of one rod alone.
+    R, L = 0.06, 6.0
+    one = _rod_limit(L, R)["force"]
+    for N in (2, 3):
+        rods = [ia.RodBody(0.0, k * (1.0 + 2 * R), 0.0, L, R, TH) for k in range(N)]
+        lim = ia.limit(ia.Layout(rods, 1.0), np.zeros(N), "all")
+        assert lim["force"] < N * one
+        assert lim["force"] > 0.5 * N * one
+
+
+def test_round_body_with_a_neighbour_is_not_above_its_limit_alone():
+    # PHYSICS.md neighbour bound for the mode-0 coupling of round bodies: a ball beside a
+    # pushed rod reaches at most its limit alone (equal under this scheme: only its limit depth
+    # shifts; module docstring).
+    th = math.radians(110)
+    ball = ia.RoundBody(0.0, 0.8, "ball", {"radius": 0.3, "theta": th})
+    rod = ia.RodBody(0.0, 0.0, 0.0, 5.0, 0.05, th)
+    lim = ia.limit(ia.Layout([rod, ball], 1.0), np.array([1.0, 0.0]), 1)
+    alone = ia.isolated_limit(ball)["force"]
+    assert lim["force"] <= alone * (1 + 1e-6)
+    assert lim["depth"] > ia.isolated_limit(ball)["depth"]   # it sits in the rod's depression
+
+
+def test_parallel_finite_rods_approach_the_2d_pair():
+    # Source: exact 2D pair (Vella, Lee & Kim 2006; parallel2d.row_limit). Two long parallel
+    # rods (3D solve) at gap 1.2 l_c: the difference of the joint limits at L = 24 and 12 per
+    # unit length cancels the ends; within 0.5 % of the 2D pair (brief: 2 %).
+    R, gap = 0.06, 1.2
+    S = gap + 2 * R
+    F = []
+    for L in (12.0, 24.0):
+        rods = [ia.RodBody(0.0, 0.0, 0.0, L, R, TH), ia.RodBody(0.0, S, 0.0, L, R, TH)]
+        F.append(ia.limit(ia.Layout(rods, 1.0), np.zeros(2), "all")["force"])
+    ref = parallel2d.row_limit(R, TH, S, 2)["force"]
+    assert (F[1] - F[0]) / 12.0 == pytest.approx(ref, rel=5e-3)
+
+
+def test_dforce_ddepth_matches_finite_differences():
+    # Independent method: central differences of re-solved forces against the implicit-
+    # function-theorem sensitivities (tolerance 1e-4 relative: the difference step).
+    th = math.radians(120)
+    bodies = [ia.RodBody(0.0, 0.0, 0.0, 4.0, 0.08, th), ia.RodBody(0.0, 1.0, 0.2, 4.0, 0.08, th),
+              ia.RoundBody(3.0, 0.5, "ball", {"radius": 0.3, "theta": th})]
+    lay = ia.Layout(bodies, 2.0)
+    d = np.array([0.8, 0.7, 0.5])
+    st = lay.solve(d)
+    J = st.dforce_ddepth
+    eps = 1e-4
+    for j in range(3):
+        e = np.zeros(3)
+        e[j] = eps
+        fp, fm = lay.solve(d + e).force, lay.solve(d - e).force
+        fd = (fp - fm) / (2 * eps)
+        assert np.allclose(J[:, j], fd, rtol=1e-3, atol=1e-3 * np.max(np.abs(fd)))
+
+
+def test_isolated_limit_of_a_rod_is_2d_plus_bounded_end():
+    # Source: exact 2D law (Vella, Lee & Kim 2006) plus the contact-line bound on the ends.
+    R = 0.05
+    lim = ia.isolated_limit(ia.RodBody(0.0, 0.0, 0.0, 10.0, R, TH), 1.0)
+    f2 = float(rod2d.limit_force(R, TH)["force"])
+    assert abs(lim["force"] - 10.0 * f2) < 2 * (2 * math.pi * R + math.pi * R * R * lim["depth"])
+
+
+def test_overlapping_or_bad_bodies_are_rejected():
+    # House rule: bad input raises InputError with a one-line message.
+    from floatcalc.errors import InputError
+
+    with pytest.raises(InputError, match="must not overlap"):
+        ia.Layout([ia.RodBody(0, 0, 0, 4.0, 0.1, TH), ia.RodBody(0, 0, 1.5, 4.0, 0.1, TH)])
+    with pytest.raises(InputError, match="kind"):
+        ia.Layout([ia.RoundBody(0, 0, "cube", {"theta": TH})])
+    with pytest.raises(InputError, match="rod needs"):
+        ia.Layout([ia.RodBody(0, 0, 0, 0.1, 0.1, TH)])
+
+
+def test_round_body_with_close_neighbour_warns():
+    # Safe-side rule: the mode-0 coupling cannot lower a round body's limit the way a shared
+    # meniscus does, so a close neighbour must produce a warning with the size of the effect
+    # (estimated from the exact 2D pair, parallel2d).
+    th = math.radians(110)
+    near = ia.Layout([ia.RodBody(0, 0, 0, 5.0, 0.05, th), ia.RoundBody(0, 0.8, "ball", {"radius": 0.3, "theta": th})])
+    far = ia.Layout([ia.RodBody(0, 0, 0, 5.0, 0.05, th), ia.RoundBody(0, 5.0, "ball", {"radius": 0.3, "theta": th})])
+    assert len(near.warnings) == 1 and "% lower" in near.warnings[0]
+    assert far.warnings == ()
