@@ -72,7 +72,10 @@ def _samples(design, n, seed, wide=False):
 
 
 def _scalar(design, x):
-    f = _DeviceFunc(design)
+    from floatcalc.device import Device
+
+    # studies reuse the nominal layout's shielding factors (solved once, not per sample)
+    f = _DeviceFunc(design, shielding=Device.from_design(design).shielding)
     n = x["radius_factor"].size
     rows = [f({k: float(v[i]) for k, v in x.items()}) for i in range(n)]
     return {k: np.array([r[k] for r in rows]) for k in OUTPUTS}

@@ -62,13 +62,19 @@ class Device:
     design: Design
     models: tuple
     names: tuple
+    #: device-level warnings of the model (shared menisci of close elements)
+    notes: tuple = ()
+    #: shielding factor of each element (its limit with neighbours over its limit alone)
+    shielding: tuple = ()
 
     @property
     def liquid(self):
         return self.design.liquid
 
     @classmethod
-    def from_design(cls, design: Design | str | Path) -> "Device":
+    def from_design(cls, design: Design | str | Path, shielding=None) -> "Device":
+        """The device of a design; ``shielding`` reuses known shielding factors (one per
+        element, e.g. those of the nominal design in a study) instead of solving them."""
         if isinstance(design, Device):
             return design
         if not isinstance(design, Design):
@@ -88,12 +94,24 @@ class Device:
                     raise input_error(f"{_path(design, i)} and {_path(design, j)}",
                                       "footprints overlap; move or turn one of them, or set a larger "
                                       "layout_radius or spacing", f"'{names[i]}' and '{names[j]}'")
+        from .interact import shielding as _shield
+
+        shielding_given, shielding = shielding, _shield
+        kinds = [p["kind"] for p in design.elements]
+        if shielding_given is None:
+            factors, notes = shielding(models, kinds, liq, names)
+        else:
+            factors, notes = np.asarray(shielding_given, dtype=float), []
+        for m, f in zip(models, factors):
+            if f < 1.0:
+                m.force = m.force * f
         hull = convex_hull(np.vstack([m.footprint for m in models]))
         xg, yg = design.body["centre_of_mass"]
         if not inside_convex(hull, (xg, yg)):
             raise input_error("body.centre_of_mass", "must lie inside the support polygon (the convex "
                               "outline of all elements)", f"[{xg * 1e3:.4g} mm, {yg * 1e3:.4g} mm]")
-        return cls(design=design, models=tuple(models), names=tuple(names))
+        return cls(design=design, models=tuple(models), names=tuple(names), notes=tuple(notes),
+                   shielding=tuple(float(f) for f in factors))
 
     # -- numeric core input -------------------------------------------------------------
     def support(self):
@@ -415,11 +433,7 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     roll = math.degrees(math.atan(u[2]))
     if max(abs(pitch), abs(roll)) > TILT_WARN_DEG:
         warnings.append(f"tilt above {TILT_WARN_DEG:g}°: small-angle moment arms lose accuracy")
-    close = _close_pairs(dev, lc)
-    if close:
-        warnings.append(f"elements closer than {CLOSE_LC:g} capillary lengths (" + ", ".join(close[:4]) +
-                        ("…" if len(close) > 4 else "") + "): the superposed linear meniscus between them is "
-                        "approximate; for long parallel rods use a rod_row element (exact shared meniscus)")
+    warnings += list(dev.notes)
     capacity = W + Pcap * fs
     load = W + P
     sf = capacity / load if load > 0 else math.inf

@@ -88,5 +88,6 @@ class RoundKind(ElementKind):
             broken_force=liquid.rho * liquid.g * self.volume(p),
             warnings=[w for w in res.warnings if "material density" not in w],
             model_name=f"axisymmetric meniscus (floatcalc.round.{self.name})",
-            geometry={k: p[k] for k in self.fields if k in p},
+            geometry={**{k: p[k] for k in self.fields if k in p},
+                      "theta": effective_angle(p["coating"]["advancing"], p["coating"])},
         )

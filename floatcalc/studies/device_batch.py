@@ -166,18 +166,27 @@ def _corners(half_l, half_w, cx, cy, ux, uy):
     return np.stack([fx, fy], axis=-1)
 
 
-def layout(design) -> _Layout:
-    """Element types, geometry and point layout of an all-rod design."""
+def layout(design, shielding=None) -> _Layout:
+    """Element types, geometry and point layout of an all-rod design.
+
+    ``shielding``: each element's factor on its force table for neighbours that share its
+    meniscus (:mod:`floatcalc.device.interact`), from the nominal design (default: solved here
+    once); elements with different factors are different types.
+    """
     from ..device.geometry import convex_hull
 
+    if shielding is None:
+        from ..device.solve import Device
+
+        shielding = Device.from_design(design).shielding
     keys, types, et = {}, [], []
-    for p in design.elements:
+    for p, f in zip(design.elements, shielding):
         c = p["coating"]
         key = (p["radius"], p["length"], c["advancing"], c.get("texture", "none"), c.get("roughness"),
-               c.get("solid_fraction"), p["segments"])
+               c.get("solid_fraction"), p["segments"], float(f))
         if key not in keys:
             keys[key] = len(types)
-            types.append((p["radius"], p["length"], c["advancing"], dict(c), p["segments"]))
+            types.append((p["radius"], p["length"], c["advancing"], dict(c), p["segments"], float(f)))
         et.append(keys[key])
     legs = design.elements
     arr = lambda f: np.array([f(p) for p in legs], dtype=float)  # noqa: E731
@@ -260,9 +269,13 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
     rf, lf = x["radius_factor"], x["length_factor"]
     E = len(design.elements)
     tab_rows = []  # one per rod type; each gives two table rows (middle and end segments)
-    for t, (R0, L0, adv, coat, nseg) in enumerate(lay.types):
+    for t, (R0, L0, adv, coat, nseg, shield) in enumerate(lay.types):
         th = _effective_angle(np.minimum(np.maximum(adv + x["contact_angle_shift"], 0.0), math.pi), coat)
-        tab_rows.append(_rod_tables(R0 * rf / lc, th, L0 * lf / lc, nseg, 241))
+        tb = _rod_tables(R0 * rf / lc, th, L0 * lf / lc, nseg, 241)
+        if shield != 1.0:  # neighbours' shared meniscus (nominal layout), as Device.from_design
+            for k in ("mid", "end", "limit_mid", "limit_end"):
+                tb[k] = tb[k] * shield
+        tab_rows.append(tb)
     F = np.stack([tb[k] for tb in tab_rows for k in ("mid", "end")], axis=1)          # (S, 2T, w)
     H = np.stack([tb["contact"] for tb in tab_rows for _ in (0, 1)], axis=1)
     per_row = lambda k: np.stack([tb[k] for tb in tab_rows for _ in (0, 1)], axis=1)  # noqa: E731
@@ -326,6 +339,7 @@ class DeviceBatchFunc:
 
     design: Any
     block: int = BLOCK
+    shielding: tuple | None = None
 
     def __call__(self, x: dict[str, Any]) -> dict[str, np.ndarray]:
         arrays = np.broadcast_arrays(*(np.asarray(x[k], dtype=float) for k in INPUTS))
@@ -333,7 +347,7 @@ class DeviceBatchFunc:
         flat = {k: np.ascontiguousarray(a).ravel() for k, a in zip(INPUTS, arrays)}
         S = flat[INPUTS[0]].size
         out = {k: np.empty(S) for k in ("max_payload", "payload_mass", "spare_payload", "weight")}
-        lay = layout(self.design)
+        lay = layout(self.design, self.shielding)
         for a in range(0, S, self.block):
             part = {k: v[a:a + self.block] for k, v in flat.items()}
             res = self._block(lay, part)

@@ -50,6 +50,7 @@ DEVICE_OUTPUTS = {
 @dataclass(frozen=True)
 class _DeviceFunc:
     design: Any
+    shielding: tuple | None = None
 
     def __call__(self, x: dict[str, float]) -> dict[str, float]:
         from ..core import equilibrium as eq
@@ -73,7 +74,8 @@ class _DeviceFunc:
             legs.append(q)
         liq = d.liquid if x["surface_tension"] == d.liquid.sigma else replace(d.liquid, sigma=x["surface_tension"])
         body = {**d.body, "mass": x["body_mass"]}
-        dev = Device.from_design(replace(d, liquid=liq, body=body, elements=tuple(legs)))
+        # neighbours' shielding factors of the nominal layout (solved once, not per sample)
+        dev = Device.from_design(replace(d, liquid=liq, body=body, elements=tuple(legs)), shielding=self.shielding)
         lc, fs, g = liq.lc, liq.sigma * liq.lc, liq.g
         sup = dev.support()
         xg, yg = dev.centre_of_mass
@@ -104,7 +106,11 @@ def device_model(design: Any) -> Model:
 
     label = design.description.split(",")[0][:70] or "design"
     fast = batchable(design)
-    return Model(name=f"device: {label}", func=DeviceBatchFunc(design) if fast else _DeviceFunc(design),
+    from ..device.solve import Device
+
+    shield = Device.from_design(design).shielding
+    func = DeviceBatchFunc(design, shielding=shield) if fast else _DeviceFunc(design, shielding=shield)
+    return Model(name=f"device: {label}", func=func,
                  inputs=DEVICE_INPUTS, outputs=DEVICE_OUTPUTS, base=base, vectorised=fast, limit_output="spare_payload",
                  validity=_NominalWarnings(design), references=REFERENCES, cautions=design.liquid.cautions)
 

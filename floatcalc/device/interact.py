@@ -1,0 +1,111 @@
+"""Neighbours in a device: limits lowered by shared menisci, from the solved interaction model.
+
+The device equilibrium (:mod:`floatcalc.core.equilibrium`) superposes linearised menisci, which
+only shifts each element's depth and cannot lower its limit. Elements whose footprints come
+within :data:`REACH_LC` capillary lengths of each other are therefore solved together with the
+solved 3D meniscus of :mod:`floatcalc.core.interactions` (inner–outer matching: K₀ boundary
+elements outside, the exact 1D nonlinear first integral across each contact-line panel; exact
+for parallel rods in 2D, Vella, Lee & Kim, Langmuir 22, 5979, 2006):
+
+* the level cluster is pushed down until its total force is largest
+  (:func:`floatcalc.core.interactions.limit` with ``"all"``), and each element's force there,
+  over its limit alone in the same model, is its *shielding factor*
+  s_i = F_i(cluster at its limit) / F_i(alone) ≤ 1;
+* the element's force–depth table in the device is scaled by s_i, so its limit (and the
+  device's capacity) falls with spacing as the shared meniscus says.
+
+A factor above 1 (an element standing in a neighbour's depression gains a little pressure) is
+not used: s_i is capped at 1 (safe side). Element kinds the interaction model does not solve
+(rod rows, which carry their own exact shared menisci, and flexible legs) keep s = 1 and a
+warning names them when they are close to a neighbour.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+#: Footprints closer than this [capillary lengths] are solved together.
+REACH_LC = 2.5
+_SOLVED = ("rod", "ball", "pad", "pin", "ring")
+
+
+def _body(m, kind, lc):
+    from ..core import interactions as I
+
+    g = m.geometry
+    c = m.points.mean(axis=0)
+    if kind == "rod":
+        return I.RodBody(float(c[0] / lc), float(c[1] / lc), float(g["heading"]), g["length"] / lc,
+                         g["radius"] / lc, float(g["theta"]))
+    params = {k: v / lc for k, v in g.items() if k in ("radius", "thickness", "length", "ring_radius", "wire_radius")}
+    params["theta"] = float(g["theta"])
+    return I.RoundBody(float(c[0] / lc), float(c[1] / lc), kind, params)
+
+
+def clusters(models, lc: float, reach: float = REACH_LC) -> list[list[int]]:
+    """Groups of element indices whose footprints come within ``reach`` l_c (transitively)."""
+    from .geometry import polygon_distance
+
+    n = len(models)
+    parent = list(range(n))
+
+    def root(i):
+        while parent[i] != i:
+            parent[i] = parent[parent[i]]
+            i = parent[i]
+        return i
+
+    for i in range(n):
+        for j in range(i + 1, n):
+            if polygon_distance(models[i].footprint, models[j].footprint) < reach * lc:
+                parent[root(i)] = root(j)
+    groups: dict[int, list[int]] = {}
+    for i in range(n):
+        groups.setdefault(root(i), []).append(i)
+    return [g for g in groups.values() if len(g) > 1]
+
+
+def shielding(models, kinds, liquid, names) -> tuple[np.ndarray, list[str]]:
+    """Shielding factor s_i ≤ 1 of every element and the warnings (see module docstring)."""
+    from ..core import interactions as I
+    from ..errors import ConvergenceError, InputError
+
+    lc = liquid.lc
+    n = len(models)
+    s = np.ones(n)
+    warnings: list[str] = []
+    for group in clusters(models, lc):
+        solved = [i for i in group if kinds[i] in _SOLVED]
+        other = [i for i in group if kinds[i] not in _SOLVED]
+        if other:
+            warnings.append(", ".join(names[i] for i in other) + " (rod rows and flexible legs) are within "
+                            f"{REACH_LC:g} capillary lengths of a neighbour: their limits do not include the "
+                            "shared meniscus with it")
+        if len(solved) < 2:
+            continue
+        try:
+            bodies = [_body(models[i], kinds[i], lc) for i in solved]
+            lay = I.Layout(bodies)
+            warnings += list(getattr(lay, "warnings", ()))
+            lim = I.limit(lay, np.array([models[i].offsets.mean() / lc for i in solved]), "all")
+            alone = {}
+            for k, b in zip(solved, bodies):
+                key = (type(b).__name__, tuple(round(float(v), 12) for v in
+                                               (b.length, b.radius, b.theta) if not isinstance(b, I.RoundBody))
+                       if not isinstance(b, I.RoundBody) else b.key())
+                if key not in alone:
+                    alone[key] = I.isolated_limit(b)["force"]
+                f = float(lim["forces"][solved.index(k)]) / alone[key]
+                s[k] = min(1.0, f) if math.isfinite(f) and f > 0 else 1.0
+        except (ConvergenceError, InputError, np.linalg.LinAlgError) as exc:
+            warnings.append(f"the shared meniscus of {', '.join(names[i] for i in solved)} could not be solved "
+                            f"({str(exc).splitlines()[0]}); their limits are those of elements far apart")
+            continue
+        for k in solved:
+            if s[k] < 0.999:
+                warnings.append(f"{names[k]}: neighbours within {REACH_LC:g} capillary lengths share its meniscus "
+                                f"and lower its limit by {100 * (1 - s[k]):.2g} % (solved meniscus, "
+                                "floatcalc.core.interactions)")
+    return s, warnings
