@@ -441,27 +441,45 @@ def _lift_report(leg: _Leg, sol: dict, scale: float, lc: float) -> dict:
                f"recedes); that part pulls down by {-pull * mN:.3g} mN")
         out["warnings"].append(msg)
         if not leg.receding_given:
-            fd0 = beam.Foundation(leg.R, fd.theta, weight=fd.weight, theta_receding=0.0)
-            extra = float(np.trapezoid(np.where(mask, f - fd0.liquid(y, wet)[0], 0.0), ss))
-            out["warnings"].append(
-                f"receding angle not given: the advancing angle {math.degrees(fd.theta):.4g}° is assumed on the "
-                "lifted wetted part. A real receding angle is smaller and pulls down harder, so this errs on the "
-                f"unsafe side: with a receding angle of 0° (the bound) it would pull down up to {extra * mN:.3g} mN "
-                "more (estimated on the same shape)")
+            out["warnings"].append(_receding_bound(leg, sol, scale))
     if dry > 0.0:
-        wet_all = np.ones_like(wet)
-        fw, _ = fd.liquid(y, wet_all)
-        dmask = (~wet) & (y < 0.0)
-        would = float(np.trapezoid(np.where(dmask, fw, 0.0), ss))
-        out["warnings"].append(
-            f"{dry * mm:.3g} mm of the leg above the surface has not touched the liquid on the way "
-            "down and is taken dry (the leg is set down from above); had it been wetted before (dunked and "
-            f"raised), the receding law would pull it down by {-would * mN:.3g} mN")
+        fw, _ = fd.liquid(y, np.ones_like(wet))
+        would = float(np.trapezoid(np.where((~wet) & (y < 0.0), fw, 0.0), ss))
+        msg = (f"{dry * mm:.3g} mm of the leg above the surface is dry at the limit (it never touched the "
+               "liquid on the way down, the leg being set down from above, or it let go as it rose)")
+        if -would * mN >= 5e-4:
+            msg += (f"; had it been wetted before (dunked and raised), the receding law would pull it down by "
+                    f"{-would * mN:.3g} mN")
+        out["warnings"].append(msg)
     if np.any(~fd.in_contact(y, wet)):
         out["warnings"].append("part of the leg is out of the liquid at the limit: near where it leaves the "
                                "surface (about a capillary length) the 2D law does not hold; expect a few "
                                "per cent uncertainty")
     return out
+
+
+def _receding_bound(leg: _Leg, sol: dict, scale: float) -> str:
+    """Warning for an assumed receding angle, with the limit recomputed at the bound θ_r = 0.
+
+    At the same shape a smaller receding angle pulls a lifted wetted part down harder, but the
+    leg responds: a pulled-down tip bends the rest of the leg deeper, which can raise the
+    clamp force at the limit. So neither the advancing angle nor 0° is safe for every leg; the
+    limit is solved again with θ_r = 0° and the difference reported with its sign.
+    """
+    fd = leg.found
+    n = sol["s"].size - 1
+    fd0 = beam.Foundation(leg.R, fd.theta, weight=fd.weight, theta_receding=0.0)
+    V = float(sol["V"][0])
+    V0 = float(beam.limit(leg.L, leg.B, leg.alpha, fd0, n=n, th0=leg.th0(n), onset=False)["V"][0])
+    head = (f"receding angle not given: the advancing angle {math.degrees(fd.theta):.4g}° is assumed on the "
+            "lifted wetted part")
+    rel = (V0 - V) / abs(V) * 100.0 if V else 0.0
+    if V0 < V:
+        return (f"{head}; with a receding angle of 0° (the bound) the limit would be {V0 * scale * 1e3:.4g} mN, "
+                f"{-rel:.2g} % lower: give the receding angle, this assumption errs on the unsafe side")
+    return (f"{head}; with a receding angle of 0° (the bound) the limit would be {V0 * scale * 1e3:.4g} mN, "
+            f"{rel:.2g} % higher (the lifted part's pull bends the rest of the leg deeper), so the assumption "
+            "is on the safe side here")
 
 
 def _length_curve(leg: _Leg, npts: int, scale: float, lc: float):
