@@ -62,6 +62,7 @@ from ..errors import ConvergenceError
 DRY_RAMP = 0.05   # l_c: depth over which a law's load falls from its first-contact value to 0
 SNAP_RAMP = 0.02  # l_c: height above the surface over which a dry section meets the snap-in value
 BLEND = 0.02      # l_c: height over which a lifted wetted section passes to the receding law
+SURFACE_STEP = 0.05  # l_c: largest move per continuation step of a section near the surface
 _BAND = 5         # lower and upper bandwidth of the interleaved (θ, M, V, y) Jacobian
 
 
@@ -120,17 +121,28 @@ class _Law:
         self.f_lo, self.f_hi = float(f_st[0] + f_p[0]), float(f_st[-1] + f_p[-1])
         self._f = CubicSpline(depth, f_st + f_p)
         self._phi = CubicSpline(depth, phi)
+        self._x, self._c = self._f.x, self._f.c
+
+    def _eval(self, yc):
+        """Spline value and slope at depths inside the table (one interval search for both)."""
+        k = np.clip(np.searchsorted(self._x, yc, side="right") - 1, 0, self._x.size - 2)
+        t = yc - self._x[k]
+        c0, c1, c2, c3 = self._c[0, k], self._c[1, k], self._c[2, k], self._c[3, k]
+        return ((c0 * t + c1) * t + c2) * t + c3, (3.0 * c0 * t + 2.0 * c1) * t + c2
 
     def __call__(self, y):
         y = np.asarray(y, dtype=float)
         yc = np.clip(y, self.d_lo, self.d_hi)
-        inside = (y >= self.d_lo) & (y <= self.d_hi)
-        f = np.where(y > self.d_hi, self.f_hi, self._f(yc))
-        df = np.where(inside, self._f(yc, 1), 0.0)
-        S, dS = _smoothstep(y, self.d_lo - DRY_RAMP, DRY_RAMP)
+        f, df = self._eval(yc)
+        deep = y > self.d_hi
+        if np.any(deep):
+            f = np.where(deep, self.f_hi, f)
+            df = np.where(deep, 0.0, df)
         above = y < self.d_lo
-        f = np.where(above, self.f_lo * S, f)
-        df = np.where(above, self.f_lo * dS, df)
+        if np.any(above):
+            S, dS = _smoothstep(y, self.d_lo - DRY_RAMP, DRY_RAMP)
+            f = np.where(above, self.f_lo * S, f)
+            df = np.where(above, self.f_lo * dS, df)
         return f, df
 
     def phi(self, y):
@@ -344,6 +356,45 @@ def natural_slope(s, alpha: float, toe_angle: float = 0.0, toe_length: float = 0
     return alpha - toe_angle * np.clip((s - start) / toe_length, 0.0, 1.0)
 
 
+_PATTERNS: dict = {}
+
+
+def _jacobian_pattern(n: int, hb: float, end: str):
+    """Constant part of the banded Jacobian and the flat indices of its variable entries.
+
+    Rows: 0 and 1 the clamp conditions, 2 + 4i + (0..3) the trapezoidal equations of interval
+    i, 4n + 2 and 4n + 3 the free-tip conditions. Cached per grid (a continuation reuses it).
+    """
+    key = (n, hb, end)
+    hit = _PATTERNS.get(key)
+    if hit is not None:
+        return hit
+    N = 4 * (n + 1)
+    ab = np.zeros((2 * _BAND + 1, N))
+
+    def at(rows, cols):
+        return (_BAND + rows - cols) * N + cols
+
+    ab.flat[at(np.array([0]), np.array([0 if end == "clamped" else 1]))] = 1.0
+    ab.flat[at(np.array([1, 4 * n + 2, 4 * n + 3]), np.array([3, 4 * n + 1, 4 * n + 2]))] = 1.0
+    i = np.arange(n)
+    base = 2 + 4 * i
+    var = []
+    for side, sign in ((0, -1.0), (1, 1.0)):
+        col = 4 * (i + side)
+        for cc in range(4):                       # ±identity
+            ab.flat[at(base + cc, col + cc)] = sign
+        ab.flat[at(base, col + 1)] = hb            # dθ-eq/dM = h/2 / B
+        var += [at(base + 1, col + 0),             # dM-eq/dθ = −h/2 · V sin θ
+                at(base + 1, col + 2),             # dM-eq/dV = h/2 · cos θ
+                at(base + 2, col + 3),             # dV-eq/dy = h/2 · dq/dy
+                at(base + 3, col + 0)]             # dy-eq/dθ = −h/2 · cos θ
+    if len(_PATTERNS) > 64:
+        _PATTERNS.clear()
+    _PATTERNS[key] = (ab, np.concatenate(var))
+    return _PATTERNS[key]
+
+
 def _assemble(U, h, B, th0, q_fn, alpha, D_c, end):
     """Residual and banded Jacobian of the trapezoidal discretisation."""
     th, M, V, y = U[0::4], U[1::4], U[2::4], U[3::4]
@@ -366,33 +417,12 @@ def _assemble(U, h, B, th0, q_fn, alpha, D_c, end):
     res[4 * n + 2] = M[-1]
     res[4 * n + 3] = V[-1]
 
-    N = 4 * (n + 1)
-    ab = np.zeros((2 * _BAND + 1, N))
-
-    def put(rows, cols, vals):
-        ab[_BAND + rows - cols, cols] += vals
-
-    if end == "clamped":
-        put(np.array([0]), np.array([0]), 1.0)
-    else:
-        put(np.array([0]), np.array([1]), 1.0)
-    put(np.array([1]), np.array([3]), 1.0)
-    put(np.array([4 * n + 2]), np.array([4 * n + 1]), 1.0)
-    put(np.array([4 * n + 3]), np.array([4 * n + 2]), 1.0)
-    i = np.arange(n)
-    base = 2 + 4 * i
-    for side, sign in ((0, -1.0), (1, 1.0)):
-        col = 4 * (i + side)
-        k = i + side
-        # identity parts
-        for cc in range(4):
-            put(base + cc, col + cc, sign * np.ones(n))
-        # −h/2 J
-        put(base + 0, col + 1, np.full(n, hh / B))                 # dθ-eq/dM
-        put(base + 1, col + 0, -hh * (V[k] * s[k]))                 # dM-eq/dθ : −hh·d(−V cos)/dθ
-        put(base + 1, col + 2, hh * c[k])                           # dM-eq/dV
-        put(base + 2, col + 3, hh * dq[k])                          # dV-eq/dy
-        put(base + 3, col + 0, -hh * c[k])                          # dy-eq/dθ
+    template, idx = _jacobian_pattern(n, hh / B, end)
+    ab = template.copy()
+    # variable entries, in the order of _jacobian_pattern: for side 0 then side 1 (node i, i+1)
+    lo, hi = slice(0, n), slice(1, n + 1)
+    Vs, hc, hdq = -hh * (V * s), hh * c, hh * dq
+    ab.flat[idx] = np.concatenate([Vs[lo], hc[lo], hdq[lo], -hc[lo], Vs[hi], hc[hi], hdq[hi], -hc[hi]])
     return res, ab
 
 
@@ -639,13 +669,20 @@ def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 
     a = P.state(D0, wet0)
     path = [a]
     cap, h_min = 0.3, 1e-4  # l_c: largest step in clamp depth; smallest before a fold is assumed
-    step = 0.02
+    step = 0.1
     snaps, drops = 0, []
     lim = None
     while lim is None:
         if P.solves >= max_steps:
             raise ConvergenceError("flexible-leg limit search took too many continuation steps")
         dD = step
+        # Sections near the surface change their wetting history (wetted sections may let go,
+        # dry ones get wetted): let none of them move more than SURFACE_STEP per step, so that
+        # none can dip in and out, or rise out and back, unseen.
+        ya, dya = a["U"][3::4], np.abs(a["dU"][3::4])
+        band = np.where(a["wet"], ya > fd.d_off - 0.1, ya > -SNAP_RAMP - SURFACE_STEP) & (ya < SURFACE_STEP)
+        if np.any(band):
+            dD = min(dD, SURFACE_STEP / max(float(np.max(dya[band])), 1e-9))
         if a["dmd"] > 1e-9 and a["md"] < fd.d_b:
             dD = min(dD, 1.05 * (fd.d_b - a["md"]) / a["dmd"] + 1e-7)
         if len(path) >= 2 and a["V"] > 0.0:
@@ -783,8 +820,10 @@ def rigid_limit(L: float, foundation: Foundation, th0, n_quad: int = 4001, n_sca
         return float(np.trapezoid(fd.liquid(Dc + y, dry)[k], s))
 
     grid = np.linspace(-top, fd.d_b - top, n_scan)
-    f, df = fd.liquid(grid[:, None] + y[None, :], dry[None, :])
-    Fv, dFv = np.trapezoid(f, s, axis=1), np.trapezoid(df, s, axis=1)
+    step = max(1, (n_quad - 1) // 500)  # the scan only brackets the maximum: a coarser rule will do
+    yc, sc = y[::step], s[::step]
+    f, df = fd.liquid(grid[:, None] + yc[None, :], dry[None, ::step])
+    Fv, dFv = np.trapezoid(f, sc, axis=1), np.trapezoid(df, sc, axis=1)
     Dc, crit = float(grid[-1]), "local breakthrough"
     for k in range(n_scan - 1):
         if Fv[k] - fd.weight * L > 0.0 and dFv[k] > 0.0 and dFv[k + 1] <= 0.0:
