@@ -3,10 +3,21 @@
 Public API over :mod:`floatcalc.core.beam`. A wire leg (radius R, length L, Young's modulus E)
 is clamped to the body at a clamp angle and pushed down by the body; the liquid pushes up along
 its wetted length with the local force per unit length of the exact 2D rod law (Vella, Lee &
-Kim 2006) at the local depth. The leg bends, its tip rises, and past a certain length extra leg
-adds almost nothing. :func:`flexible_leg` returns the limit (the deepest point of the leg at the
-rod law's limit depth), the deflected shape, the load distribution, the same leg if it were
-rigid, and the curve of limit force against leg length with its saturation length.
+Kim 2006) at the local depth: the advancing-angle law at or below the undisturbed surface, the
+receding-angle law on wetted parts lifted above it, nothing on parts that never touched the
+liquid. The leg bends, its tip rises, and past a certain length extra leg adds almost nothing.
+:func:`flexible_leg` returns the limit (the largest clamp force as the body pushes the leg down
+from first touch, set either by a maximum of that force or by local breakthrough of the deepest
+section, ``limit_criterion``), the deflected shape, the load distribution, the lifted and dry
+lengths, the same leg if it were rigid, and the curve of limit force against leg length with
+its saturation length.
+
+Safe side of the receding angle: at a given shape a smaller receding angle pulls a lifted
+wetted part down harder, but a pulled-down tip bends the rest of the leg deeper, which can
+raise the clamp force at the limit (observed +0.2 % for a nylon leg two Winkler lengths long).
+When the receding angle is not given and part of the leg is lifted and wetted, the advancing
+angle is used and the limit is solved again at the bound 0°; the warning gives the difference
+with its sign.
 
 Length scales (derived in the docstring of :func:`flexible_leg`): elasto-capillary length
 of a wire ``L_ec = (E I / σ)^{1/3}`` (E I / σ is a volume for a rod; the square-root form

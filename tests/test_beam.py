@@ -155,8 +155,8 @@ def test_smoothing_widths_change_a_crossing_leg_little():
     # (SNAP_RAMP), a lifted wetted one passes to the receding law (BLEND) and a law's load
     # falls to 0 above its first contact (DRY_RAMP). A stiff leg entering the liquid from above
     # at 30° crosses the surface at its limit; halving all three changes its limit by less
-    # than 2 % (the uncertainty the API warns about for such legs). A leg lying wholly in the
-    # liquid is not affected beyond round-off.
+    # than 1e-3 (observed 1e-5: the part above the surface is dry, only the snap-in band is
+    # affected). A leg lying wholly in the liquid is not affected beyond round-off.
     fd = beam.Foundation(R, THETA, weight=0.03, theta_receding=math.radians(120.0))
     alpha = math.radians(30.0)
     old = beam.DRY_RAMP, beam.SNAP_RAMP, beam.BLEND
@@ -169,7 +169,7 @@ def test_smoothing_widths_change_a_crossing_leg_little():
     finally:
         beam.DRY_RAMP, beam.SNAP_RAMP, beam.BLEND = old
     assert crossing["y"][0] < -old[1]   # the clamp is out of the liquid: the leg crosses
-    assert crossing_half["V"][0] == pytest.approx(crossing["V"][0], rel=2e-2)
+    assert crossing_half["V"][0] == pytest.approx(crossing["V"][0], rel=1e-3)
     assert np.min(wet["y"]) > 0.0
     assert wet_half["V"][0] == pytest.approx(wet["V"][0], rel=1e-9)
 

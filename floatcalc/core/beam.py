@@ -26,16 +26,39 @@ order) on a uniform grid and solved by Newton's method with a banded Jacobian
 (:func:`scipy.linalg.solve_banded`); the natural slope enters through its exact differences, so
 a toe's curvature jump costs no accuracy.
 
-Foundation: ``f(y)`` is a cubic-spline interpolant of :func:`floatcalc.core.rod2d.force_depth_curve`
-(exact force against exact depth, both functions of the contact position φ). Shallower than the
-first-contact depth ``D₀ = −2 cos(θ/2)`` (φ = 0 of the rod law) the leg is out of the liquid
-and ``f = 0``. The jump from ``f(D₀) = −2 sin θ`` to 0 is spread over a depth ``0.05 l_c`` above
-``D₀`` so that Newton's method sees a continuous load. Where a leg leaves the liquid the real
-meniscus is three-dimensional over about a capillary length and the 2D law does not hold
-there anyway; the ramp lies well inside that region. Halving it changes the limit of a stiff
-leg that enters the liquid from above by about 1 % (see the tests) and leaves legs that lie
-wholly in the liquid unchanged; the public API warns when a leg crosses the surface. The leg reaches its limit when its deepest point reaches the depth of the rod law's
-limit, ``D_lim``: deeper than that the local meniscus cannot hold.
+Foundation (:class:`Foundation`): ``f(y)`` is a cubic-spline table of the exact rod law
+(force against depth, both functions of the contact position φ), chosen per section by its
+wetting history along the load path:
+
+* at or below the undisturbed surface (``y ≥ 0``) the advancing-angle law: the leg is pushed
+  down, its contact lines advance;
+* above it (``y < 0``), for a section wetted earlier on the path, the receding-angle law: a
+  rising contact line recedes (between the two it could stay pinned; for a thin wire the
+  pinned, receding and advancing branches give nearly the same force at the same height,
+  ``f ≈ 2 sin ψ`` with ``y ≈ 2 sin(ψ/2)``, and differ mainly in how high the liquid clings,
+  up to ``2 cos(θ_r/2)`` l_c; the receding branch pulls down at least as hard as the pinned
+  one, see the tests). A wetted section lifted beyond that reach lets go and is dry again;
+* above it, for a section that has never touched the liquid, nothing: a leg set down on the
+  liquid from above is dry until it reaches the surface.
+
+Smoothing, for Newton's method only: a dry section meets the snap-in value ``f(0)`` of the
+advancing law over ``SNAP_RAMP`` above the surface, a lifted wetted one passes from that
+value to the receding law over ``BLEND``, and each law falls to 0 over ``DRY_RAMP`` above its
+first contact (φ = 0, depth ``−2 cos(θ/2)``). Halving all three changes the limit of a stiff
+leg that enters the liquid from above by about 1e-5 (see the tests). Where a leg leaves the
+liquid the real meniscus is three-dimensional over about a capillary length and the 2D law
+does not hold there anyway; the public API warns when a leg crosses the surface.
+
+Limit (:func:`limit`): the clamp is pushed down from first touch by continuation in ``D_c``.
+A section deeper than the rod law's limit depth ``D_lim`` follows the law's descending
+branch: its maximum is the limit of a section under a dead load, while a section of a leg
+has its depth imposed by its neighbours, and the static 2D meniscus exists past the maximum
+until the two menisci meet above the wire (:func:`breakthrough`, depth ``d_b``), where the
+liquid closes over it. The leg's limit is the largest clamp force ``V(0)`` along the path: an
+interior maximum (``dV/dD_c = 0``, where a dead load makes the leg snap through) or, if the
+force still rises, the clamp depth at which the deepest section reaches ``d_b`` (no force
+beyond local breakthrough is claimed: the film over the wire would spread along it). Earlier
+versions stopped where the deepest point reached ``D_lim``; that support is returned too.
 
 Validity: slender leg (R ≪ L), elastic, static, clean surface; the 2D law is applied locally,
 so the wetted part should be nearly flat (slopes below about 20°) and the leg should bend
