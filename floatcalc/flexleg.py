@@ -420,7 +420,8 @@ def _path_warnings(sol: dict, scale: float, lc: float) -> list[str]:
     for Dc, before, after in sol.get("drops", ()):
         out.append(f"at clamp depth {Dc * lc * 1e3:.3g} mm the snap lowered the clamp force from "
                    f"{before * scale * 1e3:.4g} to {after * scale * 1e3:.4g} mN: under a dead load the leg "
-                   "jumps there (dynamic); take the lower of that force and the limit if a jump is not acceptable")
+                   f"jumps there (dynamic); if such a jump is not acceptable, take {before * scale * 1e3:.4g} mN "
+                   "as the limit")
     if sol.get("criterion") == "local breakthrough":
         out.append("the limit is set by local breakthrough (the liquid closes over the deepest section, "
                    "near the clamp for a level leg) while the clamp force still rises; nothing beyond is "

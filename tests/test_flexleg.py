@@ -256,3 +256,17 @@ def test_curve_ends_at_the_limit_with_its_criterion():
     assert np.all(np.diff(c.force.magnitude) > 0)
     # start="touch": the unbent leg's deepest point (here the clamp) at the undisturbed surface
     assert c.clamp_depth.magnitude[0] == pytest.approx(0.0, abs=1e-12)
+
+
+def test_leg_whose_path_snaps_reports_the_drop():
+    # Regression (found by a seeded random search over the Hypothesis ranges): a soft,
+    # nearly non-wetting leg with an upturned toe whose load path folds (no neighbouring
+    # equilibrium) and jumps to a branch with a lower clamp force. The search must pass the
+    # fold, end at a limit not below the force before the jump, and report the drop.
+    r = flexible_leg(0.1222e-3, 37.69e-3, "174.08 deg", youngs_modulus=1.014e9, material_density=7850.0,
+                     clamp_angle="-5.94 deg", toe_angle="15.78 deg", length_points=0)
+    drop = [w for w in r.warnings if "snap lowered the clamp force" in w]
+    assert any("snapped" in w for w in r.warnings) and len(drop) == 1
+    before = float(drop[0].split(" from ")[1].split(" to ")[0]) * 1e-3
+    assert r.payload.to("N").magnitude >= before
+    assert r.payload.magnitude >= r.local_limit_payload.magnitude * (1 - 1e-9)
