@@ -26,16 +26,39 @@ order) on a uniform grid and solved by Newton's method with a banded Jacobian
 (:func:`scipy.linalg.solve_banded`); the natural slope enters through its exact differences, so
 a toe's curvature jump costs no accuracy.
 
-Foundation: ``f(y)`` is a cubic-spline interpolant of :func:`floatcalc.core.rod2d.force_depth_curve`
-(exact force against exact depth, both functions of the contact position φ). Shallower than the
-first-contact depth ``D₀ = −2 cos(θ/2)`` (φ = 0 of the rod law) the leg is out of the liquid
-and ``f = 0``. The jump from ``f(D₀) = −2 sin θ`` to 0 is spread over a depth ``0.05 l_c`` above
-``D₀`` so that Newton's method sees a continuous load. Where a leg leaves the liquid the real
-meniscus is three-dimensional over about a capillary length and the 2D law does not hold
-there anyway; the ramp lies well inside that region. Halving it changes the limit of a stiff
-leg that enters the liquid from above by about 1 % (see the tests) and leaves legs that lie
-wholly in the liquid unchanged; the public API warns when a leg crosses the surface. The leg reaches its limit when its deepest point reaches the depth of the rod law's
-limit, ``D_lim``: deeper than that the local meniscus cannot hold.
+Foundation (:class:`Foundation`): ``f(y)`` is a cubic-spline table of the exact rod law
+(force against depth, both functions of the contact position φ), chosen per section by its
+wetting history along the load path:
+
+* at or below the undisturbed surface (``y ≥ 0``) the advancing-angle law: the leg is pushed
+  down, its contact lines advance;
+* above it (``y < 0``), for a section wetted earlier on the path, the receding-angle law: a
+  rising contact line recedes (between the two it could stay pinned; for a thin wire the
+  pinned, receding and advancing branches give nearly the same force at the same height,
+  ``f ≈ 2 sin ψ`` with ``y ≈ 2 sin(ψ/2)``, and differ mainly in how high the liquid clings,
+  up to ``2 cos(θ_r/2)`` l_c; the receding branch pulls down at least as hard as the pinned
+  one, see the tests). A wetted section lifted beyond that reach lets go and is dry again;
+* above it, for a section that has never touched the liquid, nothing: a leg set down on the
+  liquid from above is dry until it reaches the surface.
+
+Smoothing, for Newton's method only: a dry section meets the snap-in value ``f(0)`` of the
+advancing law over ``SNAP_RAMP`` above the surface, a lifted wetted one passes from that
+value to the receding law over ``BLEND``, and each law falls to 0 over ``DRY_RAMP`` above its
+first contact (φ = 0, depth ``−2 cos(θ/2)``). Halving all three changes the limit of a stiff
+leg that enters the liquid from above by about 1e-5 (see the tests). Where a leg leaves the
+liquid the real meniscus is three-dimensional over about a capillary length and the 2D law
+does not hold there anyway; the public API warns when a leg crosses the surface.
+
+Limit (:func:`limit`): the clamp is pushed down from first touch by continuation in ``D_c``.
+A section deeper than the rod law's limit depth ``D_lim`` follows the law's descending
+branch: its maximum is the limit of a section under a dead load, while a section of a leg
+has its depth imposed by its neighbours, and the static 2D meniscus exists past the maximum
+until the two menisci meet above the wire (:func:`breakthrough`, depth ``d_b``), where the
+liquid closes over it. The leg's limit is the largest clamp force ``V(0)`` along the path: an
+interior maximum (``dV/dD_c = 0``, where a dead load makes the leg snap through) or, if the
+force still rises, the clamp depth at which the deepest section reaches ``d_b`` (no force
+beyond local breakthrough is claimed: the film over the wire would spread along it). Earlier
+versions stopped where the deepest point reached ``D_lim``; that support is returned too.
 
 Validity: slender leg (R ≪ L), elastic, static, clean surface; the 2D law is applied locally,
 so the wetted part should be nearly flat (slopes below about 20°) and the leg should bend
@@ -57,12 +80,125 @@ import numpy as np
 from . import rod2d
 from ..errors import ConvergenceError
 
-DRY_RAMP = 0.05  # l_c: depth over which the load falls from f(D0) to 0 above first contact
-_BAND = 5        # lower and upper bandwidth of the interleaved (θ, M, V, y) Jacobian
+
+
+DRY_RAMP = 0.05   # l_c: depth over which a law's load falls from its first-contact value to 0
+SNAP_RAMP = 0.02  # l_c: height above the surface over which a dry section meets the snap-in value
+BLEND = 0.02      # l_c: height over which a lifted wetted section passes to the receding law
+SURFACE_STEP = 0.05  # l_c: largest move per continuation step of a section near the surface
+_BAND = 5         # lower and upper bandwidth of the interleaved (θ, M, V, y) Jacobian
+
+
+def _smoothstep(y, lo, width):
+    """S = t²(3 − 2t), t = (y − lo)/width clipped to [0, 1], and dS/dy."""
+    t = np.clip((np.asarray(y, dtype=float) - lo) / width, 0.0, 1.0)
+    return t * t * (3.0 - 2.0 * t), 6.0 * t * (1.0 - t) / width
+
+
+def breakthrough(R: float, theta: float) -> float:
+    """Contact position φ_b [rad] at which the two menisci of a rod meet above it.
+
+    Past ψ = π/2 the interface leaving a contact line first runs back over the rod; from the
+    closed-form profile of the 2D first integral, ``x − x₀ = F(ψ₀) − F(ψ)`` with
+    ``F(ψ) = ln tan(ψ/4) + 2 cos(ψ/2)`` (:func:`floatcalc.core.rod2d.free_meniscus`), its
+    innermost point (where it is vertical, ψ = π/2) lies at ``x = R sin φ − (F(π/2) − F(ψ₀))``.
+    The menisci of the two sides touch on the symmetry plane when that reaches 0: the liquid
+    closes over the section, which has broken through locally. When ψ ≤ π/2 up to φ = π (a
+    wetting rod, θ ≤ 90°) the contact lines meet on top instead, φ_b = π.
+
+    >>> round(math.degrees(breakthrough(0.04, math.radians(150.0))), 1)
+    136.7
+    """
+    from scipy.optimize import brentq
+
+    R, theta = float(R), float(theta)
+    half = 0.5 * math.pi
+    f_half = float(rod2d._x_of_psi(half))
+
+    def gap(phi):
+        psi = phi + theta - math.pi
+        reach = f_half - float(rod2d._x_of_psi(min(psi, math.pi))) if psi > half else 0.0
+        return R * math.sin(phi) - reach
+
+    lo = float(rod2d.limit(R, theta))
+    if gap(math.pi) >= 0.0 or lo >= math.pi:
+        return math.pi
+    if gap(lo) <= 0.0:  # pragma: no cover - not met for any R, θ tried (the limit comes first)
+        return lo
+    return float(brentq(gap, lo, math.pi, xtol=1e-13))
+
+
+class _Law:
+    """Cubic-spline table of one rod law, force per length f [σ] against depth y [l_c].
+
+    Above the first-contact depth (φ = 0) the load falls smoothly to 0 over ``DRY_RAMP``;
+    deeper than the last table point it stays constant (only Newton iterates go there).
+    """
+
+    def __init__(self, R: float, theta: float, phi):
+        from scipy.interpolate import CubicSpline
+
+        self.R, self.theta = float(R), float(theta)
+        f_st, f_p, depth = rod2d.force_parts(phi, self.R, self.theta)
+        self.d_lo, self.d_hi = float(depth[0]), float(depth[-1])
+        self.f_lo, self.f_hi = float(f_st[0] + f_p[0]), float(f_st[-1] + f_p[-1])
+        self._f = CubicSpline(depth, f_st + f_p)
+        self._phi = CubicSpline(depth, phi)
+        self._x, self._c = self._f.x, self._f.c
+
+    def _eval(self, yc):
+        """Spline value and slope at depths inside the table (one interval search for both)."""
+        k = np.clip(np.searchsorted(self._x, yc, side="right") - 1, 0, self._x.size - 2)
+        t = yc - self._x[k]
+        c0, c1, c2, c3 = self._c[0, k], self._c[1, k], self._c[2, k], self._c[3, k]
+        return ((c0 * t + c1) * t + c2) * t + c3, (3.0 * c0 * t + 2.0 * c1) * t + c2
+
+    def __call__(self, y):
+        y = np.asarray(y, dtype=float)
+        yc = np.clip(y, self.d_lo, self.d_hi)
+        f, df = self._eval(yc)
+        deep = y > self.d_hi
+        if np.any(deep):
+            f = np.where(deep, self.f_hi, f)
+            df = np.where(deep, 0.0, df)
+        above = y < self.d_lo
+        if np.any(above):
+            S, dS = _smoothstep(y, self.d_lo - DRY_RAMP, DRY_RAMP)
+            f = np.where(above, self.f_lo * S, f)
+            df = np.where(above, self.f_lo * dS, df)
+        return f, df
+
+    def phi(self, y):
+        return self._phi(np.clip(np.asarray(y, dtype=float), self.d_lo, self.d_hi))
+
+    def parts(self, y):
+        """Surface-tension and pressure parts [σ] (the ramp scales both)."""
+        y = np.asarray(y, dtype=float)
+        f_st, f_p, _ = rod2d.force_parts(self.phi(y), self.R, self.theta)
+        S, _ = _smoothstep(y, self.d_lo - DRY_RAMP, DRY_RAMP)
+        w = np.where(y < self.d_lo, S, 1.0)
+        return f_st * w, f_p * w
 
 
 class Foundation:
-    """Net upward load per unit length ``q(y) = f(y) − w`` of a rod of radius ``R`` [l_c].
+    """Net upward load per unit length ``q = f − w`` of a rod of radius ``R`` [l_c].
+
+    Two laws of the exact 2D rod (:mod:`floatcalc.core.rod2d`) at the local depth ``y`` of a
+    section's lowest point: the advancing-angle law where the section is at or below the
+    undisturbed surface (``y ≥ 0``: pushed down, the contact line advances), and above it
+    (``y < 0``) either the receding-angle law, for a section that has been wetted (a lifted
+    contact line recedes), or nothing, for a section that has never touched the liquid. Which
+    applies is the history flag ``wet`` per section, carried along the load path by
+    :meth:`update_wet`.
+
+    The advancing law runs past its maximum (depth ``d_lim``) on its descending branch to the
+    local breakthrough depth ``d_b`` (:func:`breakthrough`) and on, unphysically but smoothly,
+    to φ = π for Newton iterates; states beyond ``d_b`` are not accepted by :func:`limit`.
+
+    Smoothing (numerical, sizes in l_c): a dry section within ``SNAP_RAMP`` above the surface
+    meets the snap-in value f(0) of the advancing law gradually; a wetted lifted section passes
+    from that value to the receding law over ``BLEND``; every law falls to 0 over ``DRY_RAMP``
+    above its first-contact depth.
 
     Parameters
     ----------
@@ -73,12 +209,19 @@ class Foundation:
     weight : float [σ]
         Own weight per unit length, ``ρ_s g π R²`` / σ.
     n : int
-        Table points from first contact to beyond the limit.
+        Table points from first contact to the limit (half as many on to φ = π).
+    theta_receding : float [rad], optional
+        Receding contact angle (default: the advancing angle).
 
     Attributes
     ----------
     d0, d_lim, f_lim : float
         First-contact depth [l_c], depth at the rod-law limit [l_c], limit force per length [σ].
+    phi_b, d_b : float
+        Contact position [rad] and depth [l_c] of local breakthrough.
+    d0_r : float
+        First-contact depth of the receding law [l_c]: a wetted section higher than this
+        (plus ``DRY_RAMP``) has let go of the liquid.
 
     >>> fd = Foundation(0.04, np.pi)
     >>> q, dq = fd(np.array([fd.d_lim]))
@@ -86,62 +229,124 @@ class Foundation:
     True
     """
 
-    def __init__(self, R: float, theta: float, weight: float = 0.0, n: int = 600):
-        from scipy.interpolate import CubicSpline
-
+    def __init__(self, R: float, theta: float, weight: float = 0.0, n: int = 600,
+                 theta_receding: float | None = None):
         self.R, self.theta, self.weight = float(R), float(theta), float(weight)
         lim = rod2d.limit_force(self.R, self.theta)
         self.phi_lim = float(lim["phi"])
         self.d_lim = float(lim["depth"])
         self.f_lim = float(lim["force"])
-        phi_end = self.phi_lim + 0.5 * (math.pi - self.phi_lim)
-        # Cluster table points towards first contact and the limit (cosine spacing in φ).
+        # Cluster table points towards first contact, the limit and φ = π (cosine spacing).
         u = 0.5 * (1.0 - np.cos(np.linspace(0.0, math.pi, n)))
-        phi = u * phi_end
-        f_st, f_p, depth = rod2d.force_parts(phi, self.R, self.theta)
-        self.d0 = float(depth[0])
-        self.f0 = float(f_st[0] + f_p[0])
-        self.d_end = float(depth[-1])
-        self._spline = CubicSpline(depth, f_st + f_p)
-        self._dspline = self._spline.derivative()
-        self._phi = CubicSpline(depth, phi)
-        self.f_end = float(f_st[-1] + f_p[-1])
+        phi = u * self.phi_lim
+        if self.phi_lim < math.pi - 1e-9:
+            v = 0.5 * (1.0 - np.cos(np.linspace(0.0, math.pi, max(n // 2, 20))))
+            phi = np.concatenate([phi, self.phi_lim + v[1:] * (math.pi - self.phi_lim)])
+        self.adv = _Law(self.R, self.theta, phi)
+        self.d0, self.f0 = self.adv.d_lo, self.adv.f_lo
+        self.d_end, self.f_end = self.adv.d_hi, self.adv.f_hi
+        self.phi_b = breakthrough(self.R, self.theta)
+        f_st, f_p, d_b = rod2d.force_parts(self.phi_b, self.R, self.theta)
+        self.d_b, self.f_b = float(d_b), float(f_st + f_p)
+        th_r = self.theta if theta_receding is None else float(theta_receding)
+        self.theta_r = th_r
+        if abs(th_r - self.theta) < 1e-12:
+            self.rec = self.adv
+        else:
+            from scipy.optimize import brentq
 
-    def parts(self, y):
-        """Surface-tension and pressure parts [σ] of f at depths ``y`` (0 out of the liquid)."""
-        y = np.asarray(y, dtype=float)
-        phi = self._phi(np.clip(y, self.d0, self.d_end))
-        f_st, f_p, _ = rod2d.force_parts(phi, self.R, self.theta)
-        wet = y >= self.d0
-        return np.where(wet, f_st, 0.0), np.where(wet, f_p, 0.0)
+            D = lambda p: float(rod2d.force_parts(p, self.R, th_r)[2])
+            p_hi = math.pi if D(math.pi) <= 0.1 else brentq(lambda p: D(p) - 0.1, 0.0, math.pi)
+            u = 0.5 * (1.0 - np.cos(np.linspace(0.0, math.pi, max(n // 2, 20))))
+            self.rec = _Law(self.R, th_r, u * p_hi)
+        self.d0_r = self.rec.d_lo
+        self.d_off = self.d0_r - DRY_RAMP
+        self.fa0 = float(self.adv(np.array([0.0]))[0][0])
+        self.fr0 = float(self.rec(np.array([0.0]))[0][0])
 
+    # -- advancing law everywhere (no history): the law of a section pushed down ------------
     def force(self, y):
-        """Upward liquid force per length f(y) [σ] and df/dy, without the own weight."""
-        y = np.asarray(y, dtype=float)
-        inside = (y >= self.d0) & (y <= self.d_end)
-        yc = np.clip(y, self.d0, self.d_end)
-        f = np.where(inside, self._spline(yc), 0.0)
-        df = np.where(inside, self._dspline(yc), 0.0)
-        deep = y > self.d_end
-        f = np.where(deep, self.f_end, f)
-        ramp = (y < self.d0) & (y > self.d0 - DRY_RAMP)
-        if np.any(ramp):
-            t = (y - (self.d0 - DRY_RAMP)) / DRY_RAMP
-            f = np.where(ramp, self.f0 * t * t * (3.0 - 2.0 * t), f)
-            df = np.where(ramp, self.f0 * 6.0 * t * (1.0 - t) / DRY_RAMP, df)
-        return f, df
-
-    def contact_depth(self, y):
-        """Contact-line depth 2 sin(ψ/2) [l_c] of the rod law at depths ``y`` (0 when dry)."""
-        y = np.asarray(y, dtype=float)
-        phi = self._phi(np.clip(y, self.d0, self.d_end))
-        d = 2.0 * np.sin(0.5 * (phi + self.theta - math.pi))
-        return np.where(y >= self.d0, d, 0.0)
+        """Advancing-law force per length f(y) [σ] and df/dy, without the own weight."""
+        return self.adv(y)
 
     def __call__(self, y):
-        """Net load q = f − w [σ] and dq/dy at depths ``y`` [l_c]."""
-        f, df = self.force(y)
+        """Net load q = f − w [σ] and dq/dy at depths ``y`` [l_c], advancing law everywhere."""
+        f, df = self.adv(y)
         return f - self.weight, df
+
+    # -- with the wetting history ------------------------------------------------------------
+    def liquid(self, y, wet):
+        """Force per length f [σ] and df/dy of sections at depths ``y`` with history ``wet``."""
+        y = np.asarray(y, dtype=float)
+        f, df = self.adv(y)
+        lift = y < 0.0
+        if not np.any(lift):
+            return f, df
+        S, dS = _smoothstep(y, -SNAP_RAMP, SNAP_RAMP)
+        f_dry, df_dry = self.fa0 * S, self.fa0 * dS
+        if self.rec is self.adv:
+            f_wet, df_wet = f, df
+        else:
+            fr, dfr = self.rec(y)
+            Sb, dSb = _smoothstep(y, -BLEND, BLEND)
+            jump = self.fa0 - self.fr0
+            f_wet, df_wet = fr + jump * Sb, dfr + jump * dSb
+        f = np.where(lift, np.where(wet, f_wet, f_dry), f)
+        df = np.where(lift, np.where(wet, df_wet, df_dry), df)
+        return f, df
+
+    def load(self, y, wet):
+        """Net load q = f − w [σ] and dq/dy with the wetting history ``wet``."""
+        f, df = self.liquid(y, wet)
+        return f - self.weight, df
+
+    def bind(self, wet):
+        """The load ``y -> (q, dq/dy)`` of sections with fixed history flags (for :func:`solve`)."""
+        wet = np.asarray(wet, dtype=bool)
+        return lambda y: self.load(y, wet)
+
+    def update_wet(self, wet, y):
+        """History after a state: wetted once at or below the surface, dry again once let go."""
+        y = np.asarray(y, dtype=float)
+        return (np.asarray(wet, dtype=bool) | (y >= 0.0)) & (y >= self.d_off)
+
+    def in_contact(self, y, wet):
+        """Sections touching the liquid: at or below the surface, or lifted and still wetted."""
+        y = np.asarray(y, dtype=float)
+        return (y >= 0.0) | (np.asarray(wet, dtype=bool) & (y >= self.d0_r))
+
+    def parts(self, y, wet=None):
+        """Surface-tension and pressure parts [σ] of f at depths ``y``.
+
+        Without ``wet``: the advancing law (0 above its first contact, ramp aside).
+        """
+        y = np.asarray(y, dtype=float)
+        st, p = self.adv.parts(y)
+        if wet is None:
+            return st, p
+        lift = y < 0.0
+        st0, p0 = self.adv.parts(np.zeros(1))
+        S, _ = _smoothstep(y, -SNAP_RAMP, SNAP_RAMP)
+        st_w, p_w = st, p
+        if self.rec is not self.adv:
+            sr, pr = self.rec.parts(y)
+            sr0, pr0 = self.rec.parts(np.zeros(1))
+            Sb, _ = _smoothstep(y, -BLEND, BLEND)
+            st_w, p_w = sr + (st0 - sr0) * Sb, pr + (p0 - pr0) * Sb
+        wet = np.asarray(wet, dtype=bool)
+        st = np.where(lift, np.where(wet, st_w, st0 * S), st)
+        p = np.where(lift, np.where(wet, p_w, p0 * S), p)
+        return st, p
+
+    def contact_depth(self, y, wet=None):
+        """Contact-line depth 2 sin(ψ/2) [l_c] of the rod law at depths ``y`` (0 when dry)."""
+        y = np.asarray(y, dtype=float)
+        d_a = 2.0 * np.sin(0.5 * (self.adv.phi(y) + self.theta - math.pi))
+        if wet is None:
+            return np.where(y >= self.d0, d_a, 0.0)
+        d_r = 2.0 * np.sin(0.5 * (self.rec.phi(y) + self.theta_r - math.pi))
+        lifted = np.asarray(wet, dtype=bool) & (y < 0.0) & (y >= self.d0_r)
+        return np.where(y >= 0.0, d_a, np.where(lifted, d_r, 0.0))
 
     def floating_depth(self) -> float:
         """Depth [l_c] at which the liquid carries exactly the own weight, f = w."""
@@ -157,8 +362,8 @@ class Foundation:
         return float(rod2d.force_parts(p, self.R, self.theta)[2])
 
     def stiffness(self, y: float) -> float:
-        """Tangent foundation stiffness df/dy [σ / l_c] at depth ``y``."""
-        return float(self.force(np.array([y]))[1][0])
+        """Tangent foundation stiffness df/dy [σ / l_c] of the advancing law at depth ``y``."""
+        return float(self.adv(np.array([y]))[1][0])
 
 
 def natural_slope(s, alpha: float, toe_angle: float = 0.0, toe_length: float = 0.0):
@@ -172,6 +377,45 @@ def natural_slope(s, alpha: float, toe_angle: float = 0.0, toe_length: float = 0
         return np.full_like(s, alpha)
     start = s[-1] - toe_length
     return alpha - toe_angle * np.clip((s - start) / toe_length, 0.0, 1.0)
+
+
+_PATTERNS: dict = {}
+
+
+def _jacobian_pattern(n: int, hb: float, end: str):
+    """Constant part of the banded Jacobian and the flat indices of its variable entries.
+
+    Rows: 0 and 1 the clamp conditions, 2 + 4i + (0..3) the trapezoidal equations of interval
+    i, 4n + 2 and 4n + 3 the free-tip conditions. Cached per grid (a continuation reuses it).
+    """
+    key = (n, hb, end)
+    hit = _PATTERNS.get(key)
+    if hit is not None:
+        return hit
+    N = 4 * (n + 1)
+    ab = np.zeros((2 * _BAND + 1, N))
+
+    def at(rows, cols):
+        return (_BAND + rows - cols) * N + cols
+
+    ab.flat[at(np.array([0]), np.array([0 if end == "clamped" else 1]))] = 1.0
+    ab.flat[at(np.array([1, 4 * n + 2, 4 * n + 3]), np.array([3, 4 * n + 1, 4 * n + 2]))] = 1.0
+    i = np.arange(n)
+    base = 2 + 4 * i
+    var = []
+    for side, sign in ((0, -1.0), (1, 1.0)):
+        col = 4 * (i + side)
+        for cc in range(4):                       # ±identity
+            ab.flat[at(base + cc, col + cc)] = sign
+        ab.flat[at(base, col + 1)] = hb            # dθ-eq/dM = h/2 / B
+        var += [at(base + 1, col + 0),             # dM-eq/dθ = −h/2 · V sin θ
+                at(base + 1, col + 2),             # dM-eq/dV = h/2 · cos θ
+                at(base + 2, col + 3),             # dV-eq/dy = h/2 · dq/dy
+                at(base + 3, col + 0)]             # dy-eq/dθ = −h/2 · cos θ
+    if len(_PATTERNS) > 64:
+        _PATTERNS.clear()
+    _PATTERNS[key] = (ab, np.concatenate(var))
+    return _PATTERNS[key]
 
 
 def _assemble(U, h, B, th0, q_fn, alpha, D_c, end):
@@ -196,38 +440,18 @@ def _assemble(U, h, B, th0, q_fn, alpha, D_c, end):
     res[4 * n + 2] = M[-1]
     res[4 * n + 3] = V[-1]
 
-    N = 4 * (n + 1)
-    ab = np.zeros((2 * _BAND + 1, N))
-
-    def put(rows, cols, vals):
-        ab[_BAND + rows - cols, cols] += vals
-
-    if end == "clamped":
-        put(np.array([0]), np.array([0]), 1.0)
-    else:
-        put(np.array([0]), np.array([1]), 1.0)
-    put(np.array([1]), np.array([3]), 1.0)
-    put(np.array([4 * n + 2]), np.array([4 * n + 1]), 1.0)
-    put(np.array([4 * n + 3]), np.array([4 * n + 2]), 1.0)
-    i = np.arange(n)
-    base = 2 + 4 * i
-    for side, sign in ((0, -1.0), (1, 1.0)):
-        col = 4 * (i + side)
-        k = i + side
-        # identity parts
-        for cc in range(4):
-            put(base + cc, col + cc, sign * np.ones(n))
-        # −h/2 J
-        put(base + 0, col + 1, np.full(n, hh / B))                 # dθ-eq/dM
-        put(base + 1, col + 0, -hh * (V[k] * s[k]))                 # dM-eq/dθ : −hh·d(−V cos)/dθ
-        put(base + 1, col + 2, hh * c[k])                           # dM-eq/dV
-        put(base + 2, col + 3, hh * dq[k])                          # dV-eq/dy
-        put(base + 3, col + 0, -hh * c[k])                          # dy-eq/dθ
+    template, idx = _jacobian_pattern(n, hh / B, end)
+    ab = template.copy()
+    # variable entries, in the order of _jacobian_pattern: for side 0 then side 1 (node i, i+1)
+    lo, hi = slice(0, n), slice(1, n + 1)
+    Vs, hc, hdq = -hh * (V * s), hh * c, hh * dq
+    ab.flat[idx] = np.concatenate([Vs[lo], hc[lo], hdq[lo], -hc[lo], Vs[hi], hc[hi], hdq[hi], -hc[hi]])
     return res, ab
 
 
 def solve(L: float, B: float, alpha: float, D_c: float, foundation, *, n: int = 200,
-          th0=None, end: str = "clamped", guess=None, tol: float = 1e-11, max_iter: int = 40):
+          th0=None, end: str = "clamped", guess=None, tol: float = 1e-11, max_iter: int = 40,
+          tangent: bool = False):
     """Equilibrium of the leg with its clamp at depth ``D_c`` [l_c].
 
     Parameters
@@ -241,7 +465,8 @@ def solve(L: float, B: float, alpha: float, D_c: float, foundation, *, n: int = 
     D_c : float [l_c]
         Depth of the leg's lowest point at the clamp.
     foundation : callable
-        ``q, dq/dy = foundation(y)``: net upward load per length [σ]; a :class:`Foundation`.
+        ``q, dq/dy = foundation(y)``: net upward load per length [σ]; a :class:`Foundation`
+        (advancing law everywhere) or ``Foundation.bind(wet)`` (with the wetting history).
     n : int
         Number of intervals.
     th0 : ndarray, optional
@@ -250,11 +475,14 @@ def solve(L: float, B: float, alpha: float, D_c: float, foundation, *, n: int = 
         Condition at s = 0: slope fixed at ``alpha`` or moment-free.
     guess : ndarray, optional
         Starting state (interleaved θ, M, V, y), e.g. a neighbouring solution.
+    tangent : bool
+        Also return ``dU``, the derivative of the state with respect to ``D_c`` (one more
+        banded solve with the Jacobian at the solution: ``J dU/dD_c = e₁``).
 
     Returns
     -------
-    dict with ``s``, ``theta``, ``M``, ``V``, ``y`` arrays, ``U`` (interleaved state) and
-    ``iterations``.
+    dict with ``s``, ``theta``, ``M``, ``V``, ``y`` arrays, ``U`` (interleaved state),
+    ``iterations`` and, with ``tangent``, ``dU``.
 
     Raises
     ------
@@ -292,7 +520,13 @@ def solve(L: float, B: float, alpha: float, D_c: float, foundation, *, n: int = 
         step = np.max(np.abs(dU))
         scale = 1.0 + np.max(np.abs(U))
         if step < tol * scale and norm < 1e-9 * scale:
-            return _unpack(U + dU, s, it)
+            out = _unpack(U + dU, s, it)
+            if tangent:
+                _, ab_t = _assemble(out["U"], h, B, th0, foundation, alpha, D_c, end)
+                rhs = np.zeros(U.size)
+                rhs[1] = 1.0
+                out["dU"] = solve_banded((_BAND, _BAND), ab_t, rhs, check_finite=False)
+            return out
         # Damping only against blow-up: Newton may raise the residual on its way in.
         lam = 1.0
         while True:
@@ -313,14 +547,14 @@ def _unpack(U, s, it):
             "y": U[3::4].copy(), "U": U, "iterations": it}
 
 
-def _solve_from_stiff(L, B, alpha, D_c, foundation, *, n, th0, end):
+def _solve_from_stiff(L, B, alpha, D_c, foundation, *, n, th0, end, tangent=False):
     """:func:`solve`, falling back on a homotopy in stiffness from a nearly rigid leg.
 
     A very stiff leg keeps its natural shape, which is then an excellent first guess; the
     stiffness is lowered step by step (each solution starting the next) down to ``B``.
     """
     try:
-        return solve(L, B, alpha, D_c, foundation, n=n, th0=th0, end=end)
+        return solve(L, B, alpha, D_c, foundation, n=n, th0=th0, end=end, tangent=tangent)
     except ConvergenceError:
         pass
     B_k = B * 1e6
@@ -329,7 +563,8 @@ def _solve_from_stiff(L, B, alpha, D_c, foundation, *, n, th0, end):
     while B_k > B:
         B_next = max(B, B_k / factor)
         try:
-            sol = solve(L, B_next, alpha, D_c, foundation, n=n, th0=th0, end=end, guess=sol["U"])
+            sol = solve(L, B_next, alpha, D_c, foundation, n=n, th0=th0, end=end, guess=sol["U"],
+                        tangent=tangent and B_next == B)
         except ConvergenceError:
             factor = math.sqrt(factor)
             if factor < 1.01:
@@ -351,153 +586,298 @@ def max_depth(y):
     return float(y[k])
 
 
-def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 200, th0=None,
-          end: str = "clamped", tol: float = 1e-10, max_steps: int = 200):
-    """Clamp depth and state at which the deepest point of the leg reaches ``foundation.d_lim``.
+def natural_depths(th0, L: float):
+    """Depth of the unbent leg below its clamp, y(s) − y(0) [l_c], at the nodes of ``th0``."""
+    h = L / (len(th0) - 1)
+    return np.concatenate([[0.0], np.cumsum(0.5 * h * (np.sin(th0[1:]) + np.sin(th0[:-1])))])
 
-    The clamp is pushed down from a start where the leg barely touches the liquid, by
-    continuation in the clamp depth (each step starts Newton from the previous state, with a
-    secant estimate of the next depth), and the crossing of ``max y = D_lim`` is then found by
-    the Illinois variant of regula falsi.
+
+def touch_depth(th0, L: float) -> float:
+    """Clamp depth [l_c] at which the unbent leg's deepest point reaches the undisturbed surface."""
+    return -max_depth(natural_depths(th0, L))
+
+
+class _Path:
+    """Continuation in clamp depth from first touch, carrying the wetting history.
+
+    Each state holds the clamp depth ``Dc``, the solution, its tangent ``dU = dU/dDc``, the
+    history flags after it (``wet``), the clamp force ``V`` and ``dV = dV/dDc``, the deepest
+    point ``md`` and its rate ``dmd``.
+    """
+
+    def __init__(self, L, B, alpha, fd, n, th0, end):
+        self.L, self.B, self.alpha, self.fd, self.n, self.th0, self.end = L, B, alpha, fd, n, th0, end
+        self.solves = 0
+
+    def state(self, Dc, wet, guess=None):
+        q = self.fd.bind(wet)
+        kw = dict(n=self.n, th0=self.th0, end=self.end, tangent=True)
+        if guess is None:
+            sol = _solve_from_stiff(self.L, self.B, self.alpha, Dc, q, **kw)
+        else:
+            sol = solve(self.L, self.B, self.alpha, Dc, q, guess=guess, **kw)
+        self.solves += 1
+        y, dU = sol["y"], sol["dU"]
+        k = int(np.argmax(y))
+        return {"Dc": float(Dc), "sol": sol, "U": sol["U"], "dU": dU, "wet_in": np.asarray(wet, dtype=bool),
+                "wet": self.fd.update_wet(wet, y), "V": float(sol["V"][0]), "dV": float(dU[2]),
+                "md": max_depth(y), "dmd": float(dU[3 + 4 * k]), "iterations": sol["iterations"]}
+
+    def near(self, a, Dc):
+        """State at ``Dc`` started from state ``a`` (tangent predictor, ``a``'s history)."""
+        try:
+            return self.state(Dc, a["wet"], guess=a["U"] + a["dU"] * (Dc - a["Dc"]))
+        except ConvergenceError:
+            return self.state(Dc, a["wet"])
+
+    def refine(self, a, b, g, tol):
+        """Root of ``g(state)`` between states with g(a) < 0 ≤ g(b): Illinois regula falsi."""
+        ga, gb = g(a), g(b)
+        best = b
+        for _ in range(60):
+            if abs(gb) <= tol or abs(b["Dc"] - a["Dc"]) < 1e-10:
+                return best
+            c_D = b["Dc"] - gb * (b["Dc"] - a["Dc"]) / (gb - ga)
+            # Start from the shallower end: its history is the one the load path carries.
+            start = a if a["Dc"] <= b["Dc"] else b
+            c = self.near(start, c_D)
+            gc = g(c)
+            if gc * gb < 0.0:
+                a, ga = b, gb
+            else:
+                ga *= 0.5
+            b, gb, best = c, gc, c
+        raise ConvergenceError("flexible-leg limit refinement did not converge")  # pragma: no cover
+
+
+def limit(L: float, B: float, alpha: float, foundation: Foundation, *, n: int = 200, th0=None,
+          end: str = "clamped", tol: float = 1e-10, max_steps: int = 400, onset: bool = True,
+          keep_path: bool = False):
+    """Largest clamp force of the leg pushed down from first touch, with its state.
+
+    The clamp is pushed down from where the unbent leg touches the undisturbed surface, by
+    continuation in the clamp depth ``D_c`` (a tangent predictor from ``dU/dD_c`` and Newton),
+    carrying the wetting history of every section (:class:`Foundation`). Sections deeper than
+    the rod law's limit depth follow its descending branch: a section held by its neighbours
+    at an imposed depth is a valid static state however far it is past its own maximum (that
+    maximum is the limit of a section under a dead load, not under an imposed depth). The leg
+    as a whole is at its limit where the clamp force ``V(0)`` is largest along this path:
+
+    * ``"clamp-force maximum"``: dV/dD_c = 0 (with V > 0), found by regula falsi on the
+      tangent's dV/dD_c; under a dead load the leg snaps through here;
+    * ``"local breakthrough"``: the force still rises when the deepest section reaches the
+      breakthrough depth ``d_b``, where the two menisci meet above it and the liquid closes
+      over the wire. No force beyond is claimed (the film over the wire would spread along it).
+
+    Folds on the way (usually a tip pulling off the surface) are passed as before: no
+    neighbouring equilibrium, so the path jumps ahead onto the branch that continues.
 
     Returns
     -------
-    dict as :func:`solve` plus ``clamp_depth`` [l_c] and ``steps`` (equilibria solved).
+    dict as :func:`solve` plus ``clamp_depth`` [l_c], ``criterion`` (one of the two above),
+    ``wet`` (history flags at the limit), ``steps`` (equilibria solved), ``snaps`` (jumps),
+    ``drops`` (list of (clamp depth, V before, V after) for jumps that lowered the force; if
+    the force before such a jump is never regained, that state is the limit),
+    ``onset`` (dict with ``clamp_depth`` and ``V`` where the deepest point first reached
+    ``d_lim``, the criterion of earlier versions; None if not reached before the limit) and,
+    with ``keep_path``, ``path`` (the continuation states, for curves).
     """
-    s = np.linspace(0.0, L, n + 1)
-    h = L / n
+    fd = foundation
     if th0 is None:
         th0 = np.full(n + 1, alpha)
-    y_nat = np.concatenate([[0.0], np.cumsum(0.5 * h * (np.sin(th0[1:]) + np.sin(th0[:-1])))])
-    d_lim = foundation.d_lim
-    try:
-        d_start = foundation.floating_depth()
-    except ValueError:
-        d_start = foundation.d0
-    d_start = min(d_start, d_lim - 0.05)
-    Dc = d_start - max_depth(y_nat)
-    span = d_lim - d_start
-    sol = _solve_from_stiff(L, B, alpha, Dc, foundation, n=n, th0=th0, end=end)
-    g = max_depth(sol["y"]) - d_lim
-    steps = 1
-    hist = [(Dc, g, sol["U"])]
-    step_cap = 0.25 * span
-    snaps = 0
-    while g < 0.0:
-        if steps >= max_steps:
+    y_nat = natural_depths(th0, L)
+    D0 = -max_depth(y_nat)
+    wet0 = (D0 + y_nat) >= -1e-12
+    P = _Path(L, B, alpha, fd, n, th0, end)
+    a = P.state(D0, wet0)
+    path = [a]
+    cap, h_min = 0.3, 1e-4  # l_c: largest step in clamp depth; smallest before a fold is assumed
+    step = 0.1
+    snaps, drops = 0, []
+    lim = None
+    while lim is None:
+        if P.solves >= max_steps:
             raise ConvergenceError("flexible-leg limit search took too many continuation steps")
-        if len(hist) >= 2:
-            (d1, g1, _), (d2, g2, _) = hist[-2], hist[-1]
-            slope = (g2 - g1) / (d2 - d1) if d2 != d1 else 1.0
-            slope = min(max(slope, 0.05), 1.0)
-        else:
-            slope = 1.0
-        dD = min(-g / slope * 1.02 + 1e-9, step_cap)
-        guess = hist[-1][2]
-        if len(hist) >= 2:  # linear predictor along the branch
-            (d1, _, U1), (d2, _, U2) = hist[-2], hist[-1]
-            guess = U2 + (U2 - U1) * (dD / (d2 - d1))
+        dD = step
+        # Sections near the surface change their wetting history (wetted sections may let go,
+        # dry ones get wetted): let none of them move more than SURFACE_STEP per step, so that
+        # none can dip in and out, or rise out and back, unseen.
+        ya, dya = a["U"][3::4], np.abs(a["dU"][3::4])
+        band = np.where(a["wet"], ya > fd.d_off - 0.1, ya > -SNAP_RAMP - SURFACE_STEP) & (ya < SURFACE_STEP)
+        if np.any(band):
+            dD = min(dD, SURFACE_STEP / max(float(np.max(dya[band])), 1e-9))
+        if a["dmd"] > 1e-9 and a["md"] < fd.d_b:
+            dD = min(dD, 1.05 * (fd.d_b - a["md"]) / a["dmd"] + 1e-7)
+        if len(path) >= 2 and a["V"] > 0.0:
+            p = path[-2]
+            if p["dV"] > a["dV"] > 0.0 and a["Dc"] > p["Dc"]:
+                dD = min(dD, 1.05 * a["dV"] * (a["Dc"] - p["Dc"]) / (p["dV"] - a["dV"]) + 1e-7)
         try:
-            sol = solve(L, B, alpha, Dc + dD, foundation, n=n, th0=th0, end=end, guess=guess)
+            b = P.state(a["Dc"] + dD, a["wet"], guess=a["U"] + a["dU"] * dD)
         except ConvergenceError:
-            step_cap = 0.5 * min(step_cap, dD)
-            if step_cap >= 1e-3 * span:
+            step = 0.5 * dD
+            if step >= h_min:
                 continue
-            # No neighbouring equilibrium: the branch folds (typically the tip snapping off the
-            # surface where the adhesive pull of the rod law fades). Jump ahead onto the
-            # branch that continues, starting from a nearly rigid leg.
-            for jump in (0.005, 0.02, 0.05):
-                try:
-                    sol = _solve_from_stiff(L, B, alpha, Dc + jump * span, foundation, n=n, th0=th0, end=end)
-                    break
-                except ConvergenceError:
-                    continue
-            else:
-                raise
+            b = _jump(P, a)
             snaps += 1
-            Dc += jump * span
-            g = max_depth(sol["y"]) - d_lim
-            hist = [(Dc, g, sol["U"])]
-            step_cap = 0.05 * span
-            steps += 1
-            continue
-        step_cap = min(2.0 * step_cap, 0.25 * span)
-        steps += 1
-        Dc += dD
-        g = max_depth(sol["y"]) - d_lim
-        hist.append((Dc, g, sol["U"]))
-    if len(hist) < 2 and g > tol:
-        # Landed beyond the limit right after a jump: walk back along the new branch until the
-        # deepest point is above the limit depth again, which brackets the crossing.
-        back, Ub = 0.01 * span, sol["U"]
-        for _ in range(30):
-            c = Dc - back
-            s_c = solve(L, B, alpha, c, foundation, n=n, th0=th0, end=end, guess=Ub)
-            steps += 1
-            gc = max_depth(s_c["y"]) - d_lim
-            if gc < 0.0:
-                hist = [(c, gc, s_c["U"]), (Dc, g, sol["U"])]
+            if b["V"] < a["V"]:
+                drops.append((a, b["V"]))
+            if b["md"] >= fd.d_b or (b["dV"] <= 0.0 and b["V"] > 0.0):
+                lim = _after_jump(P, a, b, path, fd, tol)
                 break
-            Dc, g, sol, Ub = c, gc, s_c, s_c["U"]
-            back *= 2.0
-        else:
-            raise ConvergenceError("flexible-leg limit search could not return to the limit after a snap")
-    if abs(g) <= tol or len(hist) < 2:
-        sol.update(clamp_depth=float(sol["y"][0]), steps=steps, snaps=snaps)
-        return sol
-    # Bracket with g(a) < 0 <= g(b); Illinois variant of regula falsi.
-    a, ga, Ua = hist[-2]
-    b, gb, Ub = hist[-1]
-    best = sol
-    for _ in range(60):
-        if abs(gb) < tol or abs(b - a) < tol:
-            break
-        c = b - gb * (b - a) / (gb - ga)
-        w = (c - a) / (b - a)
+            path.append(b)
+            a, step = b, 0.02
+            continue
+        lim = _event(P, a, b, fd, tol)
+        path.append(b)
+        a = b
+        step = min(cap, 2.0 * dD) if b["iterations"] <= 4 else dD
+    pre = [d[0] for d in drops if d[0]["V"] > lim["V"] and d[0]["Dc"] < lim["Dc"]]
+    if pre:  # the force fell at a snap and never regained its value before it
+        lim = max(pre, key=lambda st: st["V"])
+        lim["criterion"] = "clamp-force maximum"
+    if lim["Dc"] < path[-1]["Dc"]:
+        path = [p for p in path if p["Dc"] < lim["Dc"]] + [lim]
+    elif path[-1] is not lim:
+        path.append(lim)
+    ons = None
+    if onset and lim["md"] >= fd.d_lim:
+        for p, q in zip(path[:-1], path[1:]):
+            if p["md"] < fd.d_lim <= q["md"]:
+                c = P.refine(p, q, lambda st: st["md"] - fd.d_lim, tol)
+                ons = {"clamp_depth": c["Dc"], "V": c["V"], "y": c["sol"]["y"]}
+                break
+    out = dict(lim["sol"])
+    out.update(clamp_depth=lim["Dc"], criterion=lim["criterion"], wet=lim["wet_in"], steps=P.solves,
+               snaps=snaps, drops=[(st["Dc"], st["V"], v) for st, v in drops],
+               onset=ons, dV=lim["dV"])
+    if keep_path:
+        out["path"] = path
+    return out
+
+
+def _event(P, a, b, fd, tol):
+    """The limit state if one lies between path states ``a`` and ``b``, else None."""
+    brk = b["md"] >= fd.d_b
+    mx = a["V"] > 0.0 and a["dV"] > 0.0 and b["dV"] <= 0.0
+    if not (brk or mx):
+        return None
+    vtol = 1e-11 * max(1.0, abs(b["V"]))
+    if mx:
+        c = P.refine(a, b, lambda st: -st["dV"], vtol)
+        if c["md"] <= fd.d_b:
+            c["criterion"] = "clamp-force maximum"
+            return c
+        b = c
+    c = P.refine(a, b, lambda st: st["md"] - fd.d_b, tol)
+    if c["dV"] < 0.0 and a["dV"] > 0.0 and a["V"] > 0.0:  # the maximum comes first after all
+        c = P.refine(a, c, lambda st: -st["dV"], vtol)
+        c["criterion"] = "clamp-force maximum"
+        return c
+    c["criterion"] = "local breakthrough"
+    return c
+
+
+def _jump(P, a):
+    """Past a fold: the state a little deeper on the branch that continues (from a stiff leg)."""
+    for jump in (0.01, 0.04, 0.1):
         try:
-            best = solve(L, B, alpha, c, foundation, n=n, th0=th0, end=end, guess=Ua + w * (Ub - Ua))
+            return P.state(a["Dc"] + jump, a["wet"])
         except ConvergenceError:
-            best = _solve_from_stiff(L, B, alpha, c, foundation, n=n, th0=th0, end=end)
-        steps += 1
-        gc = max_depth(best["y"]) - d_lim
-        if gc * gb < 0.0:
-            a, ga, Ua = b, gb, Ub
-        else:
-            ga *= 0.5
-        b, gb, Ub = c, gc, best["U"]
-    else:  # pragma: no cover - regula falsi with the Illinois fix converges superlinearly
-        raise ConvergenceError("flexible-leg limit search did not converge")
-    best.update(clamp_depth=float(best["y"][0]), steps=steps, snaps=snaps)
+            continue
+    raise ConvergenceError("flexible-leg limit search could not pass a fold of the load path")
+
+
+def _after_jump(P, a, b, path, fd, tol):
+    """The jump landed past the limit: walk back along the new branch to bracket it."""
+    back, cur = 0.005, b
+    for _ in range(30):
+        D = cur["Dc"] - back
+        if D <= a["Dc"]:
+            break
+        try:
+            c = P.near(cur, D)
+        except ConvergenceError:
+            break
+        if c["md"] < fd.d_b and c["dV"] > 0.0:
+            lim = _event(P, c, cur, fd, tol)
+            if lim is not None:
+                return lim
+            break
+        cur, back = c, 2.0 * back
+    # No bracket on the new branch: keep the better of the state before the jump and after it.
+    best = a if (a["V"] >= cur["V"] or cur["md"] > fd.d_b) else cur
+    best["criterion"] = "clamp-force maximum"
     return best
 
 
-def rigid_limit(L: float, foundation: Foundation, th0, n_quad: int = 4001):
+def rigid_limit(L: float, foundation: Foundation, th0, n_quad: int = 4001, n_scan: int = 64):
     """Limit of the same leg if it were rigid, in its natural shape ``th0`` (slopes at nodes).
 
-    The rigid leg is lowered until its deepest point reaches ``D_lim``; its net upward force is
-    then ``∫ (f(y) − w) ds`` along the shape (trapezoidal rule on ``n_quad`` points).
+    The rigid leg is pushed down from first touch; no section ever rises, so the parts above
+    the surface are dry. Its liquid force is ``F(D_c) = ∫ f(D_c + y(s)) ds`` (trapezoidal rule on
+    ``n_quad`` points) and the limit is the first maximum of ``F − wL`` with positive support
+    (``dF/dD_c = ∫ f'(D_c + y) ds = 0``: located on ``n_scan`` clamp depths, then by Brent's
+    method), or the clamp depth where the deepest point reaches the breakthrough depth if the
+    force still rises there. A level leg peaks where its whole length is at the rod law's
+    limit depth; a tilted one peaks later, with f equal at its deepest and shallowest wetted
+    points.
 
     Returns
     -------
     dict with ``force`` (net, at the clamp) and ``liquid_force`` [σ l_c], ``clamp_depth``
-    [l_c].
+    [l_c], ``criterion`` (as :func:`limit`).
     """
+    from scipy.optimize import brentq
+
+    fd = foundation
     s_nodes = np.linspace(0.0, L, len(th0))
     s = np.linspace(0.0, L, n_quad)
     th = np.interp(s, s_nodes, th0)
     ds = s[1] - s[0]
     y = np.concatenate([[0.0], np.cumsum(0.5 * ds * (np.sin(th[1:]) + np.sin(th[:-1])))])
-    Dc = foundation.d_lim - float(np.max(y))
-    f, _ = foundation.force(Dc + y)
-    fl = float(np.trapezoid(f, s))
-    return {"force": fl - foundation.weight * L, "liquid_force": fl, "clamp_depth": Dc}
+    top = float(np.max(y))
+    dry = np.zeros(n_quad, dtype=bool)
+
+    def F(Dc, k=0):
+        return float(np.trapezoid(fd.liquid(Dc + y, dry)[k], s))
+
+    grid = np.linspace(-top, fd.d_b - top, n_scan)
+    step = max(1, (n_quad - 1) // 500)  # the scan only brackets the maximum: a coarser rule will do
+    yc, sc = y[::step], s[::step]
+    f, df = fd.liquid(grid[:, None] + yc[None, :], dry[None, ::step])
+    Fv, dFv = np.trapezoid(f, sc, axis=1), np.trapezoid(df, sc, axis=1)
+    Dc, crit = float(grid[-1]), "local breakthrough"
+    for k in range(n_scan - 1):
+        if Fv[k] - fd.weight * L > 0.0 and dFv[k] > 0.0 and dFv[k + 1] <= 0.0:
+            Dc = float(brentq(lambda D: F(D, 1), grid[k], grid[k + 1], xtol=1e-13))
+            crit = "clamp-force maximum"
+            break
+    fl = F(Dc)
+    return {"force": fl - fd.weight * L, "liquid_force": fl, "clamp_depth": Dc, "criterion": crit}
+
+
+def _positive_length(s, g, strict: bool = False) -> float:
+    """Length [l_c] of the leg where the nodal indicator ``g`` is positive, crossings interpolated."""
+    a, b = g[:-1], g[1:]
+    ds = np.diff(s)
+    pa, pb = (a > 0, b > 0) if strict else (a >= 0, b >= 0)
+    both = pa & pb
+    one = pa ^ pb
+    frac = np.where(one, np.maximum(a, b) / np.maximum(np.abs(a) + np.abs(b), 1e-300), 0.0)
+    return float(np.sum(ds * both) + np.sum(ds * frac))
+
+
+def contact_lengths(s, y, wet, foundation: Foundation):
+    """Wetted length of the leg and the part of it above the undisturbed surface [l_c].
+
+    A section touches the liquid when it is at or below the surface, or above it but wetted
+    before and not yet let go (within the receding law's reach, depth ≥ ``d0_r``).
+    """
+    g = np.where(np.asarray(wet, dtype=bool), y - foundation.d0_r, y)
+    return _positive_length(s, g), _positive_length(s, np.minimum(g, -y), strict=True)
 
 
 def wetted_length(s, y, d0: float) -> float:
-    """Length [l_c] of the leg in contact with the liquid (y ≥ d0), crossings interpolated."""
-    a, b = y[:-1] - d0, y[1:] - d0
-    ds = np.diff(s)
-    both = (a >= 0) & (b >= 0)
-    one = (a >= 0) ^ (b >= 0)
-    frac = np.where(one, np.maximum(a, b) / np.maximum(np.abs(a) + np.abs(b), 1e-300), 0.0)
-    return float(np.sum(ds * both) + np.sum(ds * frac))
+    """Length [l_c] of the leg with ``y ≥ d0``, crossings interpolated (no wetting history)."""
+    return _positive_length(s, np.asarray(y, dtype=float) - d0)
