@@ -84,10 +84,9 @@ def _run_flexible(args, liq) -> int:
         raise input_error("spacing", "is not supported with the flexible-leg model (legs far apart)", args.spacing)
     r = flexible_leg(args.radius, args.length, args.contact_angle, youngs_modulus=args.youngs_modulus,
                      material=args.material, clamp_angle=args.clamp_angle or "0 deg", toe_angle=args.toe_angle,
-                     material_density=args.material_density, liquid=liq, count=args.count)
+                     material_density=args.material_density, liquid=liq, count=args.count,
+                     receding_angle=args.receding_angle)
     notes = list(r.warnings)
-    if args.receding_angle is not None:
-        notes.append("receding angle is not used by the flexible-leg model")
     if args.json:
         d = element_json(r, args, INPUTS)
         d["warnings"] = notes
@@ -109,6 +108,8 @@ def _run_flexible(args, liq) -> int:
                                        f"{r.flexible_to_rigid:.3g} × rigid payload {fmt(r.rigid_payload, 'mN')}"),
         ("clamp depth at limit", f"{fmt(r.clamp_depth_at_max, 'mm')}; deepest point at {fmt(r.depth_at_max, 'mm')}"),
         ("tip depth at limit", fmt(r.tip_depth, "mm")),
+        ("limit set by", f"{r.limit_criterion}"),
+        ("lifted wetted length", fmt(r.lifted_length, "mm")),
         ("wetted length", fmt(r.wetted_length, "mm")),
         ("largest slope / bending strain", f"{r.max_slope.magnitude:.3g}° / {r.max_bending_strain * 100:.3g} %"),
         ("elasto-capillary length", f"{fmt(r.elastocapillary_length, 'mm')}  ((EI/σ)^(1/3))"),

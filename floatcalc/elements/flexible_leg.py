@@ -47,7 +47,9 @@ class FlexibleLegKind(ElementKind):
 
     def _args(self, p):
         th = effective_angle(p["coating"]["advancing"], p["coating"])
+        rec = p["coating"].get("receding")
         return dict(radius=p["radius"], length=p["length"], contact_angle=th,
+                    receding_angle=None if rec is None or rec > th else rec,
                     youngs_modulus=p.get("youngs_modulus"), material=p.get("material_name"),
                     clamp_angle=p["clamp_angle"], toe_angle=p["toe_angle"] or None,
                     material_density=p["density"])
