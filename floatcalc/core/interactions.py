@@ -86,6 +86,13 @@ Findings and accuracy (tests/core/test_interactions.py, tests/benchmarks):
 * Mesh: the default rod mesh (1 panel per l_c, 2R at the ends, growth 2) puts the twelve-leg
   skimmer's limit 8e-5 above a mesh four times finer (an overstatement of that size).
 
+Use: ``lay = Layout(bodies)`` once per geometry (:class:`RodBody`, :class:`RoundBody`; 2D
+mode :meth:`Layout.parallel_2d`), then ``st = lay.solve(depth, tilt, start=previous_state)``
+(:class:`State`: forces and parts per body, contact lengths, ``dforce_ddepth``,
+``dforce_along(direction)``, panel data, ``meniscus(x, y)``), :func:`limit` for a body's (or all
+bodies') breakthrough, :func:`isolated_limit` for a body alone. ``lay.warnings`` carries the
+validity warnings of the layout.
+
 Validity: rods straight, horizontal up to a small tilt along the axis, length ≥ 4 R; menisci
 locally 1D across each panel (panel line a distance R from the axis; the lateral offset is
 carried exactly in 1D); contact-line geometry of the outer problem fixed at the panel lines
