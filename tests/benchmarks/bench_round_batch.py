@@ -19,6 +19,9 @@ random rings of the whole range (R_r 0.05 … 100 l_c, b/R_r 1e-3 … 0.5, θ 0 
 ``ring_ms_typical`` for θ 90 … 170°, R_r 0.5 … 20 l_c, b/R_r 0.01 … 0.2, ``ring_ms_single``
 (one ring per call), ``ring_scalar_s`` (the scalar path, a few rings) and
 ``ring_max_rel_diff`` (limit force).
+
+``<kind>_element_ms_single``: one element per call of :func:`floatcalc.round.element_tables`
+(SI in and out), what a device build would pay per element on the fast path.
 """
 
 from __future__ import annotations
@@ -165,8 +168,25 @@ def _ring_figures(quick):
     return out
 
 
+def _single_elements(quick):
+    """One element per call of floatcalc.round.element_tables (SI), as a device build would."""
+    from floatcalc import round as rd
+
+    k = 10 if quick else 40
+    cases = {"ball": dict(radius=1e-3), "pad": dict(radius=2e-3, thickness=0.2e-3),
+             "pin": dict(radius=0.1e-3, length=3e-3), "ring": dict(ring_radius=5e-3, wire_radius=0.2e-3)}
+    out = {}
+    for name, geo in cases.items():
+        rd.element_tables(name, contact_angle=math.radians(150), **geo)
+        t0 = time.perf_counter()
+        for i in range(k):
+            rd.element_tables(name, contact_angle=math.radians(140 + i * 0.5), **geo)
+        out[f"{name}_element_ms_single"] = 1e3 * (time.perf_counter() - t0) / k
+    return out
+
+
 def run(quick: bool = False) -> dict:
-    return {**_round_kinds(quick), **_ring_figures(quick)}
+    return {**_round_kinds(quick), **_ring_figures(quick), **_single_elements(quick)}
 
 
 if __name__ == "__main__":
