@@ -282,8 +282,9 @@ def ball_laws(radius, contact_angle, *, n: int = 241, points: int = TABLE_POINTS
         Contact positions of the coarse curve, φ = linspace(0, π, n) (as the scalar path).
     points : int
         Points of the device table.
-    min_contact_radius : float [l_c]
-        Floor of the contact radius in the Keller contact depth of the table.
+    min_contact_radius : float or array_like [l_c]
+        Floor of the contact radius in the Keller contact depth of the table (one value per
+        design allowed; the device adapter floors at 1e-9 m, i.e. 1e-9 / l_c here).
 
     Returns
     -------
