@@ -623,7 +623,7 @@ def _si_array(x, name: str, positive: bool = True) -> np.ndarray:
 def element_tables(kind: str, *, contact_angle: Any, liquid: Liquid | None = None,
                    surface_tension: Any | None = None, material_density: Any = DEFAULT_MATERIAL_DENSITY,
                    radius: Any = None, thickness: Any = None, length: Any = None, ring_radius: Any = None,
-                   wire_radius: Any = None, points: int = 241) -> ElementTables:
+                   wire_radius: Any = None, points: int = 241, edges: str = "direct") -> ElementTables:
     """Limit and device force–depth table of many balls, pads, pins or rings in one call.
 
     The same laws and numbers as :func:`ball`, :func:`pad`, :func:`pin` and :func:`ring`
@@ -651,6 +651,11 @@ def element_tables(kind: str, *, contact_angle: Any, liquid: Liquid | None = Non
         ``ring_radius``, ``wire_radius``. All inputs broadcast together (1-D).
     points : int
         Points of each table.
+    edges : {"direct", "table"}
+        Balls and pads with θ within 2.4° of 0 or 180° meet contact inclinations beyond the
+        shipped table: ``"direct"`` shoots them as :func:`ball` and :func:`pad` do (same
+        numbers, 10–100 ms a point), ``"table"`` reads a cap table instead (≤ 5e-7 l_c from the
+        direct solver); see :func:`floatcalc.core.round_batch.ball_laws`.
 
     Returns
     -------
@@ -704,7 +709,7 @@ def element_tables(kind: str, *, contact_angle: Any, liquid: Liquid | None = Non
     warn: list[list[str]] = [[] for _ in th]
     if kind == "ball":
         R = geo["radius"]
-        out = round_batch.ball_laws(R / lc, th, points=points)
+        out = round_batch.ball_laws(R / lc, th, points=points, edges=edges)
         rc = out["contact_radius_at_max"] * lc
         weight = rho_s * 4.0 / 3.0 * math.pi * R**3 * liq.g
         per = 2.0 * math.pi * np.maximum(rc, 1e-9)
@@ -713,7 +718,7 @@ def element_tables(kind: str, *, contact_angle: Any, liquid: Liquid | None = Non
                            "(no capillary limit)")
     elif kind == "pad":
         a, t = geo["radius"], geo["thickness"]
-        out = round_batch.pad_laws(a / lc, t / lc, th, points=points)
+        out = round_batch.pad_laws(a / lc, t / lc, th, points=points, edges=edges)
         rc, weight, per = a, rho_s * math.pi * a * a * t * liq.g, 2.0 * math.pi * a
         for i in np.flatnonzero(th < 1e-9):
             warn[i].append("contact angle 0°: the top-edge stage has no range; liquid floods the top at once")

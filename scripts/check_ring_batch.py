@@ -45,6 +45,7 @@ def main() -> None:
     if not args.table_outer:
         rb.depth_outer = lambda rc, psi: -axisym.solve(rc, psi)["height"]
     Rr, b, th = rings(args.rings, args.seed)
+    RB.ring_laws(1.0, 0.1, 2.0)  # load the tables first
     t = time.perf_counter()
     fast = RB.ring_laws(Rr, b, th)
     t_fast = time.perf_counter() - t

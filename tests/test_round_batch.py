@@ -272,3 +272,23 @@ def test_ring_contact_line_bound_and_table():
     assert np.all(np.diff(out["table"]["depth"], axis=-1) >= 0)
     one = RB.ring_laws(Rr[3], b[3], th[3])
     assert float(one["max_force"]) == pytest.approx(out["max_force"][3], rel=1e-12)
+
+
+def test_edges_from_the_cap_table_match_the_direct_path():
+    """θ within 2.4° of 0 or 180°: contact inclinations beyond the shipped table. ``edges="table"``
+    reads them from ring_table's cap (checked there against the direct solver); the limit agrees
+    with the scalar path, which shoots them directly, to 1e-6."""
+    R = np.array([0.5, 2.0, 0.5])
+    th = np.radians([179.0, 178.5, 0.5])
+    fast = B.ball_laws(R, th, edges="table")
+    for i in range(R.size):
+        best, _ = rb.ball_limit(R[i], th[i])
+        assert fast["max_force"][i] == pytest.approx(best["force"], rel=1e-6)
+    a, t, thp = np.array([0.3, 1.5]), np.array([0.03, 0.2]), np.radians([179.5, 178.0])
+    fp = B.pad_laws(a, t, thp, edges="table")
+    for i in range(a.size):
+        best, _ = rb.pad_limit(a[i], t[i], thp[i])
+        assert fp["max_force"][i] == pytest.approx(best["force"], rel=1e-6)
+        assert fp["depth_at_max"][i] == pytest.approx(best["depth"], rel=1e-5)
+    with pytest.raises(ValueError):
+        B.ball_laws(0.5, 2.0, edges="guess")

@@ -15,9 +15,10 @@ panel. Across a panel the normal slope jumps by −q, so on the side its normal 
 
 Panel integrals: the logarithmic parts of K₀ (−(1 + r²/4) ln r) and the 1/r + (r/2) ln r
 part of K₁ are integrated in closed form over each straight panel; the smooth remainders by
-two 6-point Gauss–Legendre rules split at the foot of the perpendicular. This handles near-singular pairs (the two sides of a thin rod, adjacent
-panels) to about 1e-8 (checked against adaptive quadrature); pairs more than four panel
-lengths apart use a plain 4-point rule.
+two 6-point Gauss–Legendre rules split at the foot of the perpendicular. This handles
+near-singular pairs (the two sides of a thin rod, adjacent panels) to about 1e-8 (checked
+against adaptive quadrature); pairs more than four panel lengths apart use a plain 4-point
+rule.
 
 References
 ----------

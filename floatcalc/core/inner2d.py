@@ -47,11 +47,17 @@ Exactness: an outer *linear* solution fed with these virtual data reproduces the
 nonlinear solution at any gap, because in every gap between two contact lines it has the same
 invariant and the same turning point as the true interface (E < 0: h = h_m cosh(n − N)), and
 on an open side it has the same tail. The virtual data can be carried to any nearby station
-n = δ by the linear solution (exact in 1D): h_v = a e^{−δ} + b e^{δ}, ∂ₙh_v = −a e^{−δ} + b e^{δ}.
+n = δ by the linear solution (exact in 1D):
+h_v = a e^{−δ} + b e^{δ}, ∂ₙh_v = −a e^{−δ} + b e^{δ}.
+
+The map is continuous but not smooth at E = 0: the excess integral I has an s ln|s| term
+(s = −E/4), so its slope is log-singular at the isolated state (a resonant saddle of the
+phase plane). Solvers should difference it over a finite step there.
 
 Validity: any |ψ| ≤ π and any h (the quadrature, 64-point Gauss–Legendre, is good to about
-1e-12 for |ψ| ≤ 150° (24 nodes: 1e-9) and degrades to about 1e-6 as |ψ| → 180°, where f has an integrable end
-singularity). In 3D it holds where the meniscus is locally 1D across a contact-line panel.
+1e-12 for |ψ| ≤ 150°, with 16 nodes 2e-8, and degrades to about 1e-6 as |ψ| → 180°, where f
+has an integrable end singularity). In 3D it holds where the meniscus is locally 1D across a
+contact-line panel.
 
 References
 ----------

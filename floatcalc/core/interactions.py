@@ -86,6 +86,13 @@ Findings and accuracy (tests/core/test_interactions.py, tests/benchmarks):
 * Mesh: the default rod mesh (1 panel per l_c, 2R at the ends, growth 2) puts the twelve-leg
   skimmer's limit 8e-5 above a mesh four times finer (an overstatement of that size).
 
+Use: ``lay = Layout(bodies)`` once per geometry (:class:`RodBody`, :class:`RoundBody`; 2D
+mode :meth:`Layout.parallel_2d`), then ``st = lay.solve(depth, tilt, start=previous_state)``
+(:class:`State`: forces and parts per body, contact lengths, ``dforce_ddepth``,
+``dforce_along(direction)``, panel data, ``meniscus(x, y)``), :func:`limit` for a body's (or all
+bodies') breakthrough, :func:`isolated_limit` for a body alone. ``lay.warnings`` carries the
+validity warnings of the layout.
+
 Validity: rods straight, horizontal up to a small tilt along the axis, length ≥ 4 R; menisci
 locally 1D across each panel (panel line a distance R from the axis; the lateral offset is
 carried exactly in 1D); contact-line geometry of the outer problem fixed at the panel lines
@@ -983,7 +990,7 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
     if isinstance(body, str) and body == "all":
         dirn = np.ones(layout.n_bodies)
         base = depth.copy()
-        d0 = min(_start_depth(layout, i) for i in range(layout.n_bodies))
+        d0 = _common_start(layout)
 
         def obj(s):
             return float(np.sum(s.force))
@@ -1122,13 +1129,24 @@ def _not_flooded(layout: Layout, st: State, b: int) -> bool:
 
 
 def _start_depth(layout: Layout, b: int) -> float:
+    """A depth safely before body b's limit alone (0.85 of the way to it)."""
     body = layout.bodies[b]
     if isinstance(body, RodBody):
         from . import rod2d
 
         return 0.85 * float(rod2d.limit_force(body.radius, body.theta)["depth"])
     law = layout.laws[int(np.flatnonzero(layout.round_idx == b)[0])]
-    return law.lo + 0.3 * (law.hi - law.lo)
+    D, F = law.tab["depth"], law.tab["force"]
+    d_max = float(D[int(np.argmax(F))])
+    return max(law.lo + 1e-6, law.lo + 0.85 * (d_max - law.lo))
+
+
+def _common_start(layout: Layout) -> float:
+    """Start depth for all bodies pushed together: the shallowest body's start, but no
+    shallower than any round body's first contact or 0.02 l_c."""
+    d0 = min(_start_depth(layout, i) for i in range(layout.n_bodies))
+    floor = max([0.02] + [law.lo + 1e-6 for law in layout.laws])
+    return max(d0, floor)
 
 
 def isolated_limit(body: RodBody | RoundBody, panels_per_lc: float = 2.0) -> dict:

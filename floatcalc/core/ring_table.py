@@ -17,12 +17,12 @@ towards π), tensor-product quintic spline, z_c odd in ψ.
 The exterior part extends :mod:`floatcalc.core.axisym_table` (which stops at r_c = 100 and
 |ψ| = 3.1) to r_c = 300 with the same transformed quantity on 25 × 121 nodes over
 50 … 300 l_c, |ψ| ≤ 3.1 (large rings: the outer contact radius reaches 1.5 × 100 l_c), and,
-for the ends of ring curves (θ within 2.4° of 0 or 180°), a cap over 3.05 ≤ |ψ| ≤ π − 10⁻⁶,
-r_c = 0.01 … 300 on 141 × 61 nodes in (ln r_c, sqrt(π − 10⁻⁶ − |ψ|)), where z_c of a thin body
-falls steeply to zero; used from r_c = 0.02 (measured ≤ 5e-7 l_c absolute from the direct
+for the ends of ring, ball and pad curves (θ within 2.4° of 0 or 180°), a cap over 3.05 ≤ |ψ| ≤ π − 10⁻⁶,
+r_c = 5e-5 … 300 on 191 × 61 nodes in (ln r_c, sqrt(π − 10⁻⁶ − |ψ|)), where z_c of a thin body
+falls steeply to zero; used from r_c = 1e-4 (measured ≤ 5e-7 l_c absolute from the direct
 solver, below the solver's own uncertainty there of up to 5e-5 l_c (see
 :func:`floatcalc.core.axisym.solve`); relative errors reach 6e-3 only where z_c → 0, within
-1e-4 rad of π for r_c ≲ 0.5).
+1e-4 rad of π for r_c ≲ 0.5; 1.4e-8 relative for r_c = 1e-4 … 0.02, |ψ| ≤ 3.14).
 
 Both tables are built by ``scripts/build_ring_table.py`` with the direct solver
 (:func:`floatcalc.core.axisym.solve`, tight tolerance) and shipped as
@@ -44,7 +44,7 @@ from . import axisym_table
 IN_R_MIN, IN_R_MAX = 0.01, 300.0
 IN_PSI = np.pi - 1e-6
 OUT_R_MIN, OUT_R_MAX = 50.0, 300.0
-CAP_R_MIN, CAP_R_USE, CAP_PSI_LO = 0.01, 0.02, 3.05
+CAP_R_MIN, CAP_R_USE, CAP_PSI_LO = 5e-5, 1e-4, 3.05
 PSI_MAX = np.pi - 1e-6  # the direct solver solves inclinations closer to π at this value
 TABLE_PATH = Path(__file__).resolve().parent.parent / "data" / "ring_table.npz"
 
@@ -62,8 +62,8 @@ def outer_grid(n_r: int = 25, n_psi: int = 121):
     return lnr, axisym_table.grid(2, n_psi)[1]
 
 
-def cap_grid(n_r: int = 141, n_v: int = 61):
-    """Nodes of the exterior cap table: ln r_c uniform over 0.01 … 300; v = sqrt(ψ_max − ψ)
+def cap_grid(n_r: int = 191, n_v: int = 61):
+    """Nodes of the exterior cap table: ln r_c uniform over 5e-5 … 300; v = sqrt(ψ_max − ψ)
     uniform over ψ = 3.05 … π − 10⁻⁶ (nodes crowd towards π, where z_c of a thin body falls
     steeply to zero)."""
     lnr = np.linspace(np.log(CAP_R_MIN), np.log(OUT_R_MAX), n_r)
@@ -140,7 +140,7 @@ def inner_height(rc, psi):
 def outer_height(rc, psi):
     """Contact-line height z_c [l_c] outside a body: :func:`floatcalc.core.axisym_table.evaluate`
     up to r_c = 100 and |ψ| ≤ 3.1, this module's extension from there to 300 l_c, its cap
-    table for 3.1 < |ψ| ≤ π at r_c ≥ 0.02 (inclinations within 1e-6 of π taken at π − 1e-6, as
+    table for 3.1 < |ψ| ≤ π at r_c ≥ 1e-4 (inclinations within 1e-6 of π taken at π − 1e-6, as
     the direct solver does), the direct solver elsewhere.
 
     >>> round(float(outer_height(200.0, 1.0)), 5)   # close to the 2D value −2 sin(1/2) = −0.95885

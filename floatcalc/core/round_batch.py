@@ -66,6 +66,23 @@ def _depth(rc, psi):
     return -axisym.contact_height(rc, psi)
 
 
+def _depth_cap(rc, psi):
+    from .ring_table import outer_height
+
+    return -outer_height(rc, psi)
+
+
+def _depth_fn(edges: str):
+    """Contact-depth law: ``"direct"`` the scalar path's (shipped table, direct shooting for
+    |ψ| > 3.1, ~10–100 ms a point), ``"table"`` with the cap table of
+    :mod:`floatcalc.core.ring_table` there (r_c ≥ 1e-4; ≤ 5e-7 l_c from the direct solver)."""
+    if edges == "direct":
+        return _depth
+    if edges == "table":
+        return _depth_cap
+    raise ValueError(f"edges must be 'direct' or 'table', got {edges!r}")
+
+
 # ---------------------------------------------------------------------------------------------
 # Helpers on ragged rows stored as padded 2-D arrays
 
@@ -257,11 +274,11 @@ def device_table(D, F, Fst, n, d_lim, rc, points: int = TABLE_POINTS, min_contac
 # Ball
 
 
-def _ball_parts(phi, R, theta):
+def _ball_parts(phi, R, theta, dep=_depth):
     """Force parts of spheres at contact positions φ (arrays of one shape; rc ≥ R_MIN)."""
     rc = R * np.sin(phi)
     psi = phi + theta - PI
-    d = _depth(rc, psi)
+    d = dep(rc, psi)
     c = np.cos(phi)
     f_st = 2.0 * PI * rc * np.sin(psi)
     f_p = PI / 3.0 * R**3 * (1.0 - c) ** 2 * (2.0 + c) + PI * rc**2 * d
@@ -269,7 +286,7 @@ def _ball_parts(phi, R, theta):
 
 
 def ball_laws(radius, contact_angle, *, n: int = 241, points: int = TABLE_POINTS,
-              min_contact_radius: float = 1e-9) -> dict:
+              min_contact_radius: float = 1e-9, edges: str = "direct") -> dict:
     """Limit and device table of spheres (ball feet) for arrays of designs.
 
     Parameters
@@ -282,8 +299,14 @@ def ball_laws(radius, contact_angle, *, n: int = 241, points: int = TABLE_POINTS
         Contact positions of the coarse curve, φ = linspace(0, π, n) (as the scalar path).
     points : int
         Points of the device table.
-    min_contact_radius : float [l_c]
-        Floor of the contact radius in the Keller contact depth of the table.
+    min_contact_radius : float or array_like [l_c]
+        Floor of the contact radius in the Keller contact depth of the table (one value per
+        design allowed; the device adapter floors at 1e-9 m, i.e. 1e-9 / l_c here).
+    edges : {"direct", "table"}
+        Contact depths at inclinations |ψ| > 3.1 (θ within 2.4° of 0 or 180°): ``"direct"``
+        shoots them as the scalar path does (same numbers, 10–100 ms a point); ``"table"``
+        takes them from the cap table of :mod:`floatcalc.core.ring_table` where r_c ≥ 1e-4
+        (≤ 5e-7 l_c from the direct solver; much faster for such designs).
 
     Returns
     -------
@@ -304,13 +327,14 @@ def ball_laws(radius, contact_angle, *, n: int = 241, points: int = TABLE_POINTS
     shape = R.shape
     R, th = R.ravel(), th.ravel()
     S = R.size
+    dep = _depth_fn(edges)
     phi = np.broadcast_to(np.linspace(0.0, PI, n), (S, n))
     inner = np.zeros((S, n), dtype=bool)
     inner[:, 1:-1] = True
     ok = inner & (R[:, None] * np.sin(phi) >= R_MIN)
     Rb, tb = np.broadcast_to(R[:, None], (S, n)), np.broadcast_to(th[:, None], (S, n))
     rc, psi, d, D, fst, fp = (np.zeros((S, n)) for _ in range(6))
-    out = _ball_parts(phi[ok], Rb[ok], tb[ok])
+    out = _ball_parts(phi[ok], Rb[ok], tb[ok], dep)
     for arr, val in zip((rc, psi, d, D, fst, fp), out):
         arr[ok] = val
     # exact ends: φ = 0 (touching) and φ = π (fully under)
@@ -343,13 +367,13 @@ def ball_laws(radius, contact_angle, *, n: int = 241, points: int = TABLE_POINTS
         Rw, tw = R[w], th[w]
 
         def neg_force(x, r):
-            _, _, _, _, a, b = _ball_parts(x, Rw[r], tw[r])
+            _, _, _, _, a, b = _ball_parts(x, Rw[r], tw[r], dep)
             return -(a + b)
 
         x, fneg = fminbound_many(neg_force, lo, hi)
         use = -fneg >= F_b[w, k[w]]
         phi_k = np.where(use, x, phi_b[w, k[w]])
-        rc_k, psi_k, d_k, D_k, st_k, p_k = _ball_parts(phi_k, Rw, tw)
+        rc_k, psi_k, d_k, D_k, st_k, p_k = _ball_parts(phi_k, Rw, tw, dep)
         for key, val in (("phi", phi_k), ("rc", rc_k), ("psi", psi_k), ("d", d_k), ("depth", D_k),
                          ("surface_tension", st_k), ("pressure", p_k), ("force", st_k + p_k)):
             best[key][w] = val
@@ -374,23 +398,23 @@ def _finish(res, tab, shape, curve):
 # Pad and pin
 
 
-def _psi_at_depth(a, d_target, lo, hi):
+def _psi_at_depth(a, d_target, lo, hi, dep=_depth):
     """ψ in [lo, hi] with d(a, ψ) = d_target, by the scalar path's 60 bisections, on arrays."""
     lo = np.array(lo, dtype=float, copy=True)
     hi = np.array(hi, dtype=float, copy=True)
     for _ in range(60):
         mid = 0.5 * (lo + hi)
-        above = _depth(a, mid) < d_target
+        above = dep(a, mid) < d_target
         lo, hi = np.where(above, mid, lo), np.where(above, hi, mid)
     return 0.5 * (lo + hi)
 
 
-def _pad_curves(a, t, th, n, depth_max=None):
+def _pad_curves(a, t, th, n, depth_max=None, dep=_depth):
     """The curves of :func:`floatcalc.core.round_bodies.pad_curve` for arrays of pads (t may
     be ∞ for pins, with ``depth_max`` then an array or None)."""
     S = a.size
     psi_side = th - 0.5 * PI
-    d_side = _depth(a, psi_side)
+    d_side = dep(a, psi_side)
     u = np.linspace(0.0, 1.0, n)[None, :]
     # stage 0: pinned at the bottom edge, ψ from 0 to ψ_side (np.linspace arithmetic)
     has0 = psi_side > 0
@@ -400,7 +424,7 @@ def _pad_curves(a, t, th, n, depth_max=None):
         w = np.flatnonzero(has0)
         p = _linspace(np.zeros(w.size), psi_side[w], n)
         psi0[w] = p
-        D0[w] = _depth(np.broadcast_to(a[w, None], p.shape), p)
+        D0[w] = dep(np.broadcast_to(a[w, None], p.shape), p)
     # stage 1: on the side, ψ = ψ_side
     finite = np.isfinite(t)
     D_top = t + d_side
@@ -422,10 +446,10 @@ def _pad_curves(a, t, th, n, depth_max=None):
         thin = D_top[w] < 0
         if thin.any():
             v = np.flatnonzero(thin)
-            start[v] = _psi_at_depth(a[w][v], -t[w][v], psi_side[w][v], th[w][v])
+            start[v] = _psi_at_depth(a[w][v], -t[w][v], psi_side[w][v], th[w][v], dep)
         p = _linspace(start, th[w], n)
         psi2[w] = p
-        D2[w] = t[w, None] + _depth(np.broadcast_to(a[w, None], p.shape), p)
+        D2[w] = t[w, None] + dep(np.broadcast_to(a[w, None], p.shape), p)
     psi = np.concatenate([psi0, psi1, psi2], axis=1)
     D = np.concatenate([D0, D1, D2], axis=1)
     stage = np.concatenate([np.zeros((S, n)), np.ones((S, n)), np.full((S, n), 2.0)], axis=1)
@@ -450,7 +474,7 @@ def _linspace(lo, hi, n):
 
 
 def pad_laws(radius, thickness, contact_angle, *, n: int = 120, points: int = TABLE_POINTS,
-             min_contact_radius: float = 1e-9) -> dict:
+             min_contact_radius: float = 1e-9, edges: str = "direct") -> dict:
     """Limit and device table of flat pads with sharp edges for arrays of designs.
 
     Parameters
@@ -463,6 +487,8 @@ def pad_laws(radius, thickness, contact_angle, *, n: int = 120, points: int = TA
         Advancing contact angle θ (0 to π). The three inputs broadcast together.
     n : int
         Points per stage of the curve (as the scalar path).
+    edges : {"direct", "table"}
+        As :func:`ball_laws` (a pad reaches |ψ| > 3.1 when θ > 3.1 rad).
 
     Returns
     -------
@@ -477,7 +503,8 @@ def pad_laws(radius, thickness, contact_angle, *, n: int = 120, points: int = TA
     shape = a.shape
     a, t, th = a.ravel(), t.ravel(), th.ravel()
     S = a.size
-    cur = _pad_curves(a, t, th, n)
+    dep = _depth_fn(edges)
+    cur = _pad_curves(a, t, th, n, dep=dep)
     nb = cur["n"]
     W = cur["depth"].shape[1]
     col = np.arange(W)[None, :]
@@ -492,13 +519,13 @@ def pad_laws(radius, thickness, contact_angle, *, n: int = 120, points: int = TA
         aw, tw = a[w], t[w]
 
         def neg_force(x, r):
-            return -(2.0 * PI * aw[r] * np.sin(x) + PI * aw[r] * aw[r] * (tw[r] + _depth(aw[r], x)))
+            return -(2.0 * PI * aw[r] * np.sin(x) + PI * aw[r] * aw[r] * (tw[r] + dep(aw[r], x)))
 
         x, fneg = fminbound_many(neg_force, cur["psi"][w, k[w] - 1], cur["psi"][w, k[w] + 1])
         use = -fneg >= best["force"][w]
         v = w[use]
         p = x[use]
-        Dv = t[v] + _depth(a[v], p)
+        Dv = t[v] + dep(a[v], p)
         best["psi"][v], best["depth"][v], best["d"][v] = p, Dv, Dv - t[v]
         best["surface_tension"][v] = 2 * PI * a[v] * np.sin(p)
         best["pressure"][v] = PI * a[v] * a[v] * Dv

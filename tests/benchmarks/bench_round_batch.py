@@ -19,6 +19,13 @@ random rings of the whole range (R_r 0.05 … 100 l_c, b/R_r 1e-3 … 0.5, θ 0 
 ``ring_ms_typical`` for θ 90 … 170°, R_r 0.5 … 20 l_c, b/R_r 0.01 … 0.2, ``ring_ms_single``
 (one ring per call), ``ring_scalar_s`` (the scalar path, a few rings) and
 ``ring_max_rel_diff`` (limit force).
+
+``ball_150_180deg_per_s_edges_direct`` / ``_table``: balls with θ 150 … 180°, whose contact
+inclinations near 180° lie beyond the shipped table, shot directly (as the scalar path) or read
+from the cap table; ``ball_edges_table_max_rel_diff`` between the two.
+
+``<kind>_element_ms_single``: one element per call of :func:`floatcalc.round.element_tables`
+(SI in and out), what a device build would pay per element on the fast path.
 """
 
 from __future__ import annotations
@@ -165,8 +172,46 @@ def _ring_figures(quick):
     return out
 
 
+def _single_elements(quick):
+    """One element per call of floatcalc.round.element_tables (SI), as a device build would."""
+    from floatcalc import round as rd
+
+    k = 10 if quick else 40
+    cases = {"ball": dict(radius=1e-3), "pad": dict(radius=2e-3, thickness=0.2e-3),
+             "pin": dict(radius=0.1e-3, length=3e-3), "ring": dict(ring_radius=5e-3, wire_radius=0.2e-3)}
+    out = {}
+    for name, geo in cases.items():
+        rd.element_tables(name, contact_angle=math.radians(150), **geo)
+        t0 = time.perf_counter()
+        for i in range(k):
+            rd.element_tables(name, contact_angle=math.radians(140 + i * 0.5), **geo)
+        out[f"{name}_element_ms_single"] = 1e3 * (time.perf_counter() - t0) / k
+    return out
+
+
+def _edges(quick):
+    """Balls with θ 150 … 180° (some beyond the shipped table's |ψ| ≤ 3.1): direct shots as the
+    scalar path (``edges="direct"``) against the cap table (``edges="table"``)."""
+    from floatcalc.core import round_batch as B
+
+    n = 100 if quick else 300
+    rng = np.random.default_rng(3)
+    R = np.exp(rng.uniform(np.log(0.05), np.log(5.0), n))
+    th = rng.uniform(math.radians(150), math.pi, n)
+    B.ball_laws(0.5, 2.0, edges="table")
+    out = {}
+    for e in ("direct", "table"):
+        t0 = time.perf_counter()
+        res = B.ball_laws(R, th, edges=e)
+        out[f"ball_150_180deg_per_s_edges_{e}"] = n / (time.perf_counter() - t0)
+        out.setdefault("_f", []).append(res["max_force"])
+    a, b = out.pop("_f")
+    out["ball_edges_table_max_rel_diff"] = float(np.max(np.abs(b / a - 1.0)))
+    return out
+
+
 def run(quick: bool = False) -> dict:
-    return {**_round_kinds(quick), **_ring_figures(quick)}
+    return {**_round_kinds(quick), **_edges(quick), **_ring_figures(quick), **_single_elements(quick)}
 
 
 if __name__ == "__main__":
