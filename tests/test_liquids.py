@@ -41,7 +41,6 @@ def test_aliases_and_spelling_variants():
     assert fc.liquid("IPA").name == "isopropanol"
     assert fc.liquid("  Ethylene_Glycol ").name == "ethylene glycol"
     assert fc.liquid("sea water").name == "seawater"
-    assert fc.liquid("water", salinity="35 g/kg").name == "seawater"
     assert fc.liquid("water", salinity="0 g/kg").name == "water"
 
 

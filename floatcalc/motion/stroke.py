@@ -129,7 +129,7 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
     >>> from floatcalc.device import example
     >>> r = stroke(example("twin_rod"), "50 ms", "2 mN")
     >>> r.breaks_surface, round(r.max_thrust.to("mN").magnitude, 2)
-    (False, 12.43)
+    (False, 12.3)
     """
     from .. import dimensionless as groups
     from ..core import meniscus_thrust
