@@ -188,7 +188,7 @@ def test_drawings_and_compare_panels():
     for choice in ("plan view", "what breaks first", "element tables"):
         at.radio(key="drawing").set_value(choice).run()
         _ok(at)
-        assert at.get("imgs") or True
+        assert at.get("image"), choice
         assert not [e for e in at.error if "could not be shown" in e.value], choice
     _load(at, "compare")
     frames = [f.value for f in at.dataframe]
