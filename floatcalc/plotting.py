@@ -520,14 +520,14 @@ def comparison_bars(items: list[tuple[str, Any]], ax=None):
     return ax
 
 
-def figure_png(draw, size=(7.0, 4.2), dpi: int = 110, **kw) -> bytes:
+def figure_png(draw, size=(7.0, 4.2), dpi: int = 100, **kw) -> bytes:
     """PNG bytes of one drawing: ``draw(ax=..., **kw)`` on a new figure, nothing clipped
     (``bbox_inches="tight"``)."""
     import io
 
     from matplotlib.figure import Figure
 
-    fig = Figure(figsize=size, layout="constrained")
+    fig = Figure(figsize=size)
     draw(ax=fig.add_subplot(), **kw)
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=dpi, bbox_inches="tight")

@@ -277,18 +277,34 @@ def table_panel(data: dict, i: int, slots: Slots, expanded: bool) -> None:
             b2.button("remove", key=k(f"el{i}.rm"), on_click=_remove_table, args=(i,))
 
 
+#: With more tables than this, one table is edited at a time (chosen from a list); each
+#: widget costs time on every rerun.
+ALL_TABLES_SHOWN = 3
+
+
 def elements_panel(data: dict, slots: Slots) -> None:
     from ..elements import get_kind, kinds
 
     els = data.setdefault("elements", [])
-    for i in range(len(els)):
-        table_panel(data, i, slots, expanded=len(els) <= 2 or i == 0)
+    slots.add("elements")
+    if len(els) <= ALL_TABLES_SHOWN:
+        for i in range(len(els)):
+            table_panel(data, i, slots, expanded=True)
+    else:
+        def title(j):
+            t = els[j]
+            kd = get_kind(t.get("kind"))
+            noun = kd.noun(int(t.get("count", 1))) if kd else str(t.get("kind"))
+            return f"table {j + 1}: {noun}" + (f" — {t['name']}" if t.get("name") else "")
+
+        sel = st.selectbox(f"table to edit ({len(els)} tables)", range(len(els)), format_func=title,
+                           key=k("edit_table"), help="problems in a table not shown are listed above")
+        table_panel(data, min(sel, len(els) - 1), slots, expanded=True)
     c1, c2 = st.columns([1.4, 1])
     c1.selectbox("kind of element to add", [x.name for x in kinds() if not x.unavailable], key="new_kind",
                  format_func=lambda nm: f"{get_kind(nm).label}: {get_kind(nm).summary}")
     c2.button("add an element table", key=k("add"), on_click=_add_table, help="4 elements laid out around the "
               "centre of mass, with the kind's example sizes")
-    slots.add("elements")
 
 
 # ------------------------------------------------------------------------------------------
@@ -334,7 +350,7 @@ def figure(kind: str, key: str, extra: str = "") -> bytes:
     hit = solver.cached(key)
     r = hit
     if kind == "plan":
-        return pl.figure_png(pl.plan_view, size=(6.4, 5.4), device_result=r)
+        return pl.figure_png(pl.plan_view, size=(6.4, 5.4), device_result=r, grid=70)
     if kind == "steps":
         return pl.figure_png(pl.failure_steps, size=(7.6, 4.0), device_result=r)
     if kind == "sweep":
@@ -516,8 +532,9 @@ def reports_panel(design, r, key: str) -> None:
 
     ss = _ss()
     c1, c2, c3 = st.columns(3)
-    c1.download_button("save this design (TOML)", design_text(design), file_name="design.toml",
-                       mime="application/toml", key="dl_toml")
+    c1.download_button("save this design (TOML)", lambda: design_text(design), file_name="design.toml",
+                       mime="application/toml", key="dl_toml", help="schema 2; loads in floatcalc device, "
+                       "floatcalc sweep --design and floatcalc.load_design")
     if c2.button("prepare the CSV tables", key="csv_make"):
         with st.spinner("solving each element table alone..."):
             tables = solved_tables(design, lambda kind, p, liq: solver.solve_element(kind, p, liq, None))

@@ -74,9 +74,26 @@ def problem_lines(exc: Exception) -> list[str]:
     return [re.sub(r"^design: ", "", ln) for ln in lines]
 
 
+def _api_keys() -> set:
+    """Widget keys whose value a callback set through the Session State API (a lookup of one
+    key: ``key in st.session_state`` would copy the whole state on every widget)."""
+    try:
+        return st.session_state["_api_keys"]
+    except KeyError:
+        st.session_state["_api_keys"] = set()
+        return st.session_state["_api_keys"]
+
+
+def set_by_api(key: str, value) -> None:
+    st.session_state[key] = value
+    _api_keys().add(key)
+
+
 def text(label: str, value: str, key: str, **kw) -> str:
     """A text input starting at ``value`` unless a callback already set its state."""
-    if key in st.session_state:
+    api = _api_keys()
+    if key in api:
+        api.discard(key)
         return st.text_input(label, key=key, **kw)
     return st.text_input(label, value, key=key, **kw)
 
@@ -147,10 +164,10 @@ def material_widget(table: dict, path: str, key: str, slots: Slots) -> None:
 def _preset_changed(key: str) -> None:
     from ..examples import COATINGS
 
-    ss = st.session_state
-    pick = ss.get(key + ".preset")
+    pick = st.session_state[key + ".preset"]
     if pick in COATINGS:
-        ss[key + ".advancing"], ss[key + ".receding"] = COATINGS[pick]
+        set_by_api(key + ".advancing", COATINGS[pick][0])
+        set_by_api(key + ".receding", COATINGS[pick][1])
 
 
 def coating_widget(table: dict, path: str, key: str, slots: Slots) -> None:
