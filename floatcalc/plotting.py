@@ -144,9 +144,15 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
     ax.set_title("Close-up of the leg at the limit (to scale)" if zoom else
                  "Meniscus cross-section at the limit load (to scale)", fontsize=11, loc="left")
     if not zoom:
-        ax.legend(loc="lower right", fontsize=9, framealpha=0.85, ncols=2)
+        _legend_below(ax)
     _style(ax)
     return ax
+
+
+def _legend_below(ax, ncols: int = 3, **kw):
+    """Legend under the axes (never over the drawing); ``bbox_inches="tight"`` keeps it in."""
+    return ax.legend(loc="upper center", bbox_to_anchor=(0.5, 0.0), borderaxespad=3.6, ncols=ncols, fontsize=9,
+                     frameon=False, **kw)
 
 
 def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
@@ -212,7 +218,7 @@ def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
         ax.plot([xd, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
         ax.text(xd + 0.04 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=10,
                 va="center", ha="left", zorder=6)
-        ax.legend(loc="lower right", fontsize=9, framealpha=0.85, ncols=2)
+        _legend_below(ax)
     ax.set_xlim(-X, X)
     ax.set_ylim(min(bottom, low - 0.1 * lc), top)
     ax.set_aspect("equal")
@@ -275,7 +281,7 @@ def _ring_section(result: Any, ax, extent_lc: float, zoom: bool):
         ax.plot([xd, -Rr], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
         ax.text(xd + 0.03 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=10,
                 va="center", ha="left", zorder=6)
-        ax.legend(loc="lower right", fontsize=9, framealpha=0.85, ncols=2)
+        _legend_below(ax)
         ax.set_xlim(-X, X)
         ax.set_ylim(bottom, top)
     ax.set_aspect("equal")
@@ -409,10 +415,12 @@ def plan_view(device_result: Any, ax=None, grid: int = 100, numbers: bool = True
     for i, (m, es) in enumerate(zip(dev.models, device_result.elements)):
         fp = m.footprint * mm
         state = element_state(es)
-        ax.add_patch(Polygon(fp, closed=True, facecolor=STATE_COLOURS[state], edgecolor="#222222",
-                             lw=0.8, zorder=4, gid="element", label=None))
+        ax.add_patch(Polygon(fp, closed=True, facecolor=STATE_COLOURS[state], edgecolor=STATE_COLOURS[state],
+                             lw=3.0, zorder=4, gid="element", label=None))
+        c = fp.mean(axis=0)
+        if np.ptp(fp, axis=0).max() < 0.02 * float(np.max(hi - lo)) * mm:  # too small to see at this scale
+            ax.scatter([c[0]], [c[1]], s=60, color=STATE_COLOURS[state], edgecolor="#222222", lw=0.6, zorder=5)
         if numbers:
-            c = fp.mean(axis=0)
             ax.text(c[0], c[1], str(i + 1), fontsize=9, ha="center", va="center", zorder=6, color="#111111",
                     bbox={"boxstyle": "round,pad=0.12", "fc": "white", "ec": "none", "alpha": 0.8})
     xg, yg = dev.centre_of_mass
@@ -429,7 +437,7 @@ def plan_view(device_result: Any, ax=None, grid: int = 100, numbers: bool = True
     ax.set_xlabel(PLAN_XLABEL)
     ax.set_ylabel(PLAN_YLABEL)
     ax.set_title("Plan view: state of each element (to scale)", fontsize=11, loc="left")
-    ax.legend(handles=handles, loc="upper right", fontsize=9, framealpha=0.9)
+    _legend_below(ax, ncols=len(handles), handles=handles, handletextpad=0.3, columnspacing=1.0)
     return ax
 
 
@@ -491,6 +499,11 @@ def safety_factor_sweep(values, safety_factors, xlabel: str, required: float | N
     lo = min(float(np.nanmin(sf)), 1.0) / 1.3
     hi = max(float(np.nanmax(sf)), required or 1.0) * 1.3
     ax.set_ylim(lo, hi)
+    from matplotlib.ticker import FuncFormatter, LogLocator
+
+    ax.yaxis.set_major_locator(LogLocator(base=10, subs=(1.0, 1.5, 2.0, 3.0, 5.0, 7.0)))
+    ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
+    ax.yaxis.set_minor_formatter(FuncFormatter(lambda v, _: ""))
     ax.set_xlabel(xlabel)
     ax.set_ylabel("safety factor [-] (log scale)")
     ax.set_title("Safety factor against one input", fontsize=11, loc="left")

@@ -94,10 +94,10 @@ def server(tmp_path):
 
 def settle(page) -> None:
     """Wait until the page has finished its run (no running-status widget)."""
-    page.wait_for_timeout(400)
+    page.wait_for_timeout(1500)
     page.wait_for_function("() => !document.querySelector('[data-testid=\"stStatusWidget\"]')",
                            timeout=120_000)
-    page.wait_for_timeout(400)
+    page.wait_for_timeout(600)
 
 
 def _capacity(page) -> float:

@@ -162,9 +162,9 @@ def write_pdf(design, result, target: Any, *, tables=None, compared=(), date: st
 
     # 2. Plan view and progressive failure
     fig = pages.new(HEADINGS[1])
-    plotting.plan_view(result, ax=fig.add_axes([0.1, 0.47, 0.82, 0.45]))
-    plotting.failure_steps(result, ax=fig.add_axes([0.11, 0.1, 0.82, 0.28]))
-    fig.text(0.07, 0.42, "Element colours: carrying / near its limit (utilisation ≥ 90 %) / broken through. "
+    plotting.plan_view(result, ax=fig.add_axes([0.1, 0.5, 0.82, 0.42]))
+    plotting.failure_steps(result, ax=fig.add_axes([0.11, 0.08, 0.82, 0.26]))
+    fig.text(0.07, 0.405, "Element colours: carrying / near its limit (utilisation ≥ 90 %) / broken through. "
              "Numbers: the element rows on page 1.", fontsize=8.5)
 
     # 3. one page per distinct element table
@@ -182,13 +182,13 @@ def write_pdf(design, result, target: Any, *, tables=None, compared=(), date: st
         if first is not None:
             load = first.force
         if res is not None and getattr(res, "profile", None):
-            plotting.meniscus_section(res, ax=fig.add_axes([0.12, 0.6, 0.8, 0.3]))
+            plotting.meniscus_section(res, ax=fig.add_axes([0.12, 0.62, 0.8, 0.28]))
         elif res is not None and isinstance(getattr(res, "shape", None), dict):
             plotting.bending_shape(res, ax=fig.add_axes([0.12, 0.6, 0.8, 0.28]))
         else:
             fig.text(0.07, 0.75, "no cross-section drawing for this kind", fontsize=9, color="#555555")
         if res is not None or t.model is not None:
-            plotting.force_depth(res, model=t.model, load=load, ax=fig.add_axes([0.12, 0.14, 0.8, 0.36]))
+            plotting.force_depth(res, model=t.model, load=load, ax=fig.add_axes([0.12, 0.13, 0.8, 0.33]))
         fig.text(0.07, 0.08, _plain(f"model: {t.model.model_name}" if t.model is not None else ""), fontsize=8)
 
     # 4. comparison

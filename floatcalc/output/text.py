@@ -198,17 +198,17 @@ def failure_steps(r) -> list[dict[str, Any]]:
 
 
 def bond_rows(design) -> list[dict[str, str]]:
-    """Bond number of each element table, its length named by the kind's ``bond_words``, with
-    the reading of :func:`floatcalc.dimensionless.bond_reading`."""
+    """Bond number of each distinct element table (tables that differ only in placement are
+    listed together), its length named by the kind's ``bond_words``, with the reading of
+    :func:`floatcalc.dimensionless.bond_reading`."""
     from ..dimensionless import bond_number
-    from ..elements import get_kind
+    from .tables import distinct_tables
 
     out = []
-    for i, g in enumerate(design.groups):
-        kind = get_kind(g["kind"])
-        grp = bond_number(design.liquid, kind.bond_length(g), which=kind.bond_words)
-        out.append({"table": table_title(design, i), "length": grp.scale, "Bo": f"{grp.value:.3g}",
-                    "reading": grp.reading})
+    for t in distinct_tables(design):
+        kind = t.kind
+        grp = bond_number(design.liquid, kind.bond_length(t.params), which=kind.bond_words)
+        out.append({"table": t.title, "length": grp.scale, "Bo": f"{grp.value:.3g}", "reading": grp.reading})
     return out
 
 
@@ -279,10 +279,13 @@ def differing_inputs(datas: list[dict]) -> list[tuple[str, list[str]]]:
 
 
 def entry_name(design, i: int) -> str:
-    """Name of a compared entry: its description up to the first comma (or 'design N')."""
+    """Name of a compared entry: its description up to the first comma if that is short, else
+    'this design' / 'alternative N' (the full descriptions are listed beside the comparison)."""
     d = (design.description or "").removeprefix("Invented example: ")
-    head = d.split(",")[0].strip()[:60]
-    return head or ("this design" if i == 0 else f"alternative {i}")
+    head = d.split(",")[0].strip()
+    if head and len(head) <= 30:
+        return head
+    return "this design" if i == 0 else f"alternative {i}"
 
 
 def comparison_rows(items: list[tuple[str, Any, Any]]) -> tuple[list[str], list[list[str]]]:

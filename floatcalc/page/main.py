@@ -182,7 +182,7 @@ def body_load_panel(data: dict, slots: Slots) -> None:
         pay = text("payload [g]", str(ld.get("payload", "0 g")), k("load.payload"),
                    help="extra load put on the device")
         slots.add("load.payload")
-        off = st.checkbox("payload away from the centre of mass", value="payload_position" in ld,
+        off = st.checkbox("payload off centre", value="payload_position" in ld,
                           key=k("load.off"))
         new = {"payload": pay.strip()}
         if off:
@@ -319,7 +319,7 @@ def verdict_box(r) -> None:
 
 
 def results_panel(design, r, current: bool) -> None:
-    from ..output.text import bond_rows, element_rows, result_rows
+    from ..output.text import bond_rows, result_rows
 
     if not current:
         st.warning("Not current: these results are for the last valid inputs. Correct the field marked on the left.",
@@ -327,12 +327,19 @@ def results_panel(design, r, current: bool) -> None:
     verdict_box(r)
     rows = result_rows(r)
     st.table({"quantity": [a for a, _ in rows], "value": [b for _, b in rows]})
-    with st.expander("elements at this load", expanded=len(r.elements) <= 12):
-        st.dataframe(element_rows(r), hide_index=True, width="stretch",
-                     height=min(38 + 35 * len(r.elements), 320))
     st.markdown("**Bond numbers** (Bo = ρ g L² / σ)")
     for b in bond_rows(design):
         st.text(f"{b['table']}: Bo = {b['Bo']} with {b['length']}; {b['reading']}")
+
+
+def elements_table_panel(r) -> None:
+    from ..output.text import element_rows
+
+    rows = element_rows(r)
+    for j, row in enumerate(rows, 1):
+        row["no."] = j
+    st.dataframe(rows, hide_index=True, width="stretch", height=min(38 + 35 * len(rows), 360),
+                 column_order=["no.", *[c for c in rows[0] if c != "no."]] if rows else None)
 
 
 def notes_panel(r) -> None:
@@ -350,12 +357,12 @@ def figure(kind: str, key: str, extra: str = "") -> bytes:
     hit = solver.cached(key)
     r = hit
     if kind == "plan":
-        return pl.figure_png(pl.plan_view, size=(6.4, 5.4), device_result=r, grid=70)
+        return pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70)
     if kind == "steps":
-        return pl.figure_png(pl.failure_steps, size=(7.6, 4.0), device_result=r)
+        return pl.figure_png(pl.failure_steps, size=(9.0, 4.2), device_result=r)
     if kind == "sweep":
         d = json.loads(extra)
-        return pl.figure_png(pl.safety_factor_sweep, size=(7.6, 4.0), values=d["x"], safety_factors=d["sf"],
+        return pl.figure_png(pl.safety_factor_sweep, size=(9.0, 4.2), values=d["x"], safety_factors=d["sf"],
                              xlabel=d["label"], required=d["req"])
     raise KeyError(kind)
 
@@ -366,18 +373,19 @@ def _element_figures(t, r) -> None:
     res = t.result
     load = next((e.force for e in r.elements if e.name == t.params.get("name")), None)
     if res is not None and getattr(res, "profile", None):
-        st.image(pl.figure_png(pl.meniscus_section, size=(7.6, 3.6), result=res), width="stretch")
+        st.image(pl.figure_png(pl.meniscus_section, size=(9.0, 4.0), result=res), width="stretch")
+        st.image(pl.figure_png(pl.meniscus_section, size=(6.0, 4.0), result=res, zoom=True), width=560)
     elif res is not None and isinstance(getattr(res, "shape", None), dict):
-        st.image(pl.figure_png(pl.bending_shape, size=(7.6, 3.6), result=res), width="stretch")
+        st.image(pl.figure_png(pl.bending_shape, size=(9.0, 3.8), result=res), width="stretch")
     else:
         st.caption("no cross-section drawing for this kind")
-    st.image(pl.figure_png(pl.force_depth, size=(7.6, 4.0), result=res, model=t.model, load=load), width="stretch")
+    st.image(pl.figure_png(pl.force_depth, size=(9.0, 4.2), result=res, model=t.model, load=load), width="stretch")
 
 
 def drawings_panel(design, r, key: str) -> None:
     choice = st.radio("drawing", DRAWINGS, horizontal=True, key="drawing", label_visibility="collapsed")
     if choice == DRAWINGS[0]:
-        st.image(figure("plan", key), width="stretch")
+        st.image(figure("plan", key), width=760)
         st.caption("Numbers: the rows of the element table. Near its limit: utilisation at least 90 %.")
     elif choice == DRAWINGS[1]:
         from ..output.text import failure_steps
@@ -519,7 +527,7 @@ def compare_panel(design, r) -> None:
                  width="stretch")
     for name, d, _ in entries:
         st.text(f"{name}: {d.description}")
-    st.image(pl.figure_png(pl.comparison_bars, size=(7.6, 1.4 + 0.9 * len(entries)),
+    st.image(pl.figure_png(pl.comparison_bars, size=(9.0, 1.6 + 0.9 * len(entries)),
                            items=[(n, x) for n, _, x in entries]), width="stretch")
 
 
@@ -566,8 +574,9 @@ def sidebar() -> None:
         st.header("Designs")
         ex = {e["name"]: e["description"] for e in list_examples()}
         pick = st.selectbox("built-in examples (all invented)", list(ex), index=None,
-                            format_func=lambda n: f"{n}: {ex[n].removeprefix('Invented example: ')[:70]}",
                             placeholder="choose an example...", key="pick")
+        if pick:
+            st.text(ex[pick])
         if pick and st.button("load this example", key="load_example"):
             d = example(pick)
             load_data(d.data, d.source_text, d.notes)
@@ -668,18 +677,19 @@ def main() -> None:
         if good is None:
             st.info("Results appear once every input is valid.")
         else:
-            gkey, gdesign, gr = good
-            current = r is not None
-            _guard("Results", results_panel, gdesign, gr, current)
-            st.subheader("Drawings")
-            _guard("Drawings", drawings_panel, gdesign, gr, gkey)
-            with st.expander("Classroom: soap and surface tension"):
-                _guard("Classroom", classroom_panel, gdesign)
+            _guard("Results", results_panel, good[1], good[2], r is not None)
             st.subheader("Warnings and cautions")
-            _guard("Warnings and cautions", notes_panel, gr)
-    st.subheader("Compare designs")
-    if good := ss.get("good"):
-        _guard("Comparison", compare_panel, good[1], good[2])
+            _guard("Warnings and cautions", notes_panel, good[2])
+    if good is not None:
+        gkey, gdesign, gr = good
+        st.subheader("Elements at this load")
+        _guard("Elements", elements_table_panel, gr)
+        st.subheader("Drawings")
+        _guard("Drawings", drawings_panel, gdesign, gr, gkey)
+        with st.expander("Classroom: soap and surface tension"):
+            _guard("Classroom", classroom_panel, gdesign)
+        st.subheader("Compare designs")
+        _guard("Comparison", compare_panel, gdesign, gr)
     st.subheader("Reports")
     if r is not None:
         _guard("Reports", reports_panel, design, r, key)
