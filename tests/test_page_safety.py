@@ -226,6 +226,10 @@ def test_hostile_description_and_names_render_as_plain_text():
     assert not at.exception, [e.value for e in at.exception]
     assert any(t.value == data["description"] for t in at.text)
     rendered = [m.value for m in [*at.markdown, *at.caption, *at.success, *at.warning, *at.error, *at.info]]
+    rendered += [e.label for e in at.expander]  # expander labels render Markdown too
+    for t in at.table:  # st.table renders Markdown in its cells
+        rendered += [str(v) for col in t.value.columns for v in t.value[col]]
+    assert any("\\*\\*sinks\\*\\*" in v for v in rendered)  # the name is there, escaped
     for v in rendered:
         assert "**fake verdict**" not in v and "](http://example.invalid" not in v, v
         assert "**sinks**" not in v and "<b>" not in v, v

@@ -208,7 +208,8 @@ def table_panel(data: dict, i: int, slots: Slots, expanded: bool) -> None:
     kind = get_kind(t.get("kind")) or get_kind("rod")
     n = int(t.get("count", 1))
     title = f"table {i + 1}: {kind.noun(n)}"
-    with st.expander(title + (f" — {t.get('name')}" if t.get("name") else ""), expanded=expanded):
+    # expander labels render Markdown: the user's name escaped
+    with st.expander(esc(title + (f" — {t.get('name')}" if t.get("name") else "")), expanded=expanded):
         path = f"elements[{i}]"
         slots.add(path)
         names = [x.name for x in kinds() if not x.unavailable]
@@ -326,7 +327,8 @@ def results_panel(design, r, current: bool) -> None:
                    icon="✋")
     verdict_box(r)
     rows = result_rows(r)
-    st.table({"quantity": [a for a, _ in rows], "value": [b for _, b in rows]})
+    # st.table renders Markdown in its cells: every cell escaped (element names are user text)
+    st.table({"quantity": [esc(a) for a, _ in rows], "value": [esc(b) for _, b in rows]})
     st.markdown("**Bond numbers** (Bo = ρ g L² / σ)")
     for b in bond_rows(design):
         st.text(f"{b['table']}: Bo = {b['Bo']} with {b['length']}; {b['reading']}")
@@ -391,6 +393,7 @@ def drawings_panel(design, r, key: str) -> None:
         from ..output.text import failure_steps
 
         st.image(figure("steps", key), width="stretch")
+        st.caption("Numbers at the steps: the order in which the elements break through (table below).")
         steps = failure_steps(r)
         g = r.device.liquid.g
         st.dataframe([{"order": s["order"], "element": s["name"], "breaks through at payload [g]":
