@@ -30,6 +30,8 @@ def test_flexible_leg_panel_shows_its_bending_drawing():
     ver = at.session_state["ver"]
     at.selectbox(key=f"el0.kind@{ver}").set_value("flexible_leg").run()
     assert not at.exception, [e.value for e in at.exception]
+    ed = [x for x in at.get("image") if "bending of one leg alone" in str(x.proto)]
+    assert ed, "no bending drawing in the flexible leg's table editor"
     at.radio(key="drawing").set_value("element tables").run()
     assert not at.exception, [e.value for e in at.exception]
     assert not [e.value for e in at.error], [e.value for e in at.error]

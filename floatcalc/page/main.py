@@ -266,6 +266,8 @@ def table_panel(data: dict, i: int, slots: Slots, expanded: bool) -> None:
                 field_widget(t, fname, f, f"{path}.{fname}", k(f"el{i}.{fname}"), slots)
         with cols[len(kind.fields) % 2]:
             field_widget(t, "mount", kind.all_fields["mount"], f"{path}.mount", k(f"el{i}.mount"), slots)
+        if kind.name == "flexible_leg":
+            slots.drawings[i] = st.empty()
         m1, m2 = st.columns([1, 1.6])
         with m1:
             material_widget(t, path, k(f"el{i}.mat"), slots)
@@ -332,6 +334,30 @@ def results_panel(design, r, current: bool) -> None:
     st.markdown("**Bond numbers** (Bo = ρ g L² / σ)")
     for b in bond_rows(design):
         st.text(f"{b['table']}: Bo = {b['Bo']} with {b['length']}; {b['reading']}")
+
+
+def table_drawings(design, slots: Slots) -> None:
+    """Drawings inside the table editors: a flexible leg's bending at its limit."""
+    from .. import plotting as pl
+    from ..elements import get_kind
+    from ..output.tables import signature
+
+    for i, ph in slots.drawings.items():
+        p = next((e for e in design.elements if e.get("group") == i and e.get("index", 0) == 0), None)
+        if p is None:
+            continue
+        kind = get_kind(p["kind"])
+        key = "bendpng:" + signature(p, design.liquid)
+        try:
+            png = solver.cached(key)
+            if png is None:  # the solve goes through the worker (budget); the drawing here
+                res = solver.solve_element(kind, p, design.liquid, budget=10.0)
+                png = solver.remember(key, pl.figure_png(pl.bending_shape, size=(6.0, 3.2), dpi=90, result=res))
+            ph.image(png, caption="bending of one leg alone at its limit load", width="stretch")
+        except solver.SolveTimeout:
+            ph.caption("bending drawing: still solving")
+        except (InputError, ConvergenceError) as exc:
+            ph.error(esc(f"bending drawing: {problem_lines(exc)[0]}"), icon="⚠️")
 
 
 def elements_table_panel(r) -> None:
@@ -667,6 +693,8 @@ def main() -> None:
     except solver.SolveTimeout:
         running = True
     left_over = slots.show(problems)
+    if design is not None:
+        table_drawings(design, slots)
     if r is not None:
         ss.good = (key, design, r)
     with right:

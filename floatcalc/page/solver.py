@@ -44,6 +44,12 @@ def _store(key: str, value: Any) -> None:
             _cache.popitem(last=False)
 
 
+def remember(key: str, value: Any) -> Any:
+    """Store ``value`` under ``key`` and return it (for results computed outside :func:`run`)."""
+    _store(key, value)
+    return value
+
+
 def cached(key: str):
     with _lock:
         if key in _cache:
@@ -55,7 +61,8 @@ def cached(key: str):
 def run(key: str, fn: Callable[[], Any], budget: float | None = SOLVE_BUDGET_S):
     """``fn()`` cached under ``key``; raises :class:`SolveTimeout` after ``budget`` seconds
     (the computation goes on and is cached when it ends). Exceptions of ``fn`` propagate (and
-    are not cached)."""
+    are not cached). ``fn`` runs on the one worker thread: it must not call :func:`run` itself
+    (it would wait for itself)."""
     hit = cached(key)
     if hit is not None:
         return hit
@@ -117,5 +124,5 @@ def clear() -> None:
         _cache.clear()
 
 
-__all__ = ["SOLVE_BUDGET_S", "SWEEP_BUDGET_S", "SolveTimeout", "design_key", "cached", "run", "pending",
+__all__ = ["SOLVE_BUDGET_S", "SWEEP_BUDGET_S", "SolveTimeout", "design_key", "cached", "remember", "run", "pending",
            "design_of", "solve", "solve_element", "clear"]

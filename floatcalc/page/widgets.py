@@ -39,6 +39,8 @@ class Slots:
     def __init__(self):
         self.slots: dict[str, Any] = {}
         self.shown: dict[str, list[str]] = {}
+        #: table index -> placeholder for a drawing filled in once the design is valid
+        self.drawings: dict[int, Any] = {}
 
     def add(self, path: str):
         self.slots[path] = st.empty()
