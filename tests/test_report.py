@@ -89,9 +89,10 @@ def test_report_of_every_example(name, tmp_path):
     for word in ("capacity", "max payload", "sinking payload", "safety factor", "utilisation", "Baudoin number"):
         assert word in whole, word
     # each reference (citation before ': ') listed once
-    refs = [ln.strip() for ln in whole.splitlines() if ln.strip().startswith("•") and "(19" in ln or "(20" in ln]
-    cites = [ln.split(":")[0] for ln in refs if ln.strip().startswith("•")]
-    assert len(cites) == len(set(cites)), cites
+    refs_page = whole[whole.index("References and the models they support"):]
+    cites = [ln.strip().split(":")[0] for ln in refs_page.splitlines()
+             if ln.strip().startswith("•") and re.search(r"\((19|20)\d\d\)", ln.split(":")[0])]
+    assert cites and len(cites) == len(set(cites)), cites
     # cautions once each
     for c in r.cautions:
         head = c[:40]
