@@ -5,7 +5,8 @@ and the report, never by ``import floatcalc``; matplotlib is imported inside the
 Every function draws on ``ax`` if given, else on a new :class:`matplotlib.figure.Figure`
 (no pyplot state, so it is safe in a Streamlit server), and returns the axes.
 
-Cross-sections are drawn to scale (equal aspect); lengths in mm, forces in mN.
+Cross-sections and plan views are drawn to scale (equal aspect); lengths in mm, forces in mN.
+Font sizes are chosen for a 1280 px wide projector (10–11 pt at 110 dpi).
 
 >>> import floatcalc as fc
 >>> ax = meniscus_section(fc.rod("0.25 mm", "40 mm", "150 deg"))
@@ -34,7 +35,10 @@ COLOURS = {
     "pressure": "#d99a26",
     "load": "#b33c2e",
 }
-VERDICT_COLOURS = {"floats with margin": "#2d7a3a", "marginal": "#a86200", "sinks": "#b3261e"}
+VERDICT_COLOURS = {"floats": "#2d7a3a", "floats with elements broken through": "#a86200", "capsizes": "#b3261e",
+                   "sinks": "#b3261e"}
+#: Colours of the element states of :data:`floatcalc.output.text.STATES`.
+STATE_COLOURS = {"carrying": "#2a7f62", "near its limit": "#d99a26", "broken through": "#b3261e"}
 _SERIES = ("#13233f", "#c44536", "#2a9d8f", "#8a5a9e", "#d99a26", "#4f6d7a")
 
 SECTION_XLABEL = "horizontal distance from the leg axis [mm]"
@@ -123,7 +127,7 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
         ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),
                     arrowprops={"arrowstyle": "<->", "color": COLOURS["depth"], "lw": 1.2}, zorder=5)
         ax.plot([xd, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
-        ax.text(xd + 0.04 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
+        ax.text(xd + 0.04 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=10,
                 va="center", ha="left", zorder=6)
     top = max(zc_centre + R, 0.0) + 0.35 * lc
     if zoom:  # close-up around the leg, still to scale
@@ -131,18 +135,24 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
         bottom, top = zc_centre - 0.75 * X, zc_centre + 0.75 * X
         ax.plot([-X, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
         ax.text(-0.95 * X, low - 0.02 * X, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
-                fontsize=8.5, va="top", ha="left", zorder=6)
+                fontsize=10, va="top", ha="left", zorder=6)
     ax.set_xlim(-X, X)
     ax.set_ylim(bottom, top)
     ax.set_aspect("equal")
     ax.set_xlabel(SECTION_XLABEL)
     ax.set_ylabel(SECTION_YLABEL)
     ax.set_title("Close-up of the leg at the limit (to scale)" if zoom else
-                 "Meniscus cross-section at the limit load (to scale)", fontsize=10, loc="left")
+                 "Meniscus cross-section at the limit load (to scale)", fontsize=11, loc="left")
     if not zoom:
-        ax.legend(loc="lower right", fontsize=7, framealpha=0.85, ncols=2)
+        _legend_below(ax)
     _style(ax)
     return ax
+
+
+def _legend_below(ax, ncols: int = 3, **kw):
+    """Legend under the axes (never over the drawing); ``bbox_inches="tight"`` keeps it in."""
+    return ax.legend(loc="upper center", bbox_to_anchor=(0.5, 0.0), borderaxespad=3.6, ncols=ncols, fontsize=9,
+                     frameon=False, **kw)
 
 
 def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
@@ -200,22 +210,22 @@ def _round_section(result: Any, ax, extent_lc: float, zoom: bool):
         bottom, top = mid - 0.75 * X, mid + 0.75 * X
         ax.plot([-X, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
         ax.text(-0.95 * X, low - 0.02 * X, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
-                fontsize=8.5, va="top", ha="left", zorder=6)
+                fontsize=10, va="top", ha="left", zorder=6)
     else:
         xd = -X * 0.82
         ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),
                     arrowprops={"arrowstyle": "<->", "color": COLOURS["depth"], "lw": 1.2}, zorder=5)
         ax.plot([xd, 0.0], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
-        ax.text(xd + 0.04 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
+        ax.text(xd + 0.04 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=10,
                 va="center", ha="left", zorder=6)
-        ax.legend(loc="lower right", fontsize=7, framealpha=0.85, ncols=2)
+        _legend_below(ax)
     ax.set_xlim(-X, X)
     ax.set_ylim(min(bottom, low - 0.1 * lc), top)
     ax.set_aspect("equal")
     ax.set_xlabel("horizontal distance from the element axis [mm]")
     ax.set_ylabel(SECTION_YLABEL)
     ax.set_title("Close-up of the element at the limit (to scale)" if zoom else
-                 "Meniscus cross-section through the axis at the limit load (to scale)", fontsize=10, loc="left")
+                 "Meniscus cross-section through the axis at the limit load (to scale)", fontsize=11, loc="left")
     _style(ax)
     return ax
 
@@ -263,165 +273,280 @@ def _ring_section(result: Any, ax, extent_lc: float, zoom: bool):
         ax.set_ylim(zc - 0.75 * w, zc + 0.75 * w)
         ax.plot([Rr - w, Rr], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
         ax.text(Rr - 0.95 * w, low - 0.02 * w, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
-                fontsize=8.5, va="top", ha="left", zorder=6)
+                fontsize=10, va="top", ha="left", zorder=6)
     else:
         xd = -X * 0.9
         ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),
                     arrowprops={"arrowstyle": "<->", "color": COLOURS["depth"], "lw": 1.2}, zorder=5)
         ax.plot([xd, -Rr], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
-        ax.text(xd + 0.03 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=8.5,
+        ax.text(xd + 0.03 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=10,
                 va="center", ha="left", zorder=6)
-        ax.legend(loc="lower right", fontsize=7, framealpha=0.85, ncols=2)
+        _legend_below(ax)
         ax.set_xlim(-X, X)
         ax.set_ylim(bottom, top)
     ax.set_aspect("equal")
     ax.set_xlabel("horizontal distance from the ring axis [mm]")
     ax.set_ylabel(SECTION_YLABEL)
     ax.set_title("Close-up of the wire at the limit (to scale)" if zoom else
-                 "Ring cross-section through the axis at the limit load (to scale)", fontsize=10, loc="left")
+                 "Ring cross-section through the axis at the limit load (to scale)", fontsize=11, loc="left")
     _style(ax)
     return ax
 
 
-def force_depth(result: Any, ax=None, load: Any = None, operating_depth: Any = None, parts: bool = True):
-    """Force–depth curve of one element group with its limit, parts and operating point.
+def safe_text(text: str) -> str:
+    """User text for a matplotlib label: ``$`` escaped so it is never read as mathtext.
+
+    >>> safe_text("leg $1$")
+    'leg \\\\$1\\\\$'
+    """
+    return str(text).replace("$", r"\$")
+
+
+def element_curve(result: Any = None, model: Any = None) -> dict[str, Any]:
+    """Force–depth data of one element [mm, mN]: from the kind's public result (``result.curve``,
+    with surface-tension and pressure parts) or, for kinds without one, from the device
+    adapter's table (:class:`~floatcalc.elements.ElementModel`: depth of its reference point,
+    total force)."""
+    if result is not None and getattr(result, "curve", None) is not None:
+        c = result.curve
+        out = {"depth": c.depth.to("mm").magnitude, "force": c.force.to("mN").magnitude}
+        for part in ("surface_tension", "pressure"):
+            if getattr(c, part, None) is not None:
+                out[part] = getattr(c, part).to("mN").magnitude
+        out["limit"] = (result.depth_at_max.to("mm").magnitude, result.max_force.to("mN").magnitude)
+        return out
+    if model is None:
+        raise ValueError("element_curve needs a result with a curve or an element model")
+    d = np.asarray(model.depth)[0] - float(np.asarray(model.offsets)[0])
+    f = model.force_at_depth(d)
+    return {"depth": d * 1e3, "force": np.asarray(f) * 1e3, "limit": (model.limit_depth * 1e3, model.limit_force * 1e3)}
+
+
+def force_depth(result: Any = None, ax=None, load: Any = None, model: Any = None, parts: bool = True,
+                title: str = "Force against depth, up to breakthrough"):
+    """Force–depth curve of one element with its limit and the force it carries in the device.
 
     Parameters
     ----------
-    result : RodResult (or any result with ``curve``, ``max_force``, ``depth_at_max``)
+    result : a kind's public result (``kind.solve``) with ``curve``, ``max_force``, ``depth_at_max``
+    model : ElementModel, optional
+        Used when the result has no curve (rod rows, flexible legs).
     load : quantity [force], optional
-        Load the group carries; drawn as a horizontal line, with the operating point at
-        ``operating_depth`` (quantity [length]) if it exists.
-    parts : bool
-        Also draw the surface-tension and pressure parts.
+        Force the element carries in the device; drawn as a horizontal line.
     """
     ax = _axes(ax)
-    c = result.curve
-    d = c.depth.to("mm").magnitude
-    ax.plot(d, c.force.to("mN").magnitude, color=COLOURS["total"], lw=2.0, label="total force")
-    if parts:
-        ax.plot(d, c.surface_tension.to("mN").magnitude, color=COLOURS["surface_tension"], lw=1.3,
-                ls="--", label="surface-tension part")
-        ax.plot(d, c.pressure.to("mN").magnitude, color=COLOURS["pressure"], lw=1.3, ls="-.",
+    c = element_curve(result, model)
+    ax.plot(c["depth"], c["force"], color=COLOURS["total"], lw=2.0, label="total force")
+    if parts and "surface_tension" in c:
+        ax.plot(c["depth"], c["surface_tension"], color=COLOURS["surface_tension"], lw=1.3, ls="--",
+                label="surface-tension part")
+    if parts and "pressure" in c:
+        ax.plot(c["depth"], c["pressure"], color=COLOURS["pressure"], lw=1.3, ls="-.",
                 label="pressure (buoyancy) part")
-    dm, fm = result.depth_at_max.to("mm").magnitude, result.max_force.to("mN").magnitude
+    dm, fm = c["limit"]
     lim = ax.scatter([dm], [fm], marker="v", s=70, color=COLOURS["total"], zorder=5,
-                     label=f"limit {fm:.3g} mN at {dm:.3g} mm")
+                     label=f"limit force {fm:.3g} mN at {dm:.3g} mm")
     lim.set_gid("limit")
     if load is not None:
         fl = load.to("mN").magnitude
-        ax.axhline(fl, color=COLOURS["load"], lw=1.0, ls=":", label=f"load carried {fl:.3g} mN")
-        if operating_depth is not None:
-            op = ax.scatter([operating_depth.to("mm").magnitude], [fl], s=60, color=COLOURS["load"],
-                            edgecolor="white", zorder=6, label="operating point")
-            op.set_gid("operating point")
+        ax.axhline(fl, color=COLOURS["load"], lw=1.2, ls=":", label=f"force carried in the device {fl:.3g} mN")
     ax.axhline(0.0, color="#999999", lw=0.6)
     ax.set_xlabel(DEPTH_LABEL)
     ax.set_ylabel(FORCE_LABEL)
-    ax.set_title("Force against depth, up to break-through", fontsize=10, loc="left")
-    ax.legend(fontsize=7.5, frameon=False, loc="upper left")
+    ax.set_title(title, fontsize=11, loc="left")
+    ax.legend(fontsize=9, frameon=False, loc="upper left")
     _style(ax)
     return ax
 
 
-def compare_curves(items: list[tuple[str, Any]], ax=None):
-    """Overlaid force–depth curves of several assessed designs (:class:`~floatcalc.report.Assessment`).
-
-    Each element group gets a line ending in its limit marker, and the load that curve carries
-    (its share of the design's weight) as a dotted line in the same colour.
-    """
+def bending_shape(result: Any, ax=None):
+    """Bent shape of a flexible leg at its limit (``FlexLegResult.shape``): depth along the leg,
+    the undisturbed surface and the clamp. Not to scale vertically (depths are a few mm over
+    legs of tens of mm); the axes say so."""
     ax = _axes(ax)
-    for k, (name, a) in enumerate(items):
-        col = _SERIES[k % len(_SERIES)]
-        for j, o in enumerate(a.elements):
-            c = o.result.curve
-            lab = name if len(a.elements) == 1 else f"{name}, group {j + 1}"
-            if getattr(o, "per_element", 1) > 1:
-                lab += " (one of its elements)"
-            ax.plot(c.depth.to("mm").magnitude, c.force.to("mN").magnitude, color=col,
-                    lw=1.8, ls=("-", "--", "-.")[j % 3], label=lab)
-            ax.scatter([o.result.depth_at_max.to("mm").magnitude], [o.result.max_force.to("mN").magnitude],
-                       marker="v", color=col, s=50, zorder=5)
-            ax.axhline((o.load_share / getattr(o, "per_element", 1)).to("mN").magnitude, color=col, lw=0.9,
-                       ls=":")
-    ax.axhline(0.0, color="#999999", lw=0.6)
-    ax.set_xlabel(DEPTH_LABEL)
-    ax.set_ylabel(FORCE_LABEL)
-    ax.set_title("Designs compared: force against depth (▼ limit, dotted: load each curve carries)",
-                 fontsize=10, loc="left")
-    ax.legend(fontsize=7.5, frameon=False, loc="upper left")
+    s = result.shape
+    x = np.asarray(s["x_m"]) * 1e3
+    z = -np.asarray(s["depth_m"]) * 1e3
+    ax.axhline(0.0, color=COLOURS["surface"], lw=1.0, ls=(0, (5, 4)), label="undisturbed surface")
+    ax.plot(x, z, color=COLOURS["solid"], lw=2.6, label="leg at the limit load", gid="leg")
+    ax.scatter([x[0]], [z[0]], marker="s", s=60, color=COLOURS["solid_edge"], zorder=5, label="clamp")
+    ax.set_xlabel("distance from the clamp [mm]")
+    ax.set_ylabel("height of the leg [mm] (vertical scale enlarged)")
+    ax.set_title(f"Flexible leg bending at the limit: tip depth {result.tip_depth.to('mm').magnitude:.3g} mm",
+                 fontsize=11, loc="left")
+    ax.legend(fontsize=9, frameon=False, loc="lower left")
     _style(ax)
     return ax
-
-
-def sweep_figure(result: Any, output: str = "safety_factor", safety_factor: float | None = None):
-    """The sweep plot of :func:`floatcalc.studies.plots.sweep_plot`, with the required safety
-    factor drawn as a horizontal line when ``output`` is the achieved ``safety_factor``."""
-    from .studies.plots import sweep_plot
-
-    fig = sweep_plot(result, output)
-    ax = fig.axes[0]
-    if safety_factor is not None and output == "safety_factor" and len(result.axes) == 1:
-        ax.axhline(safety_factor, color=VERDICT_COLOURS["floats with margin"], lw=1.2, ls="-.",
-                   label=f"required safety factor {safety_factor:g}")
-        ax.axhline(1.0, color=VERDICT_COLOURS["sinks"], lw=1.0, ls=":", label="1: limit force = weight")
-        ax.set_ylabel("margin = limit force / weight carried [-]")
-        ax.legend(loc="best", fontsize=8)
-    elif output == "margin" and len(result.axes) == 1:
-        kind, unit = result.output_units["margin"]
-        ax.set_ylabel(f"payload still possible beyond the design load [{unit}] (below 0: sinks)")
-    return fig
 
 
 PLAN_XLABEL = "x, plan position [mm]"
 PLAN_YLABEL = "y, plan position [mm]"
 
 
-def plan_view(device_result: Any, ax=None, grid: int = 140):
-    """Plan view of a device at equilibrium: elements, meniscus depth contours, load shares.
+def plan_view(device_result: Any, ax=None, grid: int = 100, numbers: bool = True):
+    """Plan view of a device at equilibrium: each element in its state, meniscus depth contours.
 
     Drawn to scale (equal aspect) in mm from a :class:`~floatcalc.device.DeviceResult`: each
-    element's footprint (patches with gid ``"element"``), filled contours of the superposed
-    meniscus depth from ``Device.meniscus_depth``, each element's share of the load in per cent,
-    and the centre of mass.
+    element's footprint coloured by its state (carrying / near its limit / broken through, see
+    :func:`floatcalc.output.text.element_state`; patches with gid ``"element"``), its number
+    (the element table lists the numbers), the superposed meniscus depth
+    (``Device.meniscus_depth``), the centre of mass and the payload position.
     """
+    from matplotlib.lines import Line2D
     from matplotlib.patches import Polygon
+
+    from .output.text import element_state
 
     ax = _axes(ax, size=(6.5, 6.0))
     dev = device_result.device
     lc = dev.liquid.lc
     mm = 1e3
     pts = np.vstack([m.footprint for m in dev.models])
-    lo, hi = pts.min(axis=0) - 1.5 * lc, pts.max(axis=0) + 1.5 * lc
+    lo, hi = pts.min(axis=0) - 1.2 * lc, pts.max(axis=0) + 1.2 * lc
     xs = np.linspace(lo[0], hi[0], grid)
     ys = np.linspace(lo[1], hi[1], grid)
     X, Y = np.meshgrid(xs, ys)
     depth = dev.meniscus_depth(X, Y, device_result.contact_depths) * mm
     top = max(float(np.nanmax(depth)), 1e-6)
-    cs = ax.contourf(X * mm, Y * mm, depth, levels=np.linspace(0.0, top, 12), cmap="GnBu", extend="both", zorder=1)
-    ax.contour(X * mm, Y * mm, depth, levels=np.linspace(0.0, top, 12)[1::2], colors="#24505f",
-               linewidths=0.5, zorder=2)
-    cb = ax.figure.colorbar(cs, ax=ax, shrink=0.8)
-    cb.set_label("meniscus depth below the undisturbed surface [mm]")
-    for m, st in zip(dev.models, device_result.elements):
+    cs = ax.contourf(X * mm, Y * mm, depth, levels=np.linspace(0.0, top, 10), cmap="Blues", extend="both",
+                     zorder=1, alpha=0.8)
+    cb = ax.figure.colorbar(cs, ax=ax, shrink=0.75, pad=0.02)
+    cb.set_label("meniscus depth [mm]", fontsize=10)
+    for i, (m, es) in enumerate(zip(dev.models, device_result.elements)):
         fp = m.footprint * mm
-        ax.add_patch(Polygon(fp, closed=True, facecolor=COLOURS["solid"], edgecolor=COLOURS["solid_edge"],
-                             lw=0.8, zorder=4, gid="element"))
+        state = element_state(es)
+        ax.add_patch(Polygon(fp, closed=True, facecolor=STATE_COLOURS[state], edgecolor=STATE_COLOURS[state],
+                             lw=3.0, zorder=4, gid="element", label=None))
         c = fp.mean(axis=0)
-        ax.text(c[0], c[1], f"{100 * st.share:.0f} %", fontsize=7, ha="center", va="bottom", zorder=6,
-                color="#111111", bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.75})
+        if np.ptp(fp, axis=0).max() < 0.02 * float(np.max(hi - lo)) * mm:  # too small to see at this scale
+            ax.scatter([c[0]], [c[1]], s=60, color=STATE_COLOURS[state], edgecolor="#222222", lw=0.6, zorder=5)
+        if numbers:
+            ax.text(c[0], c[1], str(i + 1), fontsize=9, ha="center", va="center", zorder=6, color="#111111",
+                    bbox={"boxstyle": "round,pad=0.12", "fc": "white", "ec": "none", "alpha": 0.8})
     xg, yg = dev.centre_of_mass
-    ax.scatter([xg * mm], [yg * mm], marker="+", s=90, color=COLOURS["load"], zorder=7,
-               label="centre of mass").set_gid("centre of mass")
+    ax.scatter([xg * mm], [yg * mm], marker="+", s=110, color="#111111", zorder=7).set_gid("centre of mass")
+    handles = [Line2D([], [], marker="s", ls="", ms=10, color=STATE_COLOURS[s], label=s) for s in STATE_COLOURS]
+    handles.append(Line2D([], [], marker="+", ls="", ms=10, color="#111111", label="centre of mass"))
+    if device_result.applied_payload.magnitude > 0:
+        px, py = device_result.max_payload_position.to("mm").magnitude
+        ax.scatter([px], [py], marker="v", s=80, color=COLOURS["load"], zorder=7).set_gid("payload")
+        handles.append(Line2D([], [], marker="v", ls="", ms=9, color=COLOURS["load"], label="payload"))
     ax.set_xlim(lo[0] * mm, hi[0] * mm)
     ax.set_ylim(lo[1] * mm, hi[1] * mm)
     ax.set_aspect("equal")
     ax.set_xlabel(PLAN_XLABEL)
     ax.set_ylabel(PLAN_YLABEL)
-    ax.set_title("Plan view: elements, meniscus depth and share of the load (to scale)", fontsize=10, loc="left")
-    ax.legend(loc="upper right", fontsize=7, framealpha=0.85)
+    ax.set_title("Plan view: state of each element (to scale)", fontsize=11, loc="left")
+    _legend_below(ax, ncols=len(handles), handles=handles, handletextpad=0.3, columnspacing=1.0)
     return ax
 
 
-__all__ = ["COLOURS", "VERDICT_COLOURS", "meniscus_section", "force_depth", "compare_curves", "plan_view", "sweep_figure",
-           "SECTION_XLABEL", "SECTION_YLABEL", "DEPTH_LABEL", "FORCE_LABEL"]
+def failure_steps(device_result: Any, ax=None):
+    """Stepped view of progressive failure: elements still intact against payload [g].
+
+    From each :class:`~floatcalc.device.solve.ElementState`'s ``breakthrough_order`` and
+    ``breakthrough_payload``; the max payload (first breakthrough), the sinking payload and the
+    applied payload are marked.
+    """
+    from .output.text import failure_steps as steps_of
+
+    ax = _axes(ax, size=(7.5, 4.2))
+    r = device_result
+    g = r.device.liquid.g
+    n = len(r.elements)
+    steps = steps_of(r)
+    sink = r.sinking_payload.to("N").magnitude / g * 1e3
+    x = [0.0]
+    y = [n]
+    for k, s in enumerate(steps):
+        p = s["payload"] / g * 1e3
+        x += [p, p]
+        y += [y[-1], n - (k + 1)]
+    x.append(max(sink, x[-1]) * 1.05 + 1e-9)
+    y.append(y[-1])
+    ax.plot(x, y, color=COLOURS["total"], lw=2.0, drawstyle="default", gid="steps")
+    for k, s in enumerate(steps[:12]):
+        p = s["payload"] / g * 1e3
+        ax.annotate(f"{s['order']}", (p, n - k - 0.5), fontsize=9, ha="right", va="center",
+                    xytext=(-3, 0), textcoords="offset points", color=COLOURS["load"])
+    mp = r.max_payload.to("N").magnitude / g * 1e3
+    ax.axvline(mp, color=STATE_COLOURS["near its limit"], lw=1.2, ls="--", label=f"max payload {mp:.3g} g")
+    ax.axvline(sink, color=STATE_COLOURS["broken through"], lw=1.4, ls="-", label=f"sinking payload {sink:.3g} g")
+    ap = r.applied_payload.to("N").magnitude / g * 1e3
+    if ap > 0:
+        ax.axvline(ap, color="#555555", lw=1.0, ls=":", label=f"payload {ap:.3g} g")
+    ax.set_ylim(-0.3, n + 0.6)
+    ax.set_xlim(0.0, x[-1])
+    ax.set_xlabel("payload [g]")
+    ax.set_ylabel("elements still intact")
+    ax.set_title("What breaks first: elements breaking through as the payload grows", fontsize=11, loc="left")
+    ax.legend(fontsize=9, frameon=False, loc="lower left")
+    _style(ax)
+    return ax
+
+
+def safety_factor_sweep(values, safety_factors, xlabel: str, required: float | None = None, ax=None):
+    """Achieved safety factor (capacity / load) against one input, on a log axis, with the line
+    at 1 (load = capacity) and the required safety factor marked."""
+    ax = _axes(ax, size=(7.5, 4.2))
+    sf = np.asarray(safety_factors, dtype=float)
+    ax.plot(values, sf, color=COLOURS["total"], lw=2.0, marker="o", ms=4, label="safety factor (capacity / load)")
+    ax.set_yscale("log")
+    ax.axhline(1.0, color=STATE_COLOURS["broken through"], lw=1.4, label="1: load = capacity")
+    if required is not None and required > 1.0:
+        ax.axhline(required, color=STATE_COLOURS["near its limit"], lw=1.2, ls="--",
+                   label=f"required safety factor {required:g}")
+    lo = min(float(np.nanmin(sf)), 1.0) / 1.3
+    hi = max(float(np.nanmax(sf)), required or 1.0) * 1.3
+    ax.set_ylim(lo, hi)
+    from matplotlib.ticker import FuncFormatter, LogLocator
+
+    ax.yaxis.set_major_locator(LogLocator(base=10, subs=(1.0, 1.5, 2.0, 3.0, 5.0, 7.0)))
+    ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
+    ax.yaxis.set_minor_formatter(FuncFormatter(lambda v, _: ""))
+    ax.set_xlabel(xlabel)
+    ax.set_ylabel("safety factor [-] (log scale)")
+    ax.set_title("Safety factor against one input", fontsize=11, loc="left")
+    ax.legend(fontsize=9, frameon=False, loc="best")
+    _style(ax)
+    return ax
+
+
+def comparison_bars(items: list[tuple[str, Any]], ax=None):
+    """Capacity and weight of compared designs side by side [g] (``items``: (name, DeviceResult))."""
+    ax = _axes(ax, size=(7.5, 3.8))
+    names = [safe_text(n) for n, _ in items]
+    g = items[0][1].device.liquid.g if items else 9.80665
+    cap = [r.capacity.to("N").magnitude / g * 1e3 for _, r in items]
+    w = [r.weight.to("N").magnitude / g * 1e3 for _, r in items]
+    sink = [(r.weight + r.sinking_payload).to("N").magnitude / g * 1e3 for _, r in items]
+    y = np.arange(len(items))
+    ax.barh(y + 0.25, sink, height=0.25, color="#9fb8c8", label="weight + sinking payload")
+    ax.barh(y, cap, height=0.25, color=COLOURS["total"], label="capacity")
+    ax.barh(y - 0.25, w, height=0.25, color=COLOURS["solid"], label="weight")
+    ax.set_yticks(y, names, fontsize=10)
+    ax.invert_yaxis()
+    ax.set_xlabel("load [g]")
+    ax.set_title("Designs compared", fontsize=11, loc="left")
+    ax.legend(fontsize=9, frameon=False, loc="lower right")
+    _style(ax)
+    return ax
+
+
+def figure_png(draw, size=(7.0, 4.2), dpi: int = 100, **kw) -> bytes:
+    """PNG bytes of one drawing: ``draw(ax=..., **kw)`` on a new figure, nothing clipped
+    (``bbox_inches="tight"``)."""
+    import io
+
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=size)
+    draw(ax=fig.add_subplot(), **kw)
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=dpi, bbox_inches="tight")
+    return buf.getvalue()
+
+
+__all__ = ["COLOURS", "VERDICT_COLOURS", "STATE_COLOURS", "safe_text", "meniscus_section", "element_curve",
+           "force_depth", "bending_shape", "plan_view", "failure_steps", "safety_factor_sweep", "comparison_bars",
+           "figure_png", "SECTION_XLABEL", "SECTION_YLABEL", "DEPTH_LABEL", "FORCE_LABEL"]

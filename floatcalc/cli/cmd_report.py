@@ -1,8 +1,11 @@
-"""``floatcalc report``: PDF report (and CSV of every curve) of a design file or built-in example."""
+"""``floatcalc report``: PDF report (and CSV tables) of a design file or a built-in example.
+
+Reads schema 2 through :mod:`floatcalc.design` and solves with
+:func:`floatcalc.device.solve.solve_device`: the same capacity, Baudoin number and verdict as
+``floatcalc device`` and the page.
+"""
 
 from __future__ import annotations
-
-import os
 
 from ._format import add_json_flag, print_json, print_table
 
@@ -10,73 +13,51 @@ ORDER = 70
 
 
 def register(sub) -> None:
-    p = sub.add_parser("report", help="write a PDF report (and CSV curves) of a design file")
+    p = sub.add_parser("report", help="write a PDF report (and CSV tables) of a design file")
     p.add_argument("file", nargs="?", default=None, help="design file (TOML), e.g. design.toml")
     p.add_argument("--example", default=None,
-                   help="use a built-in invented example instead of a file: robot, compare or classroom")
+                   help="use a built-in invented example instead of a file (see floatcalc device --list-examples)")
     p.add_argument("-o", "--output", default="report.pdf", help="PDF file to write (default report.pdf)")
-    p.add_argument("--csv-dir", default=None, help="also write every curve as CSV into this directory")
-    p.add_argument("--payload", default="0 g", help="payload at the centre of mass of a device file, e.g. 0.3g")
-    p.add_argument("--safety-factor", default="2", help="safety factor for a device file (default 2)")
+    p.add_argument("--csv-dir", default=None, help="also write every table and curve as CSV into this directory")
+    p.add_argument("--payload", default=None, help="payload, e.g. 0.3g (default the file's [load] payload)")
+    p.add_argument("--safety-factor", default=None,
+                   help="required safety factor (default the file's [load] safety_factor, else 1)")
     add_json_flag(p)
     p.set_defaults(func=run)
 
 
-def _scenario(args):
-    """("device", data) for a floatcalc.device design file, else ("groups", scenario)."""
-    import tomllib
-
-    from ..errors import input_error
-    from ..examples import MAX_FILE_BYTES, example, loads_toml
-    from ..report import is_device_data
-
-    if (args.file is None) == (args.example is None):
-        raise input_error("report", "give a design file or --example NAME (one of them)",
-                          "both" if args.file else "neither")
-    if args.example is not None:
-        return "groups", example(args.example)
-    if not os.path.isfile(args.file):
-        raise input_error("file", "must be an existing design file (TOML)", repr(args.file))
-    size = os.path.getsize(args.file)
-    if size > MAX_FILE_BYTES:
-        raise input_error("file", f"must be at most {MAX_FILE_BYTES // 1024} kB", f"{size} bytes")
-    with open(args.file, "rb") as f:
-        raw = f.read()
-    try:
-        data = tomllib.loads(raw.decode("utf-8"))
-    except (UnicodeDecodeError, tomllib.TOMLDecodeError) as exc:
-        raise input_error("file", "must be UTF-8 TOML text", str(exc).splitlines()[0]) from None
-    if is_device_data(data):
-        return "device", data
-    return "groups", loads_toml(raw)
-
-
 def run(args) -> int:
-    from .. import examples, report
+    from ..design import example, load_design
+    from ..device.solve import solve_device
     from ..errors import input_error
+    from ..output import csv as out_csv
+    from ..output import pdf
+    from ..output.tables import solved_tables
+    from ..output.text import entry_name, result_rows
 
     if not str(args.output).lower().endswith(".pdf"):
         raise input_error("output", "must be a file name ending in .pdf", repr(args.output))
-    kind, scenario = _scenario(args)
-    if kind == "device":
-        a = report.assess_device(scenario, args.payload, args.safety_factor)
-        others = []
-        rows_of = report.device_result_rows
-    else:
-        designs = examples.alternatives(scenario)
-        a = report.assess(designs[0])
-        others = [(s["title"], report.assess(s)) for s in designs[1:]]
-        rows_of = report.result_rows
-    report.write_pdf(a, args.output, others)
-    paths = report.write_csv_dir(a, args.csv_dir, others) if args.csv_dir else []
+    if (args.file is None) == (args.example is None):
+        raise input_error("report", "give a design file or --example NAME (one of them)",
+                          "both" if args.file else "neither")
+    design = example(args.example) if args.example is not None else load_design(args.file)
+    r = solve_device(design, payload=args.payload, safety_factor=args.safety_factor)
+    compared = [(entry_name(a, k), a, solve_device(a, payload=args.payload, safety_factor=args.safety_factor))
+                for k, a in enumerate(design.alternatives, 1)]
+    tables = solved_tables(design)
+    pdf.write_pdf(design, r, args.output, tables=tables, compared=compared)
+    paths = []
+    if args.csv_dir:
+        others = [(n, b, solved_tables(a)) for n, a, b in compared]
+        paths = out_csv.write_csv_dir(out_csv.all_tables(r, tables, others), args.csv_dir)
     if args.json:
-        print_json({**a.to_dict(), "pdf": args.output, "csv": paths,
-                    "alternatives": [{"title": n, **b.to_dict()} for n, b in others]})
+        print_json({**r.to_dict(), "pdf": args.output, "csv": paths, "notes": list(design.notes),
+                    "alternatives": [{"name": n, **b.to_dict()} for n, _, b in compared]})
         return 0
-    rows = rows_of(a)[:5] + [("PDF report", args.output)]
+    rows = result_rows(r)[:9] + [("PDF report", args.output)]
     if paths:
-        rows.append(("CSV curves", f"{len(paths)} files in {args.csv_dir}"))
-    for n, b in others:
-        rows.append(("alternative", f"{n}: {b.verdict}, margin {b.margin:.3g}"))
-    print_table(a.title, rows, [*a.warnings, *a.cautions])
+        rows.append(("CSV tables", f"{len(paths)} files in {args.csv_dir}"))
+    for n, _, b in compared:
+        rows.append((f"alternative: {n}", f"{b.verdict}, safety factor {b.safety_factor:.3g}"))
+    print_table(design.description or "design", rows, [*design.notes, *dict.fromkeys(r.warnings), *r.cautions])
     return 0

@@ -1,0 +1,95 @@
+"""Screenshots of each page panel at 1280 × 800 in headless Chromium, into artifacts/.
+
+Run from the repository root: ``MPLBACKEND=Agg python tests/screenshots.py``. Starts the page
+as tests/test_browser.py does (same Chromium and launch flags), visits each panel, saves
+``artifacts/page_<panel>.png`` and stops the server. For people to look at: nothing here
+asserts (the browser test does).
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
+sys.path.insert(0, str(HERE.parent))
+
+from test_browser import CHROMIUM, FLAGS, settle, start_server, stop_server  # noqa: E402
+
+OUT = HERE.parent / "artifacts"
+
+
+def _shot(page, name: str, anchor: str | None = None, exact: bool = True) -> None:
+    if anchor:
+        el = page.get_by_text(anchor, exact=exact).first
+        el.scroll_into_view_if_needed(timeout=30_000)
+        page.evaluate("""(t) => { const el = [...document.querySelectorAll('h1,h2,h3,p,summary,span,label')]
+            .find(e => e.textContent.trim() === t); if (el) { el.scrollIntoView({block: 'start'}); const m = document.querySelector('section.main, [data-testid="stMain"]'); if (m) m.scrollBy(0, -70); } }""", anchor)
+        page.wait_for_timeout(500)
+    path = OUT / f"page_{name}.png"
+    page.screenshot(path=str(path))
+    print(path)
+
+
+def _load_example(page, name: str) -> None:
+    page.get_by_role("combobox", name="built-in examples (all invented)").first.click()
+    page.get_by_role("option", name=name, exact=True).first.click()
+    page.get_by_role("button", name="load this example").click()
+    settle(page)
+
+
+def _drawing(page, label: str) -> None:
+    page.get_by_text(label, exact=True).first.click()
+    settle(page)
+
+
+def main() -> None:
+    from playwright.sync_api import sync_playwright
+
+    OUT.mkdir(exist_ok=True)
+    proc, url, log = start_server(OUT / "streamlit.log")
+    try:
+        with sync_playwright() as p:
+            ctx = p.chromium.launch_persistent_context(
+                user_data_dir=str(OUT / ".chromium-profile"), executable_path=CHROMIUM, headless=True,
+                args=FLAGS, viewport={"width": 1280, "height": 800})
+            page = ctx.new_page()
+            page.goto(url, timeout=90_000)
+            page.get_by_text("Verdict: floats").first.wait_for(timeout=120_000)
+            settle(page)
+            _shot(page, "1_top")
+            _shot(page, "2_elements", "Support elements")
+            _shot(page, "3_results", "Results")
+            _shot(page, "3b_elements_table", "Elements at this load")
+            _shot(page, "4_plan", "Drawings")
+            _drawing(page, "what breaks first")
+            _shot(page, "5_breaks_first", "Drawings")
+            _drawing(page, "element tables")
+            _shot(page, "6_element_tables", "Drawings")
+            _drawing(page, "safety-factor sweep")
+            page.get_by_role("button", name="run the sweep").click()
+            settle(page)
+            _shot(page, "7_sweep", "Drawings")
+            _shot(page, "8_warnings", "Warnings and cautions")
+            page.get_by_role("button", name="prepare the PDF report").click()
+            settle(page)
+            _shot(page, "9_reports", "Reports")
+            _load_example(page, "compare")
+            _shot(page, "10_compare", "Compare designs")
+            _load_example(page, "classroom")
+            page.get_by_text("Classroom: soap and surface tension").first.click()
+            settle(page)
+            slider = page.get_by_role("slider").first
+            slider.focus()
+            for _ in range(42):
+                slider.press("ArrowLeft")
+            settle(page)
+            _shot(page, "11_classroom", "Classroom: soap and surface tension")
+            ctx.close()
+    finally:
+        stop_server(proc, log)
+
+
+if __name__ == "__main__":
+    main()
