@@ -730,7 +730,9 @@ def element_tables(kind: str, *, contact_angle: Any, liquid: Liquid | None = Non
     else:
         Rr, b = geo["ring_radius"], geo["wire_radius"]
         out = ring_batch.ring_laws(Rr / lc, b / lc, th, points=points)
-        rc, weight, per = Rr + b, rho_s * math.pi * b * b * 2.0 * math.pi * Rr * liq.g, 4.0 * math.pi * Rr
+        rc, weight = Rr + b, rho_s * math.pi * b * b * 2.0 * math.pi * Rr * liq.g
+        # the one ring perimeter rule (as ring()): outer and inner contact lines at the limit
+        per = 2.0 * math.pi * (2.0 * Rr + b * (np.sin(out["phi_outer_at_max"]) - np.sin(out["phi_inner_at_max"])))
         for i in np.flatnonzero(out["curve"]["depth"][:, 0] > 1e-9):
             warn[i].append(f"curve starts at depth {out['curve']['depth'][i, 0] * lc[i] * 1e3:.3g} mm: shallower "
                            "states have no matching inner meniscus on the followed branch")

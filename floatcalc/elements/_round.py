@@ -54,39 +54,40 @@ class RoundKind(ElementKind):
     def limit_depth(self, p, res, D) -> float:
         return float(res.depth_at_max.to("m").magnitude)
 
-    def model(self, p, liquid):
-        from scipy.special import k0e, k1e
+    def _tables(self, p, liquid):
+        """The batched tables of :func:`floatcalc.round.element_tables` for this element (one row,
+        a few ms instead of a full public solve; same limit to 1e-8), or None to use the result."""
+        from ..round import element_tables
 
-        lc, s = liquid.lc, liquid.sigma
-        res = self.solve(p, liquid)
-        c = res.curve
-        D = c.depth.to("m").magnitude
-        F = c.force.to("N").magnitude
-        Fst = c.surface_tension.to("N").magnitude
-        d_lim = self.limit_depth(p, res, D)
-        keep = D < d_lim
-        # the table ends at the element's own limit, with the refined limit force of its result
-        # (one answer: the element alone in a device carries exactly its public max_force)
-        f_lim = float(res.max_force.to("N").magnitude)
-        st_lim = float(res.surface_tension_part.to("N").magnitude)
-        D = np.append(D[keep], d_lim)
-        F = np.append(F[keep], f_lim)
-        Fst = np.append(Fst[keep], st_lim)
-        D, F, Fst = from_first_contact(D, F, Fst)
-        grid = np.linspace(D[0], D[-1], TABLE_POINTS)
-        Fg = np.interp(grid, D, F)
-        rc = max(self.outer_radius(p, res), 1e-9)
-        h0 = np.interp(grid, D, Fst) * lc / (s * 2.0 * math.pi * rc * k1e(rc / lc) / k0e(rc / lc))
+        geo = {k: p[k] for k in self.fields}
+        th = effective_angle(p["coating"]["advancing"], p["coating"])
+        key = ("tables",) + _key(self.name, p, liquid)[1:]
+        if key not in _CACHE:
+            if len(_CACHE) >= _CACHE_MAX:
+                _CACHE.pop(next(iter(_CACHE)))
+            _CACHE[key] = element_tables(self.name, contact_angle=th, liquid=liquid, material_density=p["density"],
+                                         **geo)
+        return _CACHE[key]
+
+    def model(self, p, liquid):
+        lc = liquid.lc
+        t = self._tables(p, liquid)
+        grid = t.depth_m[0]
+        Fg = t.force_N[0].copy()
+        Fg[-1] = max(float(t.max_force_N[0]), float(Fg[-1]))  # end at the refined limit force
+        h0 = t.contact_depth_m[0]
+        rc = max(float(t.contact_radius_m[0]), 1e-9)
+        if self.name == "ring":
+            rc = p["ring_radius"] + p["wire_radius"]
         cx, cy = p["position"]
         return ElementModel(
             points=np.array([[cx, cy]]), offsets=np.array([-p["mount"]]),
             depth=grid[None, :], force=Fg[None, :], contact=h0[None, :],
-            own_weight=float(res.own_weight.to("N").magnitude),
-            perimeter=float(res.contact_perimeter.to("m").magnitude),
+            own_weight=float(t.own_weight_N[0]), perimeter=float(t.perimeter_m[0]),
             footprint=circle(cx, cy, self.footprint_radius(p)),
             field=scaled_field(axisym_field(cx / lc, cy / lc, rc / lc), lc),
             broken_force=liquid.rho * liquid.g * self.volume(p),
-            warnings=[w for w in res.warnings if "material density" not in w],
+            warnings=[w for w in t.warnings[0] if "material density" not in w],
             model_name=f"axisymmetric meniscus (floatcalc.round.{self.name})",
             geometry={**{k: p[k] for k in self.fields if k in p},
                       "theta": effective_angle(p["coating"]["advancing"], p["coating"])},
