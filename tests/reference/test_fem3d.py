@@ -46,19 +46,20 @@ def test_disc_linear_force_and_profile(r_c):
     np.testing.assert_allclose(got, h_c * k0(r) / k0(r_c), rtol=5e-4)
 
 
+@pytest.mark.slow
 def test_disc_refinement_order():
     """Convergence under uniform refinement (three levels): the direct contact-line integral must
     converge at least as h^1.5 towards the closed form (P2 elements, curved boundary: h² expected),
     and the error estimate of :func:`fem3d.reference` must bound the true error (closed form as
-    in the test above)."""
+    in the test above). Error estimate: the change between the last two levels."""
     h_c, r_c = 0.1, 1.0
     ref = F.reference([F.dirichlet_body(F.disc(0.0, 0.0, r_c), h_c=h_c)], levels=(0, 1, 2))
     exact = 2 * math.pi * r_c * h_c * k1e(r_c) / k0e(r_c)
     errs = [abs(s.line[0] - exact) for s in ref["solutions"]]
     assert math.log2(errs[0] / errs[1]) > 1.5 and math.log2(errs[1] / errs[2]) > 1.5
     assert ref["order_line"][0] > 1.5
-    assert abs(ref["line"][0] - exact) <= 2.0 * ref["err_line"][0]
-    assert abs(ref["flux"][0] - exact) <= 2.0 * ref["err_flux"][0] + 1e-9 * exact
+    assert abs(ref["line"][0] - exact) <= ref["err_line"][0]
+    assert abs(ref["flux"][0] - exact) <= ref["err_flux"][0] + 1e-9 * exact
 
 
 @pytest.mark.parametrize("r_c,h_c", [(1.0, 0.5), (0.5, 0.3)])
@@ -115,7 +116,7 @@ def _per_length(bodies_of, lengths, **kw):
     return (b.flux - a.flux) / dL, (b.line - a.line) / dL, b
 
 
-@pytest.mark.parametrize("nonlinear,h_c", [(False, 0.3), (True, 0.6)])
+@pytest.mark.parametrize("nonlinear,h_c", [(False, 0.3), pytest.param(True, 0.6, marks=pytest.mark.slow)])
 def test_long_strip_two_flat_walls(nonlinear, h_c):
     """A long strip footprint pinned at depth h_c: far from its ends each long side is a flat wall.
     Linear: h = h_c e^{−n}, force per length per side h_c. Nonlinear: first integral of the 2D
@@ -150,7 +151,8 @@ def _gap_psi(h_c: float, gap: float) -> float:
     return brentq(f, 1e-12, top * (1 - 1e-13), xtol=1e-15)
 
 
-@pytest.mark.parametrize("nonlinear,h_c,gap", [(False, 0.3, 1.0), (False, 0.3, 0.5), (True, 0.4, 1.0)])
+@pytest.mark.parametrize("nonlinear,h_c,gap", [
+    (False, 0.3, 1.0), (False, 0.3, 0.5), pytest.param(True, 0.4, 1.0, marks=pytest.mark.slow)])
 def test_two_parallel_strips_gap(nonlinear, h_c, gap):
     """Two long parallel strips pinned at depth h_c, gap ``gap`` between the facing contact lines.
     Per length per strip: outer side as a flat wall; inner side linear h_c tanh(gap/2) (from
@@ -167,7 +169,7 @@ def test_two_parallel_strips_gap(nonlinear, h_c, gap):
         exact = math.sin(2 * math.asin(h_c / 2)) + math.sin(_gap_psi(h_c, gap))
     else:
         exact = h_c * (1 + math.tanh(gap / 2))
-    fl, li, _ = _per_length(bodies, (6.0, 12.0), level=0, nonlinear=nonlinear)
+    fl, li, _ = _per_length(bodies, (6.0, 12.0), level=0, nonlinear=nonlinear, h_line=0.05)
     np.testing.assert_allclose(fl, exact, rtol=1e-4)
     np.testing.assert_allclose(li, exact, rtol=1e-3)
 
