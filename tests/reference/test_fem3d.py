@@ -207,3 +207,64 @@ def test_keller_volume_equals_contact_line_force(case, nonlinear):
     # Contact-line bound (PHYSICS.md): each body carries at most σ × its contact-line length.
     sols = ref["solutions"][-1]
     assert np.all(ref["flux"] <= np.array(sols.contact_length))
+
+
+# ----------------------------------------------------------------------------- rod condition
+def test_long_rod_contact_angle_condition_2d():
+    """Linearised contact-angle (Robin) condition of a thin horizontal rod, h + w₀ ∂ₙh = D₀,
+    D₀ = D − R(1 + cos θ), w₀ = R sin θ (derived in fem3d's docstring from h_c = D − R(1 − cos φ)
+    and ψ = φ + θ − π ≈ ∂ₙh). Long rod, per length by the difference of lengths 6 and 12:
+    (1) the exact 2D solution of the same linear problem, h = h_c e^{−n} with h_c = D₀/(1 + w₀),
+    surface-tension force per length 2 h_c — flux to 1e-4, contact-line integral to 2e-3;
+    (2) the exact nonlinear 2D rod (floatcalc.core.rod2d, Vella, Lee & Kim, Langmuir 22, 5979,
+    2006: contact position φ from D = 2 sin(ψ/2) + R(1 − cos φ), surface-tension part 2 sin ψ) —
+    to 2e-3, the linearisation error being O(ψ) relative with ψ ≈ 0.01 here (measured 2e-4)."""
+    from floatcalc.core import rod2d
+
+    R, th, D = 0.1, math.radians(120.0), 0.06
+    w0 = R * math.sin(th)
+    lin = 2 * (D - R * (1 + math.cos(th))) / (1 + w0)
+    phi = brentq(lambda p: 2 * math.sin((p + th - math.pi) / 2) + R * (1 - math.cos(p)) - D, 0.5, 2.5, xtol=1e-15)
+    exact2d = float(rod2d.force_parts(phi, R, th)[0])
+    fl, li, big = _per_length(lambda L: [F.rod_body((0.2, 0.1), 0.3, L, R, D, th)], (6.0, 12.0), level=0)
+    assert fl[0] == pytest.approx(lin, rel=1e-4)
+    assert li[0] == pytest.approx(lin, rel=2e-3)
+    assert fl[0] == pytest.approx(exact2d, rel=2e-3)
+    assert big.keller == pytest.approx(big.line[0], rel=2e-3)  # Keller 1998, as above
+
+
+# ----------------------------------------------------------------------------- convenience
+@pytest.mark.slow
+def test_two_strips_share_the_meniscus():
+    """Neighbours (PHYSICS.md; exact for parallel rods, Vella, Lee & Kim 2006): a strip beside
+    another, both pinned at the same depth, carries less than alone, and less the closer it is;
+    the two strips of a symmetric pair carry the same force (mesh-independent symmetry, to the
+    error estimate); every force stays below σ × contact-line length (PHYSICS.md bound)."""
+    L, w, h_c = 4.0, 0.15, 0.2
+    one = F.finite_strip_force(L, w, h_c, levels=(0,))
+    far = F.two_strips(L, w, 3.0, h_c, levels=(0, 1))
+    near = F.two_strips(L, w, 0.6, h_c, levels=(0, 1))
+    assert abs(far["force"][0] - far["force"][1]) <= far["err"].sum() + 1e-9
+    assert abs(near["force"][0] - near["force"][1]) <= near["err"].sum() + 1e-9
+    assert np.all(near["force"] < far["force"]) and np.all(far["force"] < one["force"][0])
+    per = near["solution"].contact_length
+    assert np.all(near["force"] <= np.array(per))
+    # Linear pair: the inner side of a long gap follows tanh(gap/2) (closed form above); the
+    # loss relative to the single strip must be of that size along the straight part.
+    loss = one["force"][0] - near["force"][0]
+    straight = L - 2 * w
+    expected = h_c * (1 - math.tanh(0.3)) * straight
+    assert 0.7 * expected < loss < 1.3 * expected  # ends make up the rest (order of a cap)
+
+
+@pytest.mark.slow
+def test_crossing_and_disc_helpers_keller():
+    """The convenience helpers used by cross-checks: an X, a T and a strip beside a disc; the
+    contact-line integral (a) against Keller's displaced volume (b) for the total (Keller 1998),
+    within the stated error estimates."""
+    for out in (F.crossing_strips(3.0, 2.0, 0.1, 0.2, kind="X", levels=(0, 1)),
+                F.crossing_strips(3.0, 2.0, 0.1, 0.2, kind="T", levels=(0, 1)),
+                F.strip_beside_disc(3.0, 0.1, 0.5, 0.5, 0.2, 0.1, levels=(0, 1))):
+        total = float(np.sum(out["line"]))
+        assert abs(total - out["keller"]) <= float(np.sum(out["err_line"])) + out["err_keller"]
+        assert np.sum(out["force"]) == pytest.approx(out["keller"], rel=1e-9)  # Galerkin identity
