@@ -182,7 +182,8 @@ def test_gap_inclination_linear_limit():
 
 # ----------------------------------------------------------------------------- Keller
 @pytest.mark.parametrize("case,nonlinear", [
-    ("cross", False), ("rod_and_disc", False), ("three_rods", False),
+    pytest.param("cross", False, marks=pytest.mark.slow), ("rod_and_disc", False),
+    pytest.param("three_rods", False, marks=pytest.mark.slow),
     pytest.param("cross", True, marks=pytest.mark.slow),
     pytest.param("rod_and_disc", True, marks=pytest.mark.slow),
 ])
