@@ -89,7 +89,8 @@ import numpy as np
 
 __all__ = [
     "stadium", "rectangle", "disc", "annulus", "Body", "dirichlet_body", "rod_body",
-    "build_mesh", "solve", "reference", "disc_linear_force", "Solution",
+    "build_mesh", "solve", "reference", "disc_linear_force", "Solution", "finite_strip_force",
+    "parallel_strips", "two_strips", "crossing_strips", "strip_beside_disc", "parallel_rods",
 ]
 
 MAX_ARC_ANGLE = 0.05  # [rad] largest chord angle on arcs at level 0 (curved P2 geometry)
@@ -426,6 +427,13 @@ class Solution:
             val += np.ravel(np.asarray(phi)) * self.h[b.element_dofs[k, cells]]
         return val.reshape(np.shape(x))
 
+    def triangulation(self):
+        """Vertices x, y [l_c], triangles (n, 3) and the depth h at the vertices, for drawing
+        (e.g. ``matplotlib.pyplot.tricontourf(x, y, tri, h)``)."""
+        ml = self.data.mesh_lin
+        nv = ml.p.shape[1]
+        return ml.p[0], ml.p[1], ml.t.T, self.h[:nv]
+
 
 def _factor(M):
     """Sparse LU of a symmetric matrix (SuperLU in symmetric mode, minimum-degree ordering)."""
@@ -729,3 +737,15 @@ def strip_beside_disc(length: float, half_width: float, radius: float, gap: floa
     bodies = [dirichlet_body(stadium(0.0, 0.0, 0.0, length, half_width), h_c=h_strip, name="strip"),
               dirichlet_body(disc(0.0, half_width + gap + radius, radius), h_c=h_disc, name="disc")]
     return _summary(bodies, nonlinear, levels, **kw)
+
+
+def parallel_rods(n: int, length: float, R: float, D: float, theta: float, gap: float, *,
+                  levels=(0, 1), **kw) -> dict:
+    """``n`` parallel thin horizontal rods (linearised contact-angle condition, see
+    :func:`rod_body`), all at lowest-point depth D, ``gap`` between facing contact lines
+    (footprint half-width w₀ = R sin θ); forces per rod as :func:`finite_strip_force`
+    (surface-tension part only; the pressure on the rods is not included)."""
+    w0 = R * math.sin(math.pi - theta)
+    pitch = 2 * w0 + gap
+    bodies = [rod_body((0.0, k * pitch), 0.0, length, R, D, theta, name=f"rod{k}") for k in range(n)]
+    return _summary(bodies, False, levels, **kw)

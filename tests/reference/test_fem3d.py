@@ -234,6 +234,30 @@ def test_long_rod_contact_angle_condition_2d():
     assert big.keller == pytest.approx(big.line[0], rel=2e-3)  # Keller 1998, as above
 
 
+def test_two_long_rods_contact_angle_condition_gap():
+    """Two long parallel rods under the linearised contact-angle condition, gap G between the
+    facing contact lines. Exact 2D solution of the same linear problem: outer side
+    h_o = D₀/(1 + w₀) with slope h_o; inner side h = h_i cosh(x)/cosh(G/2), slope h_i tanh(G/2),
+    and h_i + w₀ h_i tanh(G/2) = D₀. Per rod per length: h_o + h_i tanh(G/2). Flux to 1e-4
+    (per length from lengths 6 and 12), contact-line integral to 2e-3."""
+    R, th, D, G = 0.1, math.radians(110.0), 0.05, 0.8
+    w0 = R * math.sin(th)
+    D0 = D - R * (1 + math.cos(th))
+    t = math.tanh(G / 2)
+    exact = D0 / (1 + w0) + D0 * t / (1 + w0 * t)
+
+    def bodies(L):
+        return [F.rod_body((0.0, y), 0.0, L, R, D, th) for y in (0.0, 2 * w0 + G)]
+
+    fl, li, big = _per_length(bodies, (6.0, 12.0), level=0)
+    np.testing.assert_allclose(fl, exact, rtol=1e-4)
+    np.testing.assert_allclose(li, exact, rtol=2e-3)
+    x, y, tri, h = big.triangulation()
+    assert tri.shape[1] == 3 and h.shape == x.shape and np.all(np.isfinite(h))
+    row = F.parallel_rods(2, 12.0, R, D, th, G, levels=(0,))  # the helper builds the same row
+    np.testing.assert_allclose(row["force"], big.flux, rtol=1e-12)
+
+
 # ----------------------------------------------------------------------------- convenience
 @pytest.mark.slow
 def test_two_strips_share_the_meniscus():
