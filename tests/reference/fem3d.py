@@ -31,7 +31,12 @@ Boundary conditions:
   .. math:: h + w_0\\,\\partial_n h = D - R(1 - \\cos\\varphi_0) = D - R(1 + \\cos\\theta),
 
   with n the normal pointing from the liquid into the footprint (Robin, natural in the weak
-  form). The footprint is kept at half-width w₀.
+  form). In the nonlinear problem the full condition is used instead, as a flux law:
+  sin ψ = ∂ₙh/q = g(h) = c sin θ − cos θ √(1 − c²), c = (D − h)/R − 1 = cos(θ − ψ) (from the
+  same two relations, exact). Either way the footprint is kept at half-width w₀: the contact
+  line's plan position R sin φ moves by R(sin φ − sin φ₀), which is neglected (exact for one long
+  rod, whose 2D meniscus is translation invariant; an O(R Δφ) shift of the gap to a neighbour
+  and at the rod's ends otherwise).
 
 Outputs
 -------
@@ -231,8 +236,9 @@ def rod_body(center, heading: float, length: float, R: float, D: float, theta: f
     """Thin horizontal rod (radius R, lowest point at depth D, contact angle θ [rad]).
 
     Footprint: stadium (or rectangle) of half-width w₀ = R sin(π − θ); contact-line condition
-    h + w₀ ∂ₙh = D − R(1 + cos θ) (linearised about the level-contact position φ₀ = π − θ).
-    Valid for small slopes (|ψ| ≪ 1) and 90° < θ < 180° − small (w₀ > 0).
+    h + w₀ ∂ₙh = D − R(1 + cos θ) in the linear problem (linearised about the level-contact
+    position φ₀ = π − θ), sin ψ = g(h) in the nonlinear one (module docstring). Needs
+    0 < θ < π (w₀ > 0); linear: small slopes (|ψ| ≪ 1); footprint fixed at w₀ (see above).
     """
     w0 = R * math.sin(math.pi - theta)
     shape = (stadium if ends == "stadium" else rectangle)(center[0], center[1], heading, length, w0)
@@ -496,6 +502,18 @@ def _newton_step(J, rhs, lu, rtol: float = 1e-11, maxiter: int = 20):
     return lu.solve(rhs), lu
 
 
+def _rod_flux(h, R: float, D: float, theta: float):
+    """Contact-angle condition of a horizontal rod as a flux law: sin ψ = g(h) and g'(h).
+
+    From h = D − R(1 − cos φ) and ψ = φ + θ − π: with c = (D − h)/R − 1 = cos(θ − ψ),
+    g = sin ψ = c sin θ − cos θ √(1 − c²) and g' = −(sin θ + cos θ c/√(1 − c²))/R. c is kept
+    inside (−1, 1) (the contact line between the lowest point and the top of the rod)."""
+    c = np.clip((D - np.asarray(h)) / R - 1.0, -1.0 + 1e-9, 1.0 - 1e-9)
+    sq = np.sqrt(1.0 - c * c)
+    st, ct = math.sin(theta), math.cos(theta)
+    return c * st - ct * sq, -(st + ct * c / sq) / R
+
+
 def _kappa(Rd: float) -> float:
     from scipy.special import k0e, k1e
 
@@ -565,15 +583,28 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
             q = np.sqrt(1.0 + dot(g, g))
             return dot(g, grad(v)) / q + w["h"] * v
 
-        Bnd = A - asm(lin, basis)  # boundary (Robin) parts, linear in h
+        # Boundary parts linear in h: the far-field Robin term. Rod contact lines take the full
+        # contact-angle condition sin ψ = g(h) (see _rod_flux) instead of its linearisation.
+        Bnd = (kap * asm(mass, fb_out)).tocsr()
+        rods = [(fbi, bodies[i].rod) for i, fbi in enumerate(fbs) if bodies[i].kind == "rod"]
 
         def residual(x):
-            return asm(res, basis, h=_interp(basis, x)) + Bnd @ x - b
+            r = asm(res, basis, h=_interp(basis, x)) + Bnd @ x
+            for fbi, rod in rods:
+                r = r - asm(LinearForm(lambda v, w: _rod_flux(w["h"], *rod)[0] * v), fbi, h=fbi.interpolate(x))
+            return r
+
+        def jacobian(x):
+            J = asm(jac, basis, h=_interp(basis, x)) + Bnd
+            for fbi, rod in rods:
+                J = J - asm(BilinearForm(lambda u, v, w: _rod_flux(w["h"], *rod)[1] * u * v), fbi,
+                            h=fbi.interpolate(x))
+            return J
 
         r = residual(h)
         rn = rn0 = _norm(r[free])
         for steps in range(1, max_newton + 1):
-            J = (asm(jac, basis, h=_interp(basis, h)) + Bnd).tocsr()[free][:, free]
+            J = jacobian(h).tocsr()[free][:, free]
             dh = np.zeros(N)
             eta = max(1e-12, 0.1 * min(1e-3, rn / rn0))  # inexact Newton: looser early solves
             dh[free], lu = _newton_step(J, -r[free], lu, rtol=eta)
@@ -612,7 +643,10 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
         dofs = basis.get_dofs(facets=md.body_facets[i]).all()
         if bodies[i].kind == "dirichlet":
             flux.append(float(np.sum(full[dofs])))
-        else:  # Robin rod: flux of the natural condition, ∮ (D0 − h)/w0 ds
+        elif nonlinear:  # rod: flux of the natural condition, ∮ g(h) ds
+            rod = bodies[i].rod
+            flux.append(float(asm(Functional(lambda w: _rod_flux(w["h"], *rod)[0]), fbi, h=hi)))
+        else:  # rod, linearised: ∮ (D0 − h)/w0 ds
             R, Dd, th = bodies[i].rod
             w0 = R * math.sin(math.pi - th)
             D0 = Dd - R * (1.0 + math.cos(th))
@@ -740,12 +774,13 @@ def strip_beside_disc(length: float, half_width: float, radius: float, gap: floa
 
 
 def parallel_rods(n: int, length: float, R: float, D: float, theta: float, gap: float, *,
-                  levels=(0, 1), **kw) -> dict:
-    """``n`` parallel thin horizontal rods (linearised contact-angle condition, see
-    :func:`rod_body`), all at lowest-point depth D, ``gap`` between facing contact lines
-    (footprint half-width w₀ = R sin θ); forces per rod as :func:`finite_strip_force`
-    (surface-tension part only; the pressure on the rods is not included)."""
+                  nonlinear: bool = False, levels=(0, 1), **kw) -> dict:
+    """``n`` parallel horizontal rods with the contact-angle condition of :func:`rod_body`
+    (linearised, or the full one with ``nonlinear=True``), all at lowest-point depth D, ``gap``
+    between facing contact lines (footprint half-width w₀ = R sin θ, fixed); forces per rod as
+    :func:`finite_strip_force` (surface-tension part only; the pressure on the rods is not
+    included)."""
     w0 = R * math.sin(math.pi - theta)
     pitch = 2 * w0 + gap
     bodies = [rod_body((0.0, k * pitch), 0.0, length, R, D, theta, name=f"rod{k}") for k in range(n)]
-    return _summary(bodies, False, levels, **kw)
+    return _summary(bodies, nonlinear, levels, **kw)
