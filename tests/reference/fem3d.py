@@ -258,7 +258,16 @@ def _rings(geom):
 
 
 def _resample(xy: np.ndarray, step: float) -> np.ndarray:
-    """Subdivide the edges of a closed polygon so that none is longer than ``step``."""
+    """Subdivide the edges of a closed polygon so that none is longer than ``step``, after
+    dropping vertices closer than step/1000 to the previous kept one (near-duplicates that a
+    union leaves where footprints touch would force needlessly tiny elements)."""
+    keep = [0]
+    for k in range(1, len(xy)):
+        if np.hypot(*(xy[k] - xy[keep[-1]])) > 1e-3 * step:
+            keep.append(k)
+    if len(keep) > 2 and np.hypot(*(xy[keep[-1]] - xy[0])) <= 1e-3 * step:
+        keep.pop()
+    xy = xy[keep]
     nxt = np.roll(xy, -1, axis=0)
     pts = []
     for a, b in zip(xy, nxt):
