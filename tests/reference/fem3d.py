@@ -429,6 +429,7 @@ class Solution:
     data: MeshData = field(repr=False)
     basis: object = field(repr=False)
     h: np.ndarray = field(repr=False)
+    warnings: tuple = ()  # validity notes (steep slopes, rod contact line off the rod)
 
     def evaluate(self, x, y):
         """Depth h [l_c] at plan points (x, y) inside the mesh (for drawing and probes)."""
@@ -662,8 +663,23 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
             flux.append(float(asm(Functional(lambda w: (D0 - w["h"]) / w0), fbi, h=hi)))
         g = hi.grad
         smax = max(smax, float(np.max(np.sqrt(g[0] ** 2 + g[1] ** 2))))
+    notes = []
+    if nonlinear and smax > math.tan(math.radians(60.0)):
+        notes.append(f"contact-line slope up to {math.degrees(math.atan(smax)):.0f} deg: the graph "
+                     "formulation loses accuracy beyond about 60 deg (and fails at 90 deg)")
+    if not nonlinear and smax > 0.3:
+        notes.append(f"linearised model with contact-line slope up to {smax:.2f}: nonlinear terms "
+                     "of relative size slope^2 are missing")
+    for i, body in enumerate(bodies):
+        if body.kind == "rod":
+            R, Dd, th = body.rod
+            hb = fbs[i].interpolate(h)
+            c = (Dd - np.asarray(hb)) / R - 1.0
+            if np.any(np.abs(c) >= 1.0 - 1e-9):
+                notes.append(f"body {i}: rod contact line leaves the rod (below its lowest point or "
+                             "above its top) somewhere; the condition was clipped there")
     return Solution(np.array(line), np.array(flux), vol + vol_far, vol_far, md.contact_length, smax,
-                    int(N), time.perf_counter() - t0, steps, md, basis, h)
+                    int(N), time.perf_counter() - t0, steps, md, basis, h, tuple(notes))
 
 
 # ----------------------------------------------------------------------------- refinement

@@ -77,6 +77,14 @@ def test_disc_nonlinear_vs_axisymmetric_shooting(r_c, h_c):
     assert s.keller == pytest.approx(float(ax.solve(r_c, psi)["volume"]), rel=2e-5)
     assert s.line[0] == pytest.approx(force, rel=1e-3)
     assert s.max_slope == pytest.approx(math.tan(psi), rel=2e-3)
+    assert s.warnings == ()  # ψ ≤ 42° here: inside the graph formulation's stated range
+
+
+def test_validity_warnings():
+    """Outside its validity the reference says so: a linearised solve with steep contact-line
+    slopes (h_c = 0.8 on a disc of radius 0.3: slope h_c K₁/K₀(0.3) ≈ 1.78) carries a warning."""
+    s = F.solve([F.dirichlet_body(F.disc(0.0, 0.0, 0.3), h_c=0.8)], level=0)
+    assert s.max_slope == pytest.approx(0.8 * k1e(0.3) / k0e(0.3), rel=1e-2) and any("linearised" in w for w in s.warnings)
 
 
 def test_annulus_linear_closed_form():
