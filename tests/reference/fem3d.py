@@ -631,7 +631,10 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
             if np.max(np.abs(lam * dh)) < tol * max(1.0, np.max(np.abs(h))):
                 break
         else:
-            raise RuntimeError("fem3d: Newton did not converge")
+            from floatcalc.errors import ConvergenceError
+
+            raise ConvergenceError(f"fem3d: Newton did not converge in {max_newton} steps "
+                                   f"(residual {rn:.3g}); slopes too steep for the graph formulation?")
         full = r  # residual including boundary rows: the reaction at the body DOFs
     else:
         full = A @ h - b
@@ -664,6 +667,13 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
         g = hi.grad
         smax = max(smax, float(np.max(np.sqrt(g[0] ** 2 + g[1] ** 2))))
     notes = []
+    if nonlinear and smax > math.tan(math.radians(85.0)):
+        # The discrete problem always has a solution; a near-vertical one means the continuous
+        # graph problem has none (contact line deeper than a graph meniscus can reach).
+        from floatcalc.errors import ConvergenceError
+
+        raise ConvergenceError(f"fem3d: contact-line slope reaches {math.degrees(math.atan(smax)):.1f} deg: "
+                               "no graph meniscus for these contact depths (too deep)")
     if nonlinear and smax > math.tan(math.radians(60.0)):
         notes.append(f"contact-line slope up to {math.degrees(math.atan(smax)):.0f} deg: the graph "
                      "formulation loses accuracy beyond about 60 deg (and fails at 90 deg)")

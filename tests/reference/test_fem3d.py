@@ -323,3 +323,15 @@ def test_crossing_and_disc_helpers_keller():
         total = float(np.sum(out["line"]))
         assert abs(total - out["keller"]) <= float(np.sum(out["err_line"])) + out["err_keller"]
         assert np.sum(out["force"]) == pytest.approx(out["keller"], rel=1e-9)  # Galerkin identity
+
+
+def test_too_deep_for_a_graph_meniscus_raises():
+    """Beyond the deepest graph meniscus the reference refuses rather than returning a number:
+    around a disc of radius 0.3 the contact line reaches at most depth 0.609 with a graph
+    (ψ = 90° in floatcalc.core.axisym, checked here); h_c = 0.8 must raise ConvergenceError
+    (the discrete problem would give a near-vertical surface and a force above σ × perimeter)."""
+    from floatcalc.errors import ConvergenceError
+
+    assert -float(ax.solve(0.3, math.pi / 2)["height"]) < 0.8
+    with pytest.raises(ConvergenceError):
+        F.solve([F.dirichlet_body(F.disc(0.0, 0.0, 0.3), h_c=0.8)], nonlinear=True)
