@@ -46,7 +46,7 @@ _EXPORTS = {
     # design studies: sweeps, optimiser, Monte Carlo uncertainty, calibration fits
     "sweep": "studies.sweep", "optimise_rods": "studies.optimise", "uncertainty": "studies.uncertainty",
     "optimise_device_scale": "studies.optimise",
-    "fit_rod": "studies.fit",
+    "fit_rod": "studies.fit", "fit": "studies.fit", "fit_csv": "studies.fit", "FitResult": "studies.fit",
     # motion: jumps and strokes against the meniscus limit, coatings under pressure
     "jump": "motion.jump", "JumpResult": "motion.jump", "stroke": "motion.stroke", "StrokeResult": "motion.stroke",
     "coating_under_pressure": "motion.coating", "rod_model": "studies.models", "device_model": "studies.device_model",

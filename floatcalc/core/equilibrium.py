@@ -398,10 +398,11 @@ def progressive(sup: Support, W: float, xg: float, yg: float, px: float, py: flo
     steps = []
     broken: list[int] = []
     cur = sup
-    nxt = int(cur.owner[j])
+    nxt = [int(cur.owner[j])]
     while True:
-        broken.append(nxt)
-        steps.append((nxt, level))
+        for b in nxt:  # elements past their limit at the same load break together
+            broken.append(b)
+            steps.append((b, level))
         if len(broken) == n_el:
             return steps, level
         cur = with_broken(sup, broken, broken_force)
@@ -421,4 +422,9 @@ def progressive(sup: Support, W: float, xg: float, yg: float, px: float, py: flo
                 P = level
             level = P
             over = np.where(live, e - cur.limit_depth, -np.inf)
-        nxt = int(cur.owner[int(np.argmax(over))])
+        if float(over.max()) > 0.0:   # a cascade: every element already past its limit, deepest first
+            per = np.full(n_el, -np.inf)
+            np.maximum.at(per, cur.owner, over)
+            nxt = [int(e) for e in np.argsort(-per) if per[e] > 0.0]
+        else:
+            nxt = [int(cur.owner[int(np.argmax(over))])]

@@ -76,3 +76,23 @@ def polygon_distance(p, q) -> float:
             for pt in P:
                 best = min(best, _point_segment(pt, a, b))
     return float(best)
+
+
+def near_pairs(footprints, reach: float = 0.0):
+    """Index pairs (i < j) of footprints whose bounding circles come within ``reach``.
+
+    A vectorised first pass (centre distance against the sum of circumradii), so that the
+    exact polygon tests run only on pairs that can be close: O(n²) arithmetic on arrays instead
+    of O(n²) polygon loops.
+
+    >>> sq = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], float)
+    >>> near_pairs([sq, sq + 1.5, sq + 10.0])
+    [(0, 1)]
+    """
+    if len(footprints) < 2:
+        return []
+    c = np.array([np.asarray(f, float).mean(axis=0) for f in footprints])
+    r = np.array([float(np.max(np.hypot(*(np.asarray(f, float) - cc).T))) for f, cc in zip(footprints, c)])
+    d = np.hypot(c[:, None, 0] - c[None, :, 0], c[:, None, 1] - c[None, :, 1])
+    i, j = np.nonzero(np.triu(d - r[:, None] - r[None, :] <= reach, 1))
+    return list(zip(i.tolist(), j.tolist()))

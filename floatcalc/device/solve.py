@@ -88,10 +88,11 @@ class Device:
         for p in design.elements:
             models.append(get_kind(p["kind"]).model(p, liq))
             names.append(p["name"])
-        for i in range(len(models)):
-            for j in range(i + 1, len(models)):
-                if polygons_overlap(models[i].footprint, models[j].footprint):
-                    raise input_error(f"{_path(design, i)} and {_path(design, j)}",
+        from .geometry import near_pairs
+
+        for i, j in near_pairs([m.footprint for m in models]):
+            if polygons_overlap(models[i].footprint, models[j].footprint):
+                raise input_error(f"{_path(design, i)} and {_path(design, j)}",
                                       "footprints overlap; move or turn one of them, or set a larger "
                                       "layout_radius or spacing", f"'{names[i]}' and '{names[j]}'")
         from .interact import shielding as _shield
@@ -489,14 +490,3 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span):
             return brentq(g, a, b, xtol=1e-5)  # 1e-5 l_c: tens of nanometres
         a = b
     return None
-
-
-def _close_pairs(dev: Device, lc: float) -> list[str]:
-    from .geometry import polygon_distance
-
-    out = []
-    for i in range(len(dev.models)):
-        for j in range(i + 1, len(dev.models)):
-            if polygon_distance(dev.models[i].footprint, dev.models[j].footprint) < CLOSE_LC * lc:
-                out.append(f"{dev.names[i]} – {dev.names[j]}")
-    return out
