@@ -568,7 +568,7 @@ class _Problem:
 
 def _start(prob: _Problem, sig0, fit_tare, slow):
     """Coarse scan of each angle (tare solved in closed form at each trial) for the start:
-    every 10° for slow laws; every 5° then every 1° around the best for fast ones."""
+    every 20° for laws built per angle; every 5° then every 1° around the best for fast ones."""
     start = {}
     base = dict(prob.fixed)
     for name, mask in (("contact_angle", prob.push), ("receding_angle", prob.pull)):
@@ -584,7 +584,7 @@ def _start(prob: _Problem, sig0, fit_tare, slow):
                 r = r - float(np.sum(r * prob.u[mask] * w) / np.sum(w)) / prob.u[mask]
             return float(np.sum(r ** 2))
 
-        grid = np.arange(10.0, 180.0, 10.0) if slow else np.arange(2.5, 180.0, 5.0)
+        grid = np.arange(10.0, 180.0, 20.0) if slow else np.arange(2.5, 180.0, 5.0)
         costs = [cost(t) for t in grid]
         arg = float(grid[int(np.argmin(costs))])
         if not slow:
