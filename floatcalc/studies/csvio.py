@@ -277,6 +277,10 @@ def _decimal_mark(rows, numeric: list[int], ncols: int, delim: str, field: str) 
             continue
         for i in numeric:
             c = fields[i].strip()
+            if "," in c and "." in c:
+                raise input_error(field, f"line {lineno}: {c!r} mixes ',' and '.' (a thousands separator?); write "
+                                  "numbers without thousands separators and with one decimal mark",
+                                  f"separator {delim!r}")
             if comma is None and _COMMA_DECIMAL.match(c):
                 comma = (lineno, c)
             elif point is None and "." in c:
