@@ -255,7 +255,9 @@ def _geometry(kind: str, geometry: dict | None) -> tuple[Kind, dict]:
                           f"{', '.join(k.geometry)})", repr(g[unknown[0]]))
     out: dict[str, Any] = {}
     for key, (unit, _) in k.geometry.items():
-        val = g.get(key, k.optional.get(key, "required"))
+        val = g.get(key)
+        if val is None:
+            val = k.optional.get(key, "required")
         if isinstance(val, str) and val == "required":
             raise input_error(key, f"is required for a {kind}", "nothing")
         if val is None:
@@ -768,6 +770,13 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
             prof[n_], open_end = _profile(prob, x, S, j, thresh, q * np.sqrt(cov_u[j, j]))
             if open_end:
                 warn.append(f"the profile interval of the {PARAMETERS[n_][1]} reaches the end of its allowed range")
+    for n_ in prof:
+        (wl, wh), (pl, ph) = wald[n_], prof[n_]
+        half = 0.5 * (wh - wl)
+        if half > 0 and max(abs(pl - wl), abs(ph - wh)) > 0.1 * half:
+            warn.append(f"the model is visibly nonlinear over the interval of the {PARAMETERS[n_][1]}: the profile "
+                        f"interval ends differ from the Wald ones by up to {100 * max(abs(pl - wl), abs(ph - wh)) / half:.0f} % "
+                        "of its half-width (the profile interval is the one to trust)")
     shown = prof if intervals == "profile" else wald
     method = "profile likelihood" if intervals == "profile" else "Wald (Jacobian)"
     for n_ in ("contact_angle", "receding_angle"):
