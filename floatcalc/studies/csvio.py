@@ -31,9 +31,11 @@ import csv
 import io
 import math
 import re
-from dataclasses import dataclass, field as dc_field
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+from dataclasses import field as dc_field
 from pathlib import Path
-from typing import IO, Any, Iterable, Sequence
+from typing import IO, Any
 
 import numpy as np
 

@@ -55,9 +55,10 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Callable
 from dataclasses import dataclass
 from importlib import resources
-from typing import Any, Callable
+from typing import Any
 
 import numpy as np
 
@@ -534,7 +535,7 @@ class _Problem:
             xp[j] += h
             xm[j] -= h
             if r0 is not None:  # slow laws: forward differences (one new curve per parameter)
-                lo, hi = self.bounds(free)
+                _, hi = self.bounds(free)
                 if xp[j] > hi[j]:
                     J[:, j] = (r0 - self.resid(xm, free)) / h
                 else:
@@ -577,7 +578,7 @@ def _start(prob: _Problem, sig0, fit_tare, slow):
         if name not in prob.free:
             continue
 
-        def cost(t):
+        def cost(t, name=name, mask=mask):
             vals = dict(base, **{name: float(t)})
             m, _, _ = prob.predict(vals)
             r = (prob.F - m + vals["tare"])[mask] / prob.u[mask]
@@ -770,8 +771,8 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
             prof[n_], open_end = _profile(prob, x, S, j, thresh, q * np.sqrt(cov_u[j, j]))
             if open_end:
                 warn.append(f"the profile interval of the {PARAMETERS[n_][1]} reaches the end of its allowed range")
-    for n_ in prof:
-        (wl, wh), (pl, ph) = wald[n_], prof[n_]
+    for n_, (pl, ph) in prof.items():
+        wl, wh = wald[n_]
         half = 0.5 * (wh - wl)
         if half > 0 and max(abs(pl - wl), abs(ph - wh)) > 0.1 * half:
             warn.append(f"the model is visibly nonlinear over the interval of the {PARAMETERS[n_][1]}: the profile "
