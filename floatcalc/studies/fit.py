@@ -797,14 +797,22 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
 
     vals = prob.values(x)
     Fm, outside, before = prob.predict(vals)
+    r = F - Fm
+    rw = r / prob.u
+    air = before & ~pull
+    if np.count_nonzero(air) >= 2 and "depth_offset" not in free:
+        scale_i = prob.u[air] if known else np.full(np.count_nonzero(air), math.sqrt(s2))
+        z = float(np.sum(r[air] / scale_i ** 2) / math.sqrt(np.sum(1.0 / scale_i ** 2)))
+        if abs(z) > 3.0:
+            warn.append(f"{int(np.count_nonzero(air))} push-in row(s) above the surface (depth < 0, taken as not yet "
+                        "touching) read a force beyond their noise: the zero of depth may be off; fit the depth "
+                        "offset (--fit-depth-offset)")
     if fit_tare and not np.any(before):
         warn.append("the tare is fitted without rows at zero liquid force (before first touch or after pull-off): "
                     "it is then hard to tell from the angle; record some baseline rows")
     if np.any(outside):
         warn.append(f"{int(np.count_nonzero(outside))} point(s) lie outside the depth range of the model at the "
                     "fitted angle (before contact or past its last state) and were clamped to its ends")
-    r = F - Fm
-    rw = r / prob.u
     chi2 = chi2p = None
     if known:
         chi2 = float(S)
