@@ -563,7 +563,7 @@ class _Problem:
         xs = [{"contact_angle": 10.0, "receding_angle": 10.0, "surface_tension": 10.0, "depth_offset": 0.1,
                "tare": 0.1}[n] for n in free]
         res = least_squares(self.resid, x0, jac=self.jac, bounds=(lo, hi), method="trf", x_scale=xs,
-                            xtol=tol, ftol=tol, gtol=tol, max_nfev=1000, args=(free,), kwargs={})
+                            xtol=tol, ftol=1e-15, gtol=1e-15, max_nfev=1000, args=(free,), kwargs={})
         if strict and res.status <= 0:
             raise ConvergenceError(f"contact-angle fit did not converge: {res.message}")
         return res.x, float(np.sum(res.fun ** 2))
@@ -589,7 +589,13 @@ def _start(prob: _Problem, sig0, fit_tare, slow):
 
         grid = np.arange(10.0, 180.0, 20.0) if slow else np.arange(2.5, 180.0, 5.0)
         costs = [cost(t) for t in grid]
-        arg = float(grid[int(np.argmin(costs))])
+        i = int(np.argmin(costs))
+        arg = float(grid[i])
+        if slow and 0 < i < grid.size - 1:  # vertex of the parabola through the best three
+            c0, c1, c2 = costs[i - 1], costs[i], costs[i + 1]
+            den = c0 - 2.0 * c1 + c2
+            if den > 0:
+                arg = float(np.clip(arg + 0.5 * (grid[1] - grid[0]) * (c0 - c2) / den, grid[i - 1], grid[i + 1]))
         if not slow:
             fine = np.arange(max(arg - 4.0, 0.5), min(arg + 4.5, 179.6), 1.0)
             arg = float(fine[int(np.argmin([cost(t) for t in fine]))])
@@ -715,13 +721,14 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
     else:
         prob.u = _prop_u(err, F, warn=None)
     x0 = _start(prob, liq.sigma, fit_tare, k.slow)
-    x, S = prob.solve(x0)
+    tol = 1e-8 if k.slow else 1e-15  # laws built per angle: each evaluation costs a curve
+    x, S = prob.solve(x0, tol=tol)
     floored = 0
     if err.kind == "proportional":
         for _ in range(60):
             m, _, _ = prob.predict(prob.values(x))
             prob.u, floored = _prop_u(err, m, warn=True)
-            x_new, S = prob.solve(x)
+            x_new, S = prob.solve(x, tol=tol)
             done = np.all(np.abs(x_new - x) <= 1e-11 * np.maximum(1.0, np.abs(x)))
             x = x_new
             if done:
