@@ -128,3 +128,12 @@ def test_fit_rod_is_the_same_fit_and_plots_any_branch(tmp_path):
         fig = fit_plot(r)
         fig.savefig(tmp_path / "f.png")
         assert (tmp_path / "f.png").read_bytes()[:4] == b"\x89PNG"
+
+
+def test_receding_angle_without_pull_rows_is_refused():
+    from floatcalc.errors import InputError
+
+    D, F0, direction = _cycle(10, 10)
+    push = direction == "push"
+    with pytest.raises(InputError, match="receding_angle needs pull-out rows"):
+        fit("rod", D[push], F0[push], geometry=GEO, fit=("contact_angle", "receding_angle"))

@@ -692,6 +692,9 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
             raise input_error("fit", f"names parameters from {', '.join(PARAMETERS)}", repr(n_))
     pull, notes = _directions(direction, D)
     warn = list(warnings) + notes
+    if "receding_angle" in names and not np.any(pull):
+        raise input_error("fit", "receding_angle needs pull-out rows (a direction column, --direction pull, or "
+                          "rows in recording order whose depth decreases)", "push-in rows only")
     free = [p for p in PARAMETERS if p in names or (p == "contact_angle" and np.any(~pull))
             or (p == "receding_angle" and np.any(pull))]
     if not np.any(~pull):
