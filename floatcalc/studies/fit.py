@@ -885,10 +885,30 @@ def _profile(prob: _Problem, x, S, j, thresh, half):
         warm[key] = xo
         return So - S - thresh
 
+    def secant(sign, bound):
+        """Root of the profile t, g(b) = sqrt((S~(b) - S^)/threshold) - 1, which is near linear in b
+        (Bates & Watts 1988, sec. 6.1); None if it does not settle (then bracketing is used)."""
+        b0, g0 = x[j], -1.0
+        b1 = x[j] + sign * max(half, 1e-9)
+        for _ in range(10):
+            if (b1 - bound) * sign >= 0 or (b1 - x[j]) * sign <= 0:
+                return None
+            g1 = math.sqrt(max(excess(b1) + thresh, 0.0) / thresh) - 1.0
+            if abs(g1) < 1e-5:
+                return b1
+            if g1 == g0:
+                return None
+            b0, g0, b1 = b1, g1, b1 - g1 * (b1 - b0) / (g1 - g0)
+        return None
+
     ends = []
     open_end = False
     for sign in (-1.0, 1.0):
         bound = lo_b[j] if sign < 0 else hi_b[j]
+        root = secant(sign, bound)
+        if root is not None:
+            ends.append(root)
+            continue
         step = max(half, 1e-9)
         a, b = x[j], x[j] + sign * step
         fb = None
