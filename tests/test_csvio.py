@@ -85,3 +85,77 @@ def test_every_bad_row_is_named_even_when_many():
     for line in range(2, 32):
         assert f"{line}" in msg
     assert "line 32" not in msg and ", 32" not in msg
+
+
+# --- dialects: semicolons, decimal commas, tabs; ambiguous files refused with a hint ---------------
+
+def test_semicolon_and_decimal_comma_file_is_read(tmp_path):
+    # A spreadsheet export in a decimal-comma locale: ';' between columns, ',' for decimals,
+    # BOM and CRLF. Same numbers as the plain file (1 mm = 1e-3 m, 1 mN = 1e-3 N).
+    p = tmp_path / "rig.csv"
+    p.write_bytes("\ufeff# invented\r\ndepth [mm];force [mN]\r\n0,1;1,5\r\n0,25;2\r\n-0,5;-1,25e-1\r\n"
+                  .encode("utf-8"))
+    t = read_table(p, REQ)
+    assert t.delimiter == ";" and t.decimal == ","
+    assert t.columns["depth"].tolist() == pytest.approx([1e-4, 2.5e-4, -5e-4])
+    assert t.columns["force"].tolist() == pytest.approx([1.5e-3, 2e-3, -1.25e-4])
+    # semicolons with decimal points are fine too, and tabs
+    t = read_table(io.StringIO("depth [mm];force [mN]\n0.1;1.5\n"), REQ)
+    assert t.decimal == "." and t.columns["force"].tolist() == pytest.approx([1.5e-3])
+    t = read_table(io.StringIO("depth [mm]\tforce [mN]\n0,1\t1,5\n"), REQ)
+    assert t.delimiter == "\t" and t.columns["depth"].tolist() == pytest.approx([1e-4])
+
+
+@pytest.mark.parametrize("text, needle", [
+    # decimal marks mixed: '1.5' could be a thousands separator in a decimal-comma file
+    ("depth [mm];force [mN]\n0,1;1.5\n", "decimal marks"),
+    ("depth [mm];force [mN]\n1.234,5;2\n", "thousands separator"),
+    # header mixing both separators
+    ("depth [mm];force [mN],note [s]\n1;2,3\n", "mixes ';' and ','"),
+    # decimal commas in a comma-separated file: rows split into too many fields
+    ("depth [mm],force [mN]\n0,1,1,5\n0,2,2,5\n", "decimal commas in a comma-separated file"),
+])
+def test_ambiguous_dialect_is_refused_with_a_one_line_hint(text, needle):
+    with pytest.raises(InputError) as exc:
+        read_table(io.StringIO(text), REQ)
+    msg = str(exc.value)
+    assert needle in msg and "\n" not in msg
+
+
+def test_optional_text_and_unknown_columns():
+    text = "depth [mm],force [mN],force uncertainty [uN],Direction\n0.1,1,10,push\n0.2,2,20, Pull \n"
+    t = read_table(io.StringIO(text), REQ, optional={"force uncertainty": "force"}, text_columns=("direction",),
+                   allow_extra=False)
+    assert t.columns["force uncertainty"].tolist() == pytest.approx([1e-5, 2e-5])
+    assert t.text["direction"] == ["push", "pull"]
+    with pytest.raises(InputError) as exc:
+        read_table(io.StringIO("depth [mm],force [mN],temperature [degC]\n0.1,1,20\n"), REQ,
+                   optional={"force uncertainty": "force"}, allow_extra=False)
+    assert "column 'temperature [degC]' is not used here" in str(exc.value)
+    # by default (other callers, e.g. sweep output) extra columns are still ignored
+    assert read_table(io.StringIO("depth [mm],force [mN],x [s]\n0.1,1,2\n"), REQ).columns.keys() == {"depth", "force"}
+
+
+def test_fit_reads_the_uncertainty_column_and_refuses_unknown_columns(tmp_path):
+    # The issue: a third column 'force uncertainty [N]' used to be ignored silently. Now it
+    # weights the fit (same result as passing the same values to the API), and other columns
+    # are refused by name.
+    import math
+
+    from floatcalc.studies.fit import fit, fit_csv, force_depth_law
+
+    geo = {"radius": "0.25 mm", "length": "60 mm"}
+    law = force_depth_law("rod", geo)
+    D = np.linspace(0.1e-3, 3e-3, 20)
+    u = np.linspace(0.01e-3, 0.05e-3, 20)
+    F = law(D, math.radians(120), 0.0728)[0] + np.random.default_rng(2).normal(0, 1, 20) * u
+    p = tmp_path / "rig.csv"
+    p.write_text("depth [m],force [N],force uncertainty [N]\n" + "".join(
+        f"{d:.17g},{f:.17g},{e:.17g}\n" for d, f, e in zip(D, F, u)))
+    a = fit_csv("rod", p, geometry=geo)
+    b = fit("rod", D, F, geometry=geo, force_uncertainty=u)
+    assert a.contact_angle.magnitude == pytest.approx(b.contact_angle.magnitude, rel=1e-12)
+    assert a.force_uncertainty_known and a.error_model.startswith("per row")
+    p.write_text("depth [m],force [N],note [s]\n0.1,1,2\n")
+    with pytest.raises(InputError, match="column 'note"):
+        fit_csv("rod", p, geometry=geo)

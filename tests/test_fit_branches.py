@@ -111,3 +111,29 @@ def test_pull_only_data_fit_the_receding_angle_alone():
             intervals="wald")
     assert r.contact_angle is None and r.receding_angle.magnitude == pytest.approx(TR, abs=1e-5)
     assert r.to_dict()["contact_angle_deg"] is None
+
+
+def test_fit_rod_is_the_same_fit_and_plots_any_branch(tmp_path):
+    # One question, one answer: the compatibility wrapper calls fit("rod", ...).
+    from floatcalc.studies.fit import fit_plot, fit_rod
+
+    D, F0, direction = _cycle(15, 15)
+    F = F0 + np.random.default_rng(4).normal(0, 0.03e-3, D.size)
+    a = fit_rod(D, F, radius=R, length=L, force_uncertainty="0.03 mN")
+    b = fit("rod", D, F, geometry=GEO, force_uncertainty="0.03 mN")
+    assert a.to_dict() == b.to_dict()
+    pull = direction == "pull"
+    c = fit("rod", D[pull], F[pull], geometry=GEO, direction="pull", intervals="wald")
+    for r in (a, c):
+        fig = fit_plot(r)
+        fig.savefig(tmp_path / "f.png")
+        assert (tmp_path / "f.png").read_bytes()[:4] == b"\x89PNG"
+
+
+def test_receding_angle_without_pull_rows_is_refused():
+    from floatcalc.errors import InputError
+
+    D, F0, direction = _cycle(10, 10)
+    push = direction == "push"
+    with pytest.raises(InputError, match="receding_angle needs pull-out rows"):
+        fit("rod", D[push], F0[push], geometry=GEO, fit=("contact_angle", "receding_angle"))

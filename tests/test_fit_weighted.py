@@ -222,3 +222,18 @@ def test_parameters_the_data_cannot_tell_apart_raise():
     D = np.linspace(-1e-3, -0.1e-3, 12)
     with pytest.raises(ConvergenceError):
         fit("rod", D, np.zeros(D.size) + 1e-6 * (-1.0) ** np.arange(D.size), geometry=GEO)
+
+
+def test_rows_above_the_surface_that_read_a_force_are_flagged():
+    # The stage zero is 0.15 mm below first touch, so the first push rows are in contact while
+    # their depth reading is negative; without the depth offset they are taken as in the air.
+    D = _depths(baseline=0)
+    d = np.concatenate([np.linspace(-0.5e-3, -0.2e-3, 4), D]) - 0.15e-3
+    F = MODEL(d + 0.15e-3, TH) + np.random.default_rng(6).normal(0, 0.02e-3, d.size)
+    r = fit("rod", d, F, geometry=GEO, force_uncertainty="0.02 mN", intervals="wald")
+    assert any("zero of depth may be off" in w for w in r.warnings)
+    ok = fit("rod", d, F, geometry=GEO, force_uncertainty="0.02 mN", fit=("contact_angle", "depth_offset"),
+             intervals="wald", confidence=0.999)
+    assert not any("zero of depth may be off" in w for w in ok.warnings)
+    lo, hi = ok.depth_offset_ci.to("m").magnitude
+    assert lo < -0.15e-3 < hi

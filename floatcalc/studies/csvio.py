@@ -31,9 +31,11 @@ import csv
 import io
 import math
 import re
-from dataclasses import dataclass, field as dc_field
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+from dataclasses import field as dc_field
 from pathlib import Path
-from typing import IO, Any, Iterable, Sequence
+from typing import IO, Any
 
 import numpy as np
 
@@ -277,6 +279,10 @@ def _decimal_mark(rows, numeric: list[int], ncols: int, delim: str, field: str) 
             continue
         for i in numeric:
             c = fields[i].strip()
+            if "," in c and "." in c:
+                raise input_error(field, f"line {lineno}: {c!r} mixes ',' and '.' (a thousands separator?); write "
+                                  "numbers without thousands separators and with one decimal mark",
+                                  f"separator {delim!r}")
             if comma is None and _COMMA_DECIMAL.match(c):
                 comma = (lineno, c)
             elif point is None and "." in c:

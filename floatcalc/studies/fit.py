@@ -55,9 +55,10 @@ from __future__ import annotations
 
 import math
 import re
+from collections.abc import Callable
 from dataclasses import dataclass
 from importlib import resources
-from typing import Any, Callable
+from typing import Any
 
 import numpy as np
 
@@ -255,7 +256,9 @@ def _geometry(kind: str, geometry: dict | None) -> tuple[Kind, dict]:
                           f"{', '.join(k.geometry)})", repr(g[unknown[0]]))
     out: dict[str, Any] = {}
     for key, (unit, _) in k.geometry.items():
-        val = g.get(key, k.optional.get(key, "required"))
+        val = g.get(key)
+        if val is None:
+            val = k.optional.get(key, "required")
         if isinstance(val, str) and val == "required":
             raise input_error(key, f"is required for a {kind}", "nothing")
         if val is None:
@@ -532,7 +535,7 @@ class _Problem:
             xp[j] += h
             xm[j] -= h
             if r0 is not None:  # slow laws: forward differences (one new curve per parameter)
-                lo, hi = self.bounds(free)
+                _, hi = self.bounds(free)
                 if xp[j] > hi[j]:
                     J[:, j] = (r0 - self.resid(xm, free)) / h
                 else:
@@ -560,7 +563,7 @@ class _Problem:
         xs = [{"contact_angle": 10.0, "receding_angle": 10.0, "surface_tension": 10.0, "depth_offset": 0.1,
                "tare": 0.1}[n] for n in free]
         res = least_squares(self.resid, x0, jac=self.jac, bounds=(lo, hi), method="trf", x_scale=xs,
-                            xtol=tol, ftol=tol, gtol=tol, max_nfev=1000, args=(free,), kwargs={})
+                            xtol=tol, ftol=1e-15, gtol=1e-15, max_nfev=1000, args=(free,), kwargs={})
         if strict and res.status <= 0:
             raise ConvergenceError(f"contact-angle fit did not converge: {res.message}")
         return res.x, float(np.sum(res.fun ** 2))
@@ -568,14 +571,14 @@ class _Problem:
 
 def _start(prob: _Problem, sig0, fit_tare, slow):
     """Coarse scan of each angle (tare solved in closed form at each trial) for the start:
-    every 10° for slow laws; every 5° then every 1° around the best for fast ones."""
+    every 20° for laws built per angle; every 5° then every 1° around the best for fast ones."""
     start = {}
     base = dict(prob.fixed)
     for name, mask in (("contact_angle", prob.push), ("receding_angle", prob.pull)):
         if name not in prob.free:
             continue
 
-        def cost(t):
+        def cost(t, name=name, mask=mask):
             vals = dict(base, **{name: float(t)})
             m, _, _ = prob.predict(vals)
             r = (prob.F - m + vals["tare"])[mask] / prob.u[mask]
@@ -584,9 +587,15 @@ def _start(prob: _Problem, sig0, fit_tare, slow):
                 r = r - float(np.sum(r * prob.u[mask] * w) / np.sum(w)) / prob.u[mask]
             return float(np.sum(r ** 2))
 
-        grid = np.arange(10.0, 180.0, 10.0) if slow else np.arange(2.5, 180.0, 5.0)
+        grid = np.arange(10.0, 180.0, 20.0) if slow else np.arange(2.5, 180.0, 5.0)
         costs = [cost(t) for t in grid]
-        arg = float(grid[int(np.argmin(costs))])
+        i = int(np.argmin(costs))
+        arg = float(grid[i])
+        if slow and 0 < i < grid.size - 1:  # vertex of the parabola through the best three
+            c0, c1, c2 = costs[i - 1], costs[i], costs[i + 1]
+            den = c0 - 2.0 * c1 + c2
+            if den > 0:
+                arg = float(np.clip(arg + 0.5 * (grid[1] - grid[0]) * (c0 - c2) / den, grid[i - 1], grid[i + 1]))
         if not slow:
             fine = np.arange(max(arg - 4.0, 0.5), min(arg + 4.5, 179.6), 1.0)
             arg = float(fine[int(np.argmin([cost(t) for t in fine]))])
@@ -683,6 +692,9 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
             raise input_error("fit", f"names parameters from {', '.join(PARAMETERS)}", repr(n_))
     pull, notes = _directions(direction, D)
     warn = list(warnings) + notes
+    if "receding_angle" in names and not np.any(pull):
+        raise input_error("fit", "receding_angle needs pull-out rows (a direction column, --direction pull, or "
+                          "rows in recording order whose depth decreases)", "push-in rows only")
     free = [p for p in PARAMETERS if p in names or (p == "contact_angle" and np.any(~pull))
             or (p == "receding_angle" and np.any(pull))]
     if not np.any(~pull):
@@ -712,13 +724,14 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
     else:
         prob.u = _prop_u(err, F, warn=None)
     x0 = _start(prob, liq.sigma, fit_tare, k.slow)
-    x, S = prob.solve(x0)
+    tol = 1e-8 if k.slow else 1e-15  # laws built per angle: each evaluation costs a curve
+    x, S = prob.solve(x0, tol=tol)
     floored = 0
     if err.kind == "proportional":
         for _ in range(60):
             m, _, _ = prob.predict(prob.values(x))
             prob.u, floored = _prop_u(err, m, warn=True)
-            x_new, S = prob.solve(x)
+            x_new, S = prob.solve(x, tol=tol)
             done = np.all(np.abs(x_new - x) <= 1e-11 * np.maximum(1.0, np.abs(x)))
             x = x_new
             if done:
@@ -768,6 +781,13 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
             prof[n_], open_end = _profile(prob, x, S, j, thresh, q * np.sqrt(cov_u[j, j]))
             if open_end:
                 warn.append(f"the profile interval of the {PARAMETERS[n_][1]} reaches the end of its allowed range")
+    for n_, (pl, ph) in prof.items():
+        wl, wh = wald[n_]
+        half = 0.5 * (wh - wl)
+        if half > 0 and max(abs(pl - wl), abs(ph - wh)) > 0.1 * half:
+            warn.append(f"the model is visibly nonlinear over the interval of the {PARAMETERS[n_][1]}: the profile "
+                        f"interval ends differ from the Wald ones by up to {100 * max(abs(pl - wl), abs(ph - wh)) / half:.0f} % "
+                        "of its half-width (the profile interval is the one to trust)")
     shown = prof if intervals == "profile" else wald
     method = "profile likelihood" if intervals == "profile" else "Wald (Jacobian)"
     for n_ in ("contact_angle", "receding_angle"):
@@ -787,14 +807,22 @@ def fit(kind: str, depth: Any, force: Any, *, geometry: dict | None = None, liqu
 
     vals = prob.values(x)
     Fm, outside, before = prob.predict(vals)
+    r = F - Fm
+    rw = r / prob.u
+    air = before & ~pull
+    if np.count_nonzero(air) >= 2 and "depth_offset" not in free:
+        scale_i = prob.u[air] if known else np.full(np.count_nonzero(air), math.sqrt(s2))
+        z = float(np.sum(r[air] / scale_i ** 2) / math.sqrt(np.sum(1.0 / scale_i ** 2)))
+        if abs(z) > 3.0:
+            warn.append(f"{int(np.count_nonzero(air))} push-in row(s) above the surface (depth < 0, taken as not yet "
+                        "touching) read a force beyond their noise: the zero of depth may be off; fit the depth "
+                        "offset (--fit-depth-offset)")
     if fit_tare and not np.any(before):
         warn.append("the tare is fitted without rows at zero liquid force (before first touch or after pull-off): "
                     "it is then hard to tell from the angle; record some baseline rows")
     if np.any(outside):
         warn.append(f"{int(np.count_nonzero(outside))} point(s) lie outside the depth range of the model at the "
                     "fitted angle (before contact or past its last state) and were clamped to its ends")
-    r = F - Fm
-    rw = r / prob.u
     chi2 = chi2p = None
     if known:
         chi2 = float(S)
@@ -857,10 +885,30 @@ def _profile(prob: _Problem, x, S, j, thresh, half):
         warm[key] = xo
         return So - S - thresh
 
+    def secant(sign, bound):
+        """Root of the profile t, g(b) = sqrt((S~(b) - S^)/threshold) - 1, which is near linear in b
+        (Bates & Watts 1988, sec. 6.1); None if it does not settle (then bracketing is used)."""
+        b0, g0 = x[j], -1.0
+        b1 = x[j] + sign * max(half, 1e-9)
+        for _ in range(10):
+            if (b1 - bound) * sign >= 0 or (b1 - x[j]) * sign <= 0:
+                return None
+            g1 = math.sqrt(max(excess(b1) + thresh, 0.0) / thresh) - 1.0
+            if abs(g1) < 1e-5:
+                return b1
+            if g1 == g0:
+                return None
+            b0, g0, b1 = b1, g1, b1 - g1 * (b1 - b0) / (g1 - g0)
+        return None
+
     ends = []
     open_end = False
     for sign in (-1.0, 1.0):
         bound = lo_b[j] if sign < 0 else hi_b[j]
+        root = secant(sign, bound)
+        if root is not None:
+            ends.append(root)
+            continue
         step = max(half, 1e-9)
         a, b = x[j], x[j] + sign * step
         fb = None
