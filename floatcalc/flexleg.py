@@ -171,7 +171,9 @@ def _signed_angle(value: Any, field_name: str, lo: float, hi: float) -> float:
 
 def _prepare(radius, length, contact_angle, youngs_modulus, material, clamp_angle, toe_angle,
              toe_length, material_density, liquid, receding_angle=None):
-    liq = water() if liquid is None else liquid
+    from .liquids import as_liquid
+
+    liq = as_liquid(liquid)
     R = v.length(radius, "radius")
     L = v.length(length, "length")
     th = v.angle(contact_angle, "contact_angle")

@@ -416,3 +416,20 @@ def _reduced(sigma: float, reduction: Any) -> float:
             raise input_error("reduction", "percentage must be from 0 up to (not including) 100 %", repr(reduction))
         return sigma * (1.0 - frac)
     return sigma - to_si(reduction, "surface_tension", "reduction")
+
+
+def as_liquid(value: Any) -> "Liquid":
+    """The liquid an API call asked for: a :class:`Liquid`, a liquid name, or None (water at
+    20 °C); anything else is a one-line InputError (the one check every public function uses).
+
+    >>> as_liquid("ethanol").name, as_liquid(None).name
+    ('ethanol', 'water')
+    """
+    if value is None:
+        return water()
+    if isinstance(value, Liquid):
+        return value
+    if isinstance(value, str):
+        return liquid(value)
+    raise input_error("liquid", "must be a Liquid such as floatcalc.water('20 degC') or a liquid name such as "
+                      "'water'", type(value).__name__)

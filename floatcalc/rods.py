@@ -97,7 +97,9 @@ class RodResult(Result):
 
 
 def _liquid(liq: Liquid | None) -> Liquid:
-    return water() if liq is None else liq
+    from .liquids import as_liquid
+
+    return as_liquid(liq)
 
 
 def rod_limit(radius: Any, contact_angle: Any, liquid: Liquid | None = None) -> dict[str, Any]:
@@ -123,6 +125,13 @@ def rod_limit(radius: Any, contact_angle: Any, liquid: Liquid | None = None) -> 
     liq = _liquid(liquid)
     R = v.length(radius, "radius", array=True)
     th = v.angle(contact_angle, "contact_angle", array=True)
+    try:
+        np.broadcast_shapes(np.shape(R), np.shape(th))
+    except ValueError:
+        from .errors import input_error
+
+        raise input_error("contact_angle", f"must broadcast with radius (shape {np.shape(R)})",
+                          f"shape {np.shape(th)}") from None
     out = rod2d.limit_force(np.asarray(R) / liq.lc, th)
     s, lc = liq.sigma, liq.lc
     return {
@@ -185,6 +194,10 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
     th = v.angle(contact_angle, "contact_angle")
     th_r = v.hysteresis(th, receding_angle)
     n = v.count(count)
+    if isinstance(curve_points, bool) or not isinstance(curve_points, int) or not 2 <= curve_points <= 20000:
+        from .errors import input_error
+
+        raise input_error("curve_points", "must be a whole number from 2 to 20000", repr(curve_points))
     rho_s = DEFAULT_MATERIAL_DENSITY if material_density is None else v.density(material_density, "material_density")
     s, lc = liq.sigma, liq.lc
     Rs = R / lc

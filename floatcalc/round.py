@@ -106,7 +106,9 @@ class RoundForceCurve(ForceDepthCurve):
 
 
 def _liquid(liq: Liquid | None) -> Liquid:
-    return water() if liq is None else liq
+    from .liquids import as_liquid
+
+    return as_liquid(liq)
 
 
 def _density(material_density, warnings: list[str]) -> float:

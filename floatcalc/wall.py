@@ -81,7 +81,9 @@ def wall_meniscus(contact_angle: Any, liquid: Liquid | None = None) -> WallMenis
     >>> round(r.contact_height.to("mm").magnitude, 3)
     3.855
     """
-    liq = water() if liquid is None else liquid
+    from .liquids import as_liquid
+
+    liq = as_liquid(liquid)
     th = v.angle(contact_angle, "contact_angle")
     lc = liq.lc
     h = float(wall2d.contact_height(th)) * lc

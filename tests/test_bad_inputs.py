@@ -289,3 +289,22 @@ def test_payload_beyond_capacity_sinks_with_shortfall_cli(capsys):
     assert d["verdict"] == "sinks"
     assert d["shortfall_N"] > 0
     assert d["shortfall_N"] == pytest.approx(9.80665 - d["max_payload_N"], rel=0.02)
+
+
+@pytest.mark.parametrize("call,field", [
+    (lambda: fc.rod("0.2 mm", "20 mm", "150 deg", liquid=5), "liquid"),
+    (lambda: fc.ball("0.5 mm", "150 deg", liquid=3.0), "liquid"),
+    (lambda: fc.flexible_leg("0.1 mm", "30 mm", "150 deg", material="nylon", liquid=[1]), "liquid"),
+    (lambda: fc.rod("0.2 mm", "20 mm", "150 deg", curve_points=10**9), "curve_points"),
+    (lambda: fc.rod("0.2 mm", "20 mm", "150 deg", curve_points=1), "curve_points"),
+    (lambda: fc.rod_limit([1e-4, 2e-4], [1.0, 2.0, 3.0]), "contact_angle"),
+    (lambda: fc.rod(1j, "20 mm", "150 deg"), "radius"),
+    (lambda: fc.solve_device(None), "design"),
+    (lambda: fc.solve_device({"a": 1}), "design"),
+    (lambda: fc.save_design(None, "x.toml"), "design"),
+    (lambda: fc.load_design(None), "design"),
+])
+def test_wrong_types_in_python_raise_the_package_input_error(call, field):
+    with pytest.raises(InputError) as exc:
+        call()
+    assert str(exc.value).startswith(field + ":") and "\n" not in str(exc.value)

@@ -95,7 +95,9 @@ def parallel_rods(radius: Any, length: Any, contact_angle: Any, count: int, spac
     """
     from ..core import parallel2d, rod2d
 
-    liq = water() if liquid is None else liquid
+    from ..liquids import as_liquid
+
+    liq = as_liquid(liquid)
     R = v.length(radius, "radius")
     L = v.length(length, "length")
     S = v.length(spacing, "spacing")

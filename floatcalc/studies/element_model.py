@@ -65,7 +65,9 @@ def element_model(kind: str, liquid: Liquid | None = None, **base: float) -> Mod
     0.5 mm, 120°, steel 7850 kg/m³ (common practice), no payload)."""
     if kind not in ("ball", "pad"):
         raise input_error("element", "must be ball or pad", repr(kind))
-    liq = water() if liquid is None else liquid
+    from ..liquids import as_liquid
+
+    liq = as_liquid(liquid)
     inputs = _PAD if kind == "pad" else _COMMON
     b = {"radius": 1e-3, "contact_angle": math.radians(120.0), "surface_tension": liq.sigma,
          "material_density": STEEL, "payload_mass": 0.0}

@@ -250,7 +250,9 @@ def rod_model(liquid: Liquid | None = None, **base: Any) -> Model:
     >>> round(float(m.evaluate({})["max_force"]) * 1e3, 2)  # four invented 40 mm legs
     25.73
     """
-    liq = water() if liquid is None else liquid
+    from ..liquids import as_liquid
+
+    liq = as_liquid(liquid)
     b = {"radius": 2e-4, "length": 0.04, "contact_angle": math.radians(150.0), "count": 1.0,
          "material_density": STEEL, "surface_tension": liq.sigma, "liquid_density": liq.rho,
          "payload_mass": 0.0}

@@ -200,7 +200,9 @@ def optimise_rods(payload_mass: Any, *, safety_factor: float = 2.0, contact_angl
         If no design within the bounds meets the requirement (the message gives the most the
         bounds allow).
     """
-    liq = water() if liquid is None else liquid
+    from ..liquids import as_liquid
+
+    liq = as_liquid(liquid)
     Mp = v.positive(payload_mass, "mass", "payload_mass", show="g", upper=1e3)
     try:
         k = float(safety_factor)
