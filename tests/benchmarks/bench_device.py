@@ -9,7 +9,13 @@ Figures, measured side by side in one run:
   table once (vectorised), best of the repeats;
 * ``device_cost_s_n4/n12/n48``: full solve of invented radial rod layouts with 4, 12 and 48
   legs (same leg, hub radius growing so neighbours stay 1.6 l_c apart), and
-  ``device_cost_growth_48_over_4``.
+  ``device_cost_growth_48_over_4``;
+* side by side in the same run, the cost of seeing the neighbours: ``device_build_s`` and
+  ``device_cost_s_n*`` include the solved interaction model of close elements
+  (:mod:`floatcalc.device.interact`); ``device_build_superposition_s`` and
+  ``device_cost_superposition_s_n*`` are the same with the shielding factors given (the
+  superposition-only model of the previous version), with ``device_skimmer_capacity_ratio``
+  (capacity with interactions over superposition only).
 """
 
 from __future__ import annotations
@@ -19,6 +25,8 @@ import time
 
 TARGETS = {
     "device_solve_s": ("<=", 0.5),
+    "device_build_s": ("<=", 1.0),
+    "device_cost_s_n48": ("<=", 10.0),
 }
 
 
@@ -60,9 +68,14 @@ def run(quick: bool = False) -> dict:
     solve_device(Device.from_design(load_design(example_path("skimmer"))))  # warm imports
 
     t_build, dev = _best(lambda: Device.from_design(load_design(example_path("skimmer"))), repeats)
+    ones = (1.0,) * len(dev.models)
+    t_build0, dev0 = _best(lambda: Device.from_design(load_design(example_path("skimmer")), shielding=ones), repeats)
     t_solve, res = _best(lambda: solve_device(dev), repeats)
+    res0 = solve_device(dev0)
     out = {
         "device_build_s": t_build,
+        "device_build_superposition_s": t_build0,
+        "device_skimmer_capacity_ratio": res.capacity.magnitude / res0.capacity.magnitude,
         "device_solve_s": t_solve,
         "device_skimmer_max_payload_g": res.max_payload_mass.to("g").magnitude,
         "device_skimmer_verdict": res.verdict,
@@ -71,6 +84,8 @@ def run(quick: bool = False) -> dict:
         design = _radial(n)
         t, _ = _best(lambda d=design: solve_device(Device.from_design(d)), max(1, repeats // 2))
         out[f"device_cost_s_n{n}"] = t
+        t0, _ = _best(lambda d=design: solve_device(Device.from_design(d, shielding=(1.0,) * n)), max(1, repeats // 2))
+        out[f"device_cost_superposition_s_n{n}"] = t0
     out["device_cost_growth_48_over_4"] = out["device_cost_s_n48"] / out["device_cost_s_n4"]
     return out
 
