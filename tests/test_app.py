@@ -194,3 +194,43 @@ def test_drawings_and_compare_panels():
     _load(at, "compare")
     frames = [f.value for f in at.dataframe]
     assert any("design B" in list(f.columns) for f in frames)
+
+
+QUICK_FILE = b"""# an older quick file, as the page saved it before schema 2 (invented)
+title = "Invented example: four legs"
+invented = true
+[liquid]
+name = "water"
+temperature = "20 degC"
+[load]
+body_mass = "0.5 g"
+safety_factor = 1.5
+[[element]]
+kind = "rod"
+radius = "0.2 mm"
+length = "30 mm"
+count = 4
+material = "steel"
+coating = "PTFE film"
+advancing_angle = "115 deg"
+"""
+
+
+def test_an_older_file_is_read_through_the_one_reader_with_its_note_shown():
+    """AppTest cannot upload; the page's upload handler is called and its design loaded the way
+    the sidebar does (floatcalc.page.main.read_upload, load_data)."""
+    from floatcalc.page.main import read_upload
+
+    d = read_upload(QUICK_FILE)
+    assert d.notes and d.data["schema_version"] == 2
+    assert d.data["elements"][0]["count"] == 4 and d.data["elements"][0]["layout"] == "around"
+    at = AppTest.from_file(APP, default_timeout=TIMEOUT)
+    at.session_state["data"] = json.loads(json.dumps(d.data))
+    at.session_state["notes"] = list(d.notes)
+    at.session_state["ver"] = 1
+    at.session_state["compare"] = []
+    at.session_state["good"] = None
+    at.run()
+    _ok(at)
+    assert any(d.notes[0][:30].replace(" ", "") in i.value.replace("\\", "").replace(" ", "") for i in at.info)
+    assert _verdict(at).startswith("Verdict: " + solve_device(d).verdict)

@@ -233,3 +233,25 @@ def test_hostile_description_and_names_render_as_plain_text():
     for v in rendered:
         assert "**fake verdict**" not in v and "](http://example.invalid" not in v, v
         assert "**sinks**" not in v and "<b>" not in v, v
+
+
+def test_a_long_solve_is_cut_by_the_time_budget_and_cached_when_done():
+    """The page waits at most its budget for a solve; the solve goes on and is cached."""
+    import threading
+    import time
+
+    from floatcalc.page import solver
+
+    gate = threading.Event()
+
+    def slow():
+        gate.wait(10)
+        return "done"
+
+    key = f"test-budget-{time.monotonic()}"
+    with pytest.raises(solver.SolveTimeout):
+        solver.run(key, slow, budget=0.05)
+    assert solver.pending(key)
+    gate.set()
+    assert solver.run(key, slow, budget=10) == "done"
+    assert solver.cached(key) == "done" and not solver.pending(key)

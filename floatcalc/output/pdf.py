@@ -154,8 +154,8 @@ def write_pdf(design, result, target: Any, *, tables=None, compared=(), date: st
     f.line("Elements at this load", size=11, bold=True)
     rows = element_rows(result)
     if rows:
-        head = list(rows[0])
-        f.table(head, [[r[k] for k in head] for r in rows], [0.16, 0.1, 0.1, 0.12, 0.11, 0.13, 0.1, 0.1])
+        head = [k for k in rows[0] if k != "kind"]  # the kind is in the table titles above
+        f.table(head, [[r[k] for k in head] for r in rows], [0.17, 0.1, 0.14, 0.14, 0.13, 0.13, 0.1])
     f.gap().line("Bond numbers (Bo = ρ g L² / σ)", size=11, bold=True)
     for b in bond_rows(design):
         f.line(f"{b['table']}: Bo = {b['Bo']} with {b['length']}; {b['reading']}", size=8.5, indent=0.01)

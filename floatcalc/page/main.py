@@ -42,6 +42,7 @@ def load_data(data: dict, source_text: str | None = None, notes=()) -> None:
     ss.source_text = source_text
     ss.notes = list(notes)
     ss.ver = ss.get("ver", 0) + 1
+    ss.good = None  # results of another design are never shown as this one's
     ss.pop("pdf", None)
     ss.pop("csvzip", None)
 

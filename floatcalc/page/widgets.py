@@ -181,13 +181,10 @@ def coating_widget(table: dict, path: str, key: str, slots: Slots) -> None:
     idx = names.index(c["name"]) if c.get("name") in names else 0
     pick = st.selectbox("coating", names, index=idx, key=key + ".preset", on_change=_preset_changed, args=(key,),
                         help=f"fills in typical angles on water ({COATINGS_SOURCE})")
-    c1, c2 = st.columns(2)
-    with c1:
-        adv = text("advancing angle [deg]", str(c.get("advancing", "110 deg")), key + ".advancing",
-                   help="advancing contact angle: sets the load limit")
-    with c2:
-        rec = text("receding angle [deg]", str(c.get("receding", "")), key + ".receding",
-                   placeholder="optional", help="receding contact angle (for lifting); at most the advancing one")
+    adv = text("advancing angle [deg]", str(c.get("advancing", "110 deg")), key + ".advancing",
+               help="advancing contact angle: sets the load limit")
+    rec = text("receding angle [deg]", str(c.get("receding", "")), key + ".receding",
+               placeholder="optional", help="receding contact angle (for lifting); at most the advancing one")
     out: dict[str, Any] = {"advancing": adv.strip()}
     if rec.strip():
         out["receding"] = rec.strip()
