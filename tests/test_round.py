@@ -315,7 +315,8 @@ def test_element_tables_ring_against_public_ring():
     assert t.max_force_N[0] == pytest.approx(r.max_force.to("N").magnitude, rel=1e-7)
     assert t.depth_at_max_m[0] == pytest.approx(r.depth_at_max.to("m").magnitude, rel=1e-4)
     assert t.own_weight_N[0] == pytest.approx(r.own_weight.to("N").magnitude, rel=1e-12)
-    assert t.perimeter_m[0] == pytest.approx(4 * math.pi * 5e-3)
+    # the one ring perimeter rule, 2π(r_outer + r_inner) at the limit, as ring() reports it
+    assert t.perimeter_m[0] == pytest.approx(r.contact_perimeter.to("m").magnitude, rel=1e-4)
     # the table: the adapter's steps on ring()'s curve; its end (the limit depth) moves with
     # the depth at the flat maximum, so the rows agree to that depth's 1e-4
     g, f, h = _adapter_table(r, r.depth_at_max.to("m").magnitude, 5.2e-3, w.lc, w.sigma)

@@ -86,7 +86,7 @@ def near_pairs(footprints, reach: float = 0.0):
     of O(n²) polygon loops.
 
     >>> sq = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], float)
-    >>> near_pairs([sq, sq + 1.5, sq + 10.0])
+    >>> near_pairs([sq, sq + 1.5, sq + 10.0], reach=1.0)
     [(0, 1)]
     """
     if len(footprints) < 2:
