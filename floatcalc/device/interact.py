@@ -28,6 +28,8 @@ import numpy as np
 
 #: Footprints closer than this [capillary lengths] are solved together.
 REACH_LC = 2.5
+#: Shielding factors of layouts already solved (bodies in scaled units, so the liquid is in the key).
+_CACHE: dict = {}
 #: Largest cluster solved together (cost guard: the solve is dense in the number of panels).
 MAX_CLUSTER = 48
 _SOLVED = ("rod", "ball", "pad", "pin", "ring")
@@ -100,6 +102,13 @@ def shielding(models, kinds, liquid, names) -> tuple[np.ndarray, list[str]]:
             continue
         try:
             bodies = [_body(models[i], kinds[i], lc) for i in solved]
+            key = (tuple(bodies), tuple(round(float(models[i].offsets.mean() / lc), 12) for i in solved))
+            if key in _CACHE:   # same layout, e.g. only the payload or body mass changed
+                f_cached, w_cached = _CACHE[key]
+                for k, f in zip(solved, f_cached):
+                    s[k] = f
+                warnings += w_cached
+                continue
             lay = I.Layout(bodies)
             warnings += list(getattr(lay, "warnings", ()))
             lim = I.limit(lay, np.array([models[i].offsets.mean() / lc for i in solved]), "all")
@@ -116,9 +125,14 @@ def shielding(models, kinds, liquid, names) -> tuple[np.ndarray, list[str]]:
             warnings.append(f"the shared meniscus of {', '.join(names[i] for i in solved)} could not be solved "
                             f"({str(exc).splitlines()[0]}); their limits are those of elements far apart")
             continue
+        mine = []
         for k in solved:
             if s[k] < 0.999:
-                warnings.append(f"{names[k]}: neighbours within {REACH_LC:g} capillary lengths share its meniscus "
-                                f"and lower its limit by {100 * (1 - s[k]):.2g} % (solved meniscus, "
-                                "floatcalc.core.interactions)")
+                mine.append(f"{names[k]}: neighbours within {REACH_LC:g} capillary lengths share its meniscus "
+                            f"and lower its limit by {100 * (1 - s[k]):.2g} % (solved meniscus, "
+                            "floatcalc.core.interactions)")
+        warnings += mine
+        if len(_CACHE) >= 64:
+            _CACHE.pop(next(iter(_CACHE)))
+        _CACHE[key] = ([float(s[k]) for k in solved], mine)
     return s, warnings

@@ -294,7 +294,7 @@ def _as_device(design) -> Device:
 
 
 def solve_device(design, payload: Any | None = None, payload_position: Any | None = None, *,
-                 safety_factor: Any | None = None) -> DeviceResult:
+                 safety_factor: Any | None = None, placement: bool = True) -> DeviceResult:
     """Equilibrium, capacity, progressive failure and verdict of a device.
 
     Parameters
@@ -307,6 +307,10 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
         ``payload_position``, else the centre of mass.
     safety_factor : float, optional
         Required safety factor (default the file's, else 1).
+    placement : bool
+        Also search the best payload position and the tipping offsets (about half the cost of a
+        solve); ``False`` leaves ``best_payload`` at the centre-of-mass value and ``tipping``
+        empty (the page, which shows neither).
 
     Returns
     -------
@@ -411,7 +415,10 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
             warnings.append(f"{dev.names[i]}: {w}")
 
     # best place for a payload, stiffness, tipping (of the intact device)
-    Pbest, bx, by = eq.best_capacity(sup, Ws, xs, ys, at_centre=first if at_com else None)
+    if placement:
+        Pbest, bx, by = eq.best_capacity(sup, Ws, xs, ys, at_centre=first if at_com else None)
+    else:
+        Pbest, bx, by = Pcap, pxs, pys
     kz, kp, kq = eq.stiffness(cur, u, xt, yt)
     zg = dev.design.body.get("centre_of_mass_height", 0.0) / lc
     kp -= Wt * zg
@@ -423,7 +430,7 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
                         "capsizes")
     P_ref = P / fs if (not sinks and not broken_now and P > 0) else 0.5 * max(Pcap, 0.0)
     tipping = []
-    if P_ref > 0:
+    if P_ref > 0 and placement:
         span = float(np.max(np.hypot(sup.x - xs, sup.y - ys))) * 2.0
         for label, (dx, dy) in (("+x", (1, 0)), ("-x", (-1, 0)), ("+y", (0, 1)), ("-y", (0, -1))):
             t = _tip_offset(eq, sup, Ws, xs, ys, P_ref, dx, dy, span)

@@ -109,7 +109,7 @@ def solve(data: dict, budget: float | None = SOLVE_BUDGET_S):
     from ..device.solve import solve_device
 
     d = design_of(data)
-    return d, run("solve:" + design_key(data), lambda: solve_device(d), budget)
+    return d, run("solve:" + design_key(data), lambda: solve_device(d, placement=False), budget)
 
 
 def solve_element(kind, p: dict, liquid, budget: float | None = SOLVE_BUDGET_S):
