@@ -182,7 +182,7 @@ def element_rows(r) -> list[dict[str, str]]:
             "limit force [mN]": f"{e.limit_force.to('mN').magnitude:.4g}",
             "utilisation [%]": f"{100 * e.utilisation:.1f}",
             "state": element_state(e),
-            "breaks through": "—" if e.breakthrough_order is None else f"{e.breakthrough_order}.",
+            "breaks through": "—" if e.breakthrough_order is None else f"#{e.breakthrough_order}",
             "at payload [g]": "—" if bp is None else f"{bp.to('N').magnitude / g * 1e3:.4g}",
         })
     return out

@@ -304,11 +304,11 @@ def elements_panel(data: dict, slots: Slots) -> None:
         sel = st.selectbox(f"table to edit ({len(els)} tables)", range(len(els)), format_func=title,
                            key=k("edit_table"), help="problems in a table not shown are listed above")
         table_panel(data, min(sel, len(els) - 1), slots, expanded=True)
-    c1, c2 = st.columns([1.4, 1])
+    c1, c2 = st.columns([1.6, 1])
     c1.selectbox("kind of element to add", [x.name for x in kinds() if not x.unavailable], key="new_kind",
-                 format_func=lambda nm: f"{get_kind(nm).label}: {get_kind(nm).summary}")
-    c2.button("add an element table", key=k("add"), on_click=_add_table, help="4 elements laid out around the "
-              "centre of mass, with the kind's example sizes")
+                 format_func=lambda nm: get_kind(nm).label, help="; ".join(f"{x.label}: {x.summary}" for x in kinds()))
+    c2.button("add table", key=k("add"), on_click=_add_table, help="an element table of 4 elements laid out "
+              "around the centre of mass, with the kind's example sizes")
 
 
 # ------------------------------------------------------------------------------------------
