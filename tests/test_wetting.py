@@ -135,3 +135,45 @@ def test_texture_dict_problems():
     assert any(p.startswith("coating.post_height: required") for p in bad)
     with pytest.raises(InputError, match="texture.pitch"):
         coating_under_pressure({**POSTS, "pitch": 5e-6}, "115 deg", W)
+
+
+def test_posts_texture_in_a_design_file_sets_the_angle_and_is_checked_under_pressure():
+    # A textured coating given in the design file (posts: size, pitch, height): at rest the
+    # Cassie–Baxter angle with f = a²/p² (Cassie & Baxter 1944); in a fast stroke the
+    # Cassie-to-Wenzel check of floatcalc.motion (Extrand 2002) decides whether it floods.
+    import math
+
+    import pytest
+
+    import floatcalc as fc
+    from floatcalc.core import wetting
+    from floatcalc.design import design_from_data
+    from floatcalc.motion.stroke import stroke
+
+    coat = {"advancing": "110 deg", "texture": "posts", "post_size": "10 um", "pitch": "40 um", "post_height": "20 um"}
+    d = design_from_data({"schema_version": 2, "body": {"mass": "0.3 g"}, "elements": [
+        {"kind": "rod", "count": 4, "layout": "around", "layout_radius": "20 mm", "radius": "0.15 mm",
+         "length": "20 mm", "material": "steel", "coating": coat}]})
+    c = d.elements[0]["coating"]
+    assert [c[k] for k in ("post_size", "pitch", "post_height")] == pytest.approx([1e-5, 4e-5, 2e-5], rel=1e-12)
+    expect = wetting.effective_angle(math.radians(110), "cassie", solid_fraction=(10 / 40) ** 2)
+    r = fc.solve_device(d)
+    assert r.device.models[0].geometry["theta"] == pytest.approx(expect, rel=1e-12)
+    slow = stroke(d, "50 ms", "0.1 mN", leg_speed="0.05 m/s")
+    fast = stroke(d, "50 ms", "0.1 mN", leg_speed="20 m/s")
+    assert slow.coating and fast.coating
+    # flooding is monotone in speed: what floods slowly floods fast
+    flooded = lambda res: sum(bool(getattr(s, "floods", getattr(s, "flooded", False))) for s in res.coating)  # noqa: E731
+    assert flooded(fast) >= flooded(slow)
+
+
+def test_texture_keys_are_validated_with_key_paths():
+    import pytest
+
+    from floatcalc.design import design_from_data
+    from floatcalc.errors import InputError
+
+    coat = {"advancing": "110 deg", "texture": "posts", "post_size": "40 um", "pitch": "10 um", "post_height": "20 um"}
+    with pytest.raises(InputError, match=r"elements\[0\]\.coating\.pitch: must be larger than post_size"):
+        design_from_data({"schema_version": 2, "body": {"mass": "0.3 g"}, "elements": [
+            {"kind": "ball", "position": ["0 mm", "0 mm"], "radius": "1 mm", "material": "steel", "coating": coat}]})

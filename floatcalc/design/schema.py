@@ -70,8 +70,10 @@ _LIQUID_KEYS = {"name", "temperature", "salinity", "surface_tension"}
 _BODY_KEYS = {"mass", "centre_of_mass", "centre_of_mass_height"}
 _LOAD_KEYS = {"payload", "payload_position", "safety_factor"}
 _LAYOUT_KEYS = {"count", "layout", "layout_radius", "layout_spacing", "start_angle"}
-_COATING_KEYS = {"advancing", "receding", "texture", "roughness", "solid_fraction", "name"}
-_TEXTURES = ("none", "wenzel", "cassie")
+_COATING_KEYS = {"advancing", "receding", "texture", "roughness", "solid_fraction", "name", "post_size", "pitch",
+                 "post_height"}
+_TEXTURES = ("none", "wenzel", "cassie", "posts", "grooves")
+_GEOMETRY_KEYS = ("post_size", "pitch", "post_height")
 LAYOUTS = ("around", "row")
 _ALT_KEYS = {"description", "liquid", "body", "load", "elements"}
 
@@ -256,6 +258,21 @@ def _coating(value, path, problems):
                     out[key] = x
         elif key in value:
             problems.append(f"{path}.{key}: applies only to texture '{what}', got texture '{tex}'")
+    for key in _GEOMETRY_KEYS:   # posts or grooves: size, pitch and height of the texture
+        if tex in ("posts", "grooves"):
+            if key not in value:
+                problems.append(f"{path}.{key}: required for texture '{tex}' (e.g. \"10 um\")")
+            else:
+                x = _length(value[key], f"{path}.{key}", problems, example="10 um")
+                if x is not None and x > 1e-3:
+                    problems.append(f"{path}.{key}: must be at most 1 mm, got {x * 1e3:.4g} mm")
+                elif x is not None:
+                    out[key] = x
+        elif key in value:
+            problems.append(f"{path}.{key}: applies only to texture 'posts' or 'grooves', got texture '{tex}'")
+    if tex in ("posts", "grooves") and all(k in out for k in ("post_size", "pitch")) and out["pitch"] <= out["post_size"]:
+        problems.append(f"{path}.pitch: must be larger than post_size ({out['post_size'] * 1e6:.4g} µm), "
+                        f"got {out['pitch'] * 1e6:.4g} µm")
     return out
 
 

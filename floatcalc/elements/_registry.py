@@ -350,9 +350,12 @@ def effective_angle(theta, coating: dict[str, Any]):
     """Apparent advancing contact angle [rad] of a coating, through its texture model.
 
     Wenzel: cos θ* = r cos θ (roughness r ≥ 1); Cassie–Baxter: cos θ* = f (cos θ + 1) − 1
-    (solid fraction 0 < f ≤ 1) [1]_ [2]_. The result is clipped to 0–180° (a Wenzel value
-    |r cos θ| > 1 means complete wetting or complete non-wetting). Works on arrays of θ.
-    This is the one place the texture models are applied (design files, devices, studies).
+    (solid fraction 0 < f ≤ 1) [1]_ [2]_; posts or grooves (``post_size`` a, ``pitch`` p,
+    ``post_height``): Cassie–Baxter with the tops' solid fraction f = a²/p² (posts) or a/p
+    (grooves), the unflooded state at rest (:mod:`floatcalc.core.wetting`; whether a load or
+    a stroke floods it is :mod:`floatcalc.motion.coating`'s question). The result is clipped to
+    0–180°. Works on arrays of θ. The one place the texture models are applied (design files,
+    devices, studies); the formulas live in :func:`floatcalc.core.wetting.effective_angle`.
 
     References
     ----------
@@ -361,12 +364,15 @@ def effective_angle(theta, coating: dict[str, Any]):
 
     >>> round(math.degrees(effective_angle(math.radians(110), {"texture": "cassie", "solid_fraction": 0.2})), 2)
     150.27
+    >>> round(math.degrees(effective_angle(math.radians(110), {"texture": "posts", "post_size": 1e-5,
+    ...                                                          "pitch": 4e-5, "post_height": 2e-5})), 1)
+    163.5
     """
+    from ..core import wetting
+
     tex = coating.get("texture", "none")
-    c = np.cos(theta)
-    if tex == "wenzel":
-        c = coating["roughness"] * c
-    elif tex == "cassie":
-        c = coating["solid_fraction"] * (c + 1.0) - 1.0
-    out = np.arccos(np.clip(c, -1.0, 1.0))
-    return float(out) if np.ndim(out) == 0 else out
+    if tex in wetting.TEXTURES:
+        f = wetting.solid_fraction(tex, coating["post_size"], coating["pitch"])
+        return wetting.effective_angle(theta, "cassie", solid_fraction=f)
+    return wetting.effective_angle(theta, tex, roughness=coating.get("roughness"),
+                                   solid_fraction=coating.get("solid_fraction"))

@@ -239,8 +239,8 @@ def with_coating(design, models):
         models = [models] * len(data["elements"])
     for leg, (texture, value) in zip(data["elements"], models):
         c = dict(leg["coating"])
-        c.pop("roughness", None)
-        c.pop("solid_fraction", None)
+        for key in ("roughness", "solid_fraction", "post_size", "pitch", "post_height"):
+            c.pop(key, None)
         c["texture"] = texture
         if texture == "wenzel":
             c["roughness"] = float(min(max(value, 1.0), 10.0))

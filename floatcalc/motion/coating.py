@@ -237,3 +237,18 @@ def textured_heave_law(design, texture: dict | None, speed: float):
             f"and the limit force drops from {law.limit_force * 1e3:.4g} mN to {law_w.limit_force * 1e3:.4g} mN")
         law = law_w
     return law, states, notes
+
+
+def design_texture(design) -> dict | None:
+    """The posts or grooves texture a design file gives its elements' coating (the first one
+    found; design-file keys ``texture = "posts" | "grooves"``, ``post_size``, ``pitch``,
+    ``post_height``), or None. Used by jumps and strokes when no texture is given on the command line.
+    """
+    from ._device import as_design
+
+    for p in as_design(design).elements:
+        c = p.get("coating") or {}
+        if c.get("texture") in ("posts", "grooves"):
+            return {"texture": c["texture"], "post_size": c["post_size"], "pitch": c["pitch"],
+                    "post_height": c["post_height"]}
+    return None

@@ -172,9 +172,11 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
     """
     from .. import _validate as v
     from ._inputs import duration
-    from .coating import textured_heave_law
+    from .coating import design_texture, textured_heave_law
 
     T = duration(push_time, "push_time")
+    if texture is None:
+        texture = design_texture(design)   # a texture given in the design file
     if profile not in PROFILES:
         raise input_error("profile", f"must be one of {', '.join(PROFILES)}", repr(profile))
     if takeoff_speed is not None and push_force is not None:

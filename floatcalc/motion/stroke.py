@@ -159,6 +159,10 @@ def stroke(design, stroke_time: Any, thrust: Any, *, extra_vertical: Any = 0.0, 
             raise input_error("leg_speed", "must be zero or positive", f"{U:g} m/s")
         source = "given"
     if texture is None:
+        from .coating import design_texture
+
+        texture = design_texture(design)   # a texture given in the design file
+    if texture is None:
         law, states, notes = law0, [], []
     else:
         law, states, notes = textured_heave_law(design, texture, U)
