@@ -152,3 +152,12 @@ def test_everything_a_command_prints_is_terminal_safe(monkeypatch, capsys):
         assert raw not in out
     assert out == ("leg \\x1b[2J\\x1b]0;owned\\x07 \\u202eevil\\u2028x\\r done\tok\n"
                    "undecodable argv byte: \\udcff\n")
+
+
+def test_rod_options_with_a_device_are_refused(capsys):
+    from floatcalc.cli import main
+
+    assert main(["sweep", "--example", "skimmer", "--radius", "0.3mm", "--vary",
+                 "contact_angle_shift=-5deg:5deg:3"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "--radius: applies to rod legs" in err[0]

@@ -66,6 +66,11 @@ def model_from_args(args, liquid_from_args):
             raise input_error("design", "give either --design or --example, not both", repr(args.design))
         from .device_model import device_model
 
+        for key in ("radius", "length", "contact_angle", "count", "material_density"):
+            if getattr(args, key, ROD_DEFAULTS.get(key)) != ROD_DEFAULTS.get(key):
+                raise input_error("--" + key.replace("_", "-"), "applies to rod legs, not to a whole device (--design/"
+                                  "--example): vary radius_factor, length_factor or contact_angle_shift instead",
+                                  getattr(args, key))
         if args.example is not None:
             from ..device.design import list_examples
 
