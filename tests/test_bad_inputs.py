@@ -172,7 +172,7 @@ CASES = [
     Case("csv-not-a-number", "csv", "depth [mm],force [mN]\n0.1,abc\n0.2,0.3\n", "data", "is not a number"),
     Case("csv-extra-field", "csv", "depth [mm],force [mN]\n0.1,0.2,0.3\n", "data", "header has 2"),
     Case("csv-nan-value", "csv", "depth [mm],force [mN]\n0.1,nan\n", "data", "not finite"),
-    Case("csv-oversized", "csv", "depth [mm],force [mN]\n" + "0.10,0.20\n" * 600_000, "data", "at most 5 MB"),
+    Case("csv-oversized", "csv", "depth [mm],force [mN]\n" + "0.10,0.20\n" * 120_000, "data", "at most 1000 kB"),
     # --- the page (streamlit AppTest on app.py, opening on the invented skimmer device) -----------
     Case("page-leg-radius-nan", "page", ("radius [mm]", "nan mm"), "elements[0].radius", "finite number"),
     Case("page-advancing-200", "page", ("advancing angle [deg]", "200 deg"), "elements[0].coating.advancing",

@@ -44,7 +44,7 @@ from ..units import KINDS, to_si
 
 _HEADER = re.compile(r"^\s*([^\[\]]+?)\s*\[\s*([^\[\]]*?)\s*\]\s*$")
 _MAX_LISTED = 12  # bad rows described in full in one message; the rest are named by line number
-MAX_BYTES = 5_000_000  # force-depth data sets are a few kB; larger input is refused, not read whole
+from ..design.read import MAX_BYTES  # noqa: E402  (the one size limit of every file floatcalc reads)
 
 
 @dataclass(frozen=True)
@@ -124,7 +124,8 @@ def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = Fals
         if close:
             fh.close()
     if len(text) > MAX_BYTES:
-        raise input_error(field, f"must be at most {MAX_BYTES // 1_000_000} MB of CSV text", "a larger file")
+        raise input_error(field, f"files may be at most {MAX_BYTES // 1000} kB (the limit of every file floatcalc "
+                          "reads)", "a larger file")
     comments: list[str] = []
     header: list[str] | None = None
     header_line = 0
