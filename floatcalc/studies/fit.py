@@ -212,7 +212,15 @@ def _round_law(kind):
             elif kind == "pad":
                 r = rnd.pad(g["radius"], g["thickness"], th, liquid=lq)
             elif kind == "ring":
-                r = rnd.ring(g["ring_radius"], g["wire_radius"], th, liquid=lq)
+                # the tabulated ring (core.ring_batch: same curve as round.ring to 1e-9, in ms
+                # instead of a second of direct inner solves per angle)
+                from ..core import ring_batch
+
+                lc = lq.lc
+                c = ring_batch.ring_laws(np.array([g["ring_radius"] / lc]), np.array([g["wire_radius"] / lc]),
+                                         np.array([float(th)]))["curve"]
+                n = int(c["n"][0])
+                return c["depth"][0, :n] * lc, c["force"][0, :n] * lq.sigma * lc
             else:
                 r = rnd.pin(g["radius"], th, liquid=lq, length=g.get("length") or max(2.0 * span, 1e-3))
             return r.curve.depth.to("m").magnitude, r.curve.force.to("N").magnitude
