@@ -102,7 +102,8 @@ def shielding(models, kinds, liquid, names) -> tuple[np.ndarray, list[str]]:
             continue
         try:
             bodies = [_body(models[i], kinds[i], lc) for i in solved]
-            key = (tuple(bodies), tuple(round(float(models[i].offsets.mean() / lc), 12) for i in solved))
+            key = (tuple((b.cx, b.cy, b.key()) if isinstance(b, I.RoundBody) else b for b in bodies),
+                   tuple(round(float(models[i].offsets.mean() / lc), 12) for i in solved))
             if key in _CACHE:   # same layout, e.g. only the payload or body mass changed
                 f_cached, w_cached = _CACHE[key]
                 for k, f in zip(solved, f_cached):
