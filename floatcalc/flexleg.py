@@ -41,7 +41,7 @@ import numpy as np
 from . import _validate as v
 from .core import beam
 from .errors import input_error
-from .liquids import Liquid, water
+from .liquids import Liquid
 from .materials import LegMaterial, leg_material, youngs_modulus as _youngs
 from .results import Result, field, qfield
 from .units import Q_, to_si

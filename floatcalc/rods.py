@@ -23,7 +23,7 @@ import numpy as np
 
 from . import _validate as v
 from .core import rod2d
-from .liquids import Liquid, water
+from .liquids import Liquid
 from .results import Result, field, qfield
 from .units import Q_
 from .dimensionless import baudoin

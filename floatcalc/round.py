@@ -62,7 +62,7 @@ from . import _validate as v
 from .core import round_bodies as rb
 from .dimensionless import baudoin
 from .errors import InputError, input_error
-from .liquids import Liquid, water
+from .liquids import Liquid
 from .results import Result, field, qfield
 from .rods import DEFAULT_MATERIAL_DENSITY, ForceDepthCurve
 from .units import Q_, to_si

@@ -19,7 +19,7 @@ from typing import Any
 
 from . import _validate as v
 from .core import wall2d
-from .liquids import Liquid, water
+from .liquids import Liquid
 from .results import Result, field, qfield
 from .units import Q_
 

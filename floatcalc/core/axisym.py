@@ -407,7 +407,7 @@ def profile(rc: float, psi: float, *, side: str = "outer", extent: float = 6.0):
     linear K₀ solution to r_c + ``extent``. ``inner``: from near the centre (r ≈ 0) to the
     contact line. Also returns ``height`` and ``volume`` as :func:`solve`.
     """
-    from scipy.special import k0e, k1e
+    from scipy.special import k0e
 
     out = solve(rc, psi, side=side)
     if abs(psi) <= PSI_START:

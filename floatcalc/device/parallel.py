@@ -12,7 +12,7 @@ from typing import Any
 
 from .. import _validate as v
 from ..errors import input_error
-from ..liquids import Liquid, water
+from ..liquids import Liquid
 from ..results import Result, field, qfield
 from ..units import Q_
 

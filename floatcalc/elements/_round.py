@@ -10,12 +10,11 @@ liquid that does not spread outward).
 
 from __future__ import annotations
 
-import math
 
 import numpy as np
 
-from ._registry import (TABLE_POINTS, ElementKind, ElementModel, axisym_field, circle, effective_angle,
-                        from_first_contact, scaled_field)
+from ._registry import (ElementKind, ElementModel, axisym_field, circle, effective_angle,
+                        scaled_field)
 
 
 _PLACEMENT = ("position", "name", "group", "index", "heading", "mount", "layout", "layout_radius", "layout_spacing",

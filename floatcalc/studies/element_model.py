@@ -17,10 +17,9 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
-from typing import Any
 
 from ..errors import input_error
-from ..liquids import Liquid, water
+from ..liquids import Liquid
 from .models import STEEL, Model, Quantity
 
 _COMMON = {

@@ -34,7 +34,7 @@ from typing import Any, Callable
 import numpy as np
 
 from ..errors import input_error
-from ..liquids import Liquid, water
+from ..liquids import Liquid
 
 #: Default leg material: steel, 7850 kg/m³ (common practice), as in :mod:`floatcalc.rod`.
 STEEL = 7850.0

@@ -51,9 +51,9 @@ import numpy as np
 from .. import _validate as v
 from ..core import rod2d
 from ..errors import input_error
-from ..liquids import Liquid, water
+from ..liquids import Liquid
 from ..results import Result, field, qfield
-from ..units import Q_, to_si
+from ..units import Q_
 from .models import STEEL
 
 SCAN = 401
