@@ -37,7 +37,6 @@ def _no_action(args) -> int:
 
 def upgrade(args) -> int:
     from ..design import design_text, load_design
-    from ..design.read import MAX_BYTES  # noqa: F401  (the same guards as every reader)
     from pathlib import Path
 
     d = load_design(args.file)

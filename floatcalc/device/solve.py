@@ -49,10 +49,6 @@ REFERENCES = (
     "Bush & Hu, Annu. Rev. Fluid Mech. 38, 339 (2006): Baudoin number",
 )
 TILT_WARN_DEG = 10.0
-#: Elements whose footprints come closer than this many capillary lengths get a warning: for
-#: two long parallel rods the superposition is within 2 % of the exact 2D solution at 1.65 l_c
-#: between footprints and 15 % too high at 0.9 l_c (tests/test_device.py).
-CLOSE_LC = 1.5
 
 
 @dataclass(frozen=True)
