@@ -63,3 +63,28 @@ def test_sinks_only_when_nothing_holds_it():
     r = fc.solve_device(d)
     over = fc.solve_device(d, payload=f"{1.01 * r.sinking_payload.to('N').magnitude / fc.water().g * 1e3!r} g")
     assert over.verdict == "sinks" and over.shortfall is not None
+
+
+def test_shielding_is_solved_once_per_layout(monkeypatch):
+    """Changing only the body mass keeps the layout, so the shared meniscus is not solved again
+    (the cache key is the layout; it was once overwritten by a per-element key and never hit)."""
+    import copy
+
+    from floatcalc.core import interactions as I
+    from floatcalc.design import design_from_data, example
+    from floatcalc.device import interact
+    from floatcalc.device.solve import Device
+
+    data = copy.deepcopy(example("skimmer").data)
+    data["liquid"] = {"name": "water", "temperature": "21.5 degC"}   # a layout not solved before
+    calls = []
+    real = I.limit
+    monkeypatch.setattr(I, "limit", lambda *a, **k: calls.append(1) or real(*a, **k))
+    first = Device.from_design(design_from_data(data)).shielding
+    n_first = len(calls)
+    data["body"]["mass"] = "1.234 g"
+    again = Device.from_design(design_from_data(data)).shielding
+    assert n_first >= 1              # the skimmer has close legs, solved together
+    assert len(calls) == n_first     # ... once
+    assert list(again) == list(first)
+    assert len(interact._CACHE) >= 1

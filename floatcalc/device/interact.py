@@ -115,12 +115,12 @@ def shielding(models, kinds, liquid, names) -> tuple[np.ndarray, list[str]]:
             lim = I.limit(lay, np.array([models[i].offsets.mean() / lc for i in solved]), "all")
             alone = {}
             for k, b in zip(solved, bodies):
-                key = (type(b).__name__, tuple(round(float(v), 12) for v in
-                                               (b.length, b.radius, b.theta) if not isinstance(b, I.RoundBody))
-                       if not isinstance(b, I.RoundBody) else b.key())
-                if key not in alone:
-                    alone[key] = I.isolated_limit(b)["force"]
-                f = float(lim["forces"][solved.index(k)]) / alone[key]
+                akey = (type(b).__name__, tuple(round(float(v), 12) for v in
+                                                (b.length, b.radius, b.theta) if not isinstance(b, I.RoundBody))
+                        if not isinstance(b, I.RoundBody) else b.key())
+                if akey not in alone:
+                    alone[akey] = I.isolated_limit(b)["force"]
+                f = float(lim["forces"][solved.index(k)]) / alone[akey]
                 s[k] = min(1.0, f) if math.isfinite(f) and f > 0 else 1.0
         except (ConvergenceError, InputError, np.linalg.LinAlgError) as exc:
             warnings.append(f"the shared meniscus of {', '.join(names[i] for i in solved)} could not be solved "
