@@ -1,4 +1,4 @@
-"""A rowing stroke: demanded horizontal and extra vertical leg force against the meniscus.
+r"""A rowing stroke: demanded horizontal and extra vertical leg force against the meniscus.
 
 Model
 -----
