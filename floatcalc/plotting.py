@@ -359,22 +359,43 @@ def force_depth(result: Any = None, ax=None, load: Any = None, model: Any = None
     return ax
 
 
+def tip_deflection(shape: dict) -> float:
+    """Deflection [m] of a bent leg's tip from the straight line the clamp points along.
+
+    Geometry only: from ``FlexLegResult.shape`` (``x_m``, ``depth_m``, ``slope_deg`` along the
+    leg), the tip's vertical distance from the tangent at the clamp,
+    ``d = |(z_tip − z_0) − tan(α_0) (x_tip − x_0)|`` with z the depth and α_0 the slope at the
+    clamp. A rigid leg has d = 0.
+
+    >>> round(tip_deflection({"x_m": [0.0, 0.01], "depth_m": [0.002, 0.0015], "slope_deg": [0.0, -5.0]}), 6)
+    0.0005
+    """
+    x = np.asarray(shape["x_m"], dtype=float)
+    z = np.asarray(shape["depth_m"], dtype=float)
+    a0 = math.radians(float(np.asarray(shape.get("slope_deg", [0.0]), dtype=float)[0]))
+    return float(abs((z[-1] - z[0]) - math.tan(a0) * (x[-1] - x[0])))
+
+
 def bending_shape(result: Any, ax=None):
     """Bent shape of a flexible leg at its limit (``FlexLegResult.shape``): depth along the leg,
-    the undisturbed surface and the clamp. Not to scale vertically (depths are a few mm over
-    legs of tens of mm); the axes say so."""
+    the straight line the clamp points along (where a rigid leg would lie), the undisturbed
+    surface and the clamp. Not to scale vertically (depths are a few mm over legs of tens of
+    mm); the axes say so. The title gives the tip depth and :func:`tip_deflection`."""
     ax = _axes(ax)
     s = result.shape
     x = np.asarray(s["x_m"]) * 1e3
     z = -np.asarray(s["depth_m"]) * 1e3
+    a0 = math.radians(float(np.asarray(s.get("slope_deg", [0.0]))[0]))
     ax.axhline(0.0, color=COLOURS["surface"], lw=1.0, ls=(0, (5, 4)), label="undisturbed surface")
+    ax.plot([x[0], x[-1]], [z[0], z[0] - math.tan(a0) * (x[-1] - x[0])], color="#777777", lw=1.0, ls="--",
+            label="straight line from the clamp (a rigid leg)")
     ax.plot(x, z, color=COLOURS["solid"], lw=2.6, label="leg at the limit load", gid="leg")
     ax.scatter([x[0]], [z[0]], marker="s", s=60, color=COLOURS["solid_edge"], zorder=5, label="clamp")
     ax.set_xlabel("distance from the clamp [mm]")
-    ax.set_ylabel("height of the leg [mm] (vertical scale enlarged)")
-    ax.set_title(f"Flexible leg bending at the limit: tip depth {result.tip_depth.to('mm').magnitude:.3g} mm",
-                 fontsize=11, loc="left")
-    ax.legend(fontsize=9, frameon=False, loc="lower left")
+    ax.set_ylabel("height of the leg [mm]\n(vertical scale enlarged)")
+    ax.set_title(f"Flexible leg at the limit: tip depth {result.tip_depth.to('mm').magnitude:.3g} mm, "
+                 f"tip deflection {tip_deflection(s) * 1e3:.3g} mm", fontsize=11, loc="left")
+    _legend_below(ax, ncols=2)
     _style(ax)
     return ax
 
@@ -548,5 +569,5 @@ def figure_png(draw, size=(7.0, 4.2), dpi: int = 100, **kw) -> bytes:
 
 
 __all__ = ["COLOURS", "VERDICT_COLOURS", "STATE_COLOURS", "safe_text", "meniscus_section", "element_curve",
-           "force_depth", "bending_shape", "plan_view", "failure_steps", "safety_factor_sweep", "comparison_bars",
+           "force_depth", "bending_shape", "tip_deflection", "plan_view", "failure_steps", "safety_factor_sweep", "comparison_bars",
            "figure_png", "SECTION_XLABEL", "SECTION_YLABEL", "DEPTH_LABEL", "FORCE_LABEL"]

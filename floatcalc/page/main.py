@@ -104,8 +104,16 @@ def new_table(kind_name: str, base: dict | None = None) -> dict:
     return t
 
 
+def _show_table(i: int) -> None:
+    """With one table edited at a time (more than :data:`ALL_TABLES_SHOWN`), edit table ``i``
+    next (a table just added or duplicated is shown, not the first one)."""
+    if len(_ss().data.get("elements", [])) > ALL_TABLES_SHOWN:
+        _ss()[k("edit_table")] = i
+
+
 def _add_table() -> None:
     _edit(lambda d: d.setdefault("elements", []).append(new_table(_ss().get("new_kind", "rod"))))
+    _show_table(len(_ss().data["elements"]) - 1)
 
 
 def _dup_table(i: int) -> None:
@@ -114,6 +122,7 @@ def _dup_table(i: int) -> None:
         t["name"] = (t.get("name") or "table") + " copy"
         d["elements"].insert(i + 1, t)
     _edit(f)
+    _show_table(i + 1)
 
 
 def _remove_table(i: int) -> None:
@@ -350,11 +359,16 @@ def table_drawings(design, slots: Slots) -> None:
         kind = get_kind(p["kind"])
         key = "bendpng:" + signature(p, design.liquid)
         try:
-            png = solver.cached(key)
-            if png is None:  # the solve goes through the worker (budget); the drawing here
+            hit = solver.cached(key)
+            if hit is None:  # the solve goes through the worker (budget); the drawing here
                 res = solver.solve_element(kind, p, design.liquid, budget=10.0)
-                png = solver.remember(key, pl.figure_png(pl.bending_shape, size=(6.0, 3.2), dpi=90, result=res))
-            ph.image(png, caption="bending of one leg alone at its limit load", width="stretch")
+                png = pl.figure_png(pl.bending_shape, size=(7.0, 3.6), dpi=90, result=res)
+                words = (f"bending of one leg alone at its limit load: tip deflection "
+                         f"{pl.tip_deflection(res.shape) * 1e3:.3g} mm from the clamp's straight line, "
+                         f"tip depth {res.tip_depth.to('mm').magnitude:.3g} mm, clamp depth "
+                         f"{res.clamp_depth_at_max.to('mm').magnitude:.3g} mm")
+                hit = solver.remember(key, (png, words))
+            ph.image(hit[0], caption=hit[1], width="stretch")
         except solver.SolveTimeout:
             ph.caption("bending drawing: still solving")
         except (InputError, ConvergenceError) as exc:
