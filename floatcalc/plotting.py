@@ -85,6 +85,8 @@ def meniscus_section(result: Any, ax=None, extent_lc: float = 3.0, zoom: bool = 
     p = result.profile
     if p.get("body") == "torus":
         return _ring_section(result, ax, extent_lc, zoom)
+    if p.get("body") == "rod row":
+        return _row_section(result, ax, extent_lc, zoom)
     if "r_m" in p:
         return _round_section(result, ax, extent_lc, zoom)
     mm = 1e3
@@ -289,6 +291,83 @@ def _ring_section(result: Any, ax, extent_lc: float, zoom: bool):
     ax.set_ylabel(SECTION_YLABEL)
     ax.set_title("Close-up of the wire at the limit (to scale)" if zoom else
                  "Ring cross-section through the axis at the limit load (to scale)", fontsize=11, loc="left")
+    _style(ax)
+    return ax
+
+
+def _row_section(result: Any, ax, extent_lc: float, zoom: bool):
+    """Cross-section of a row of parallel rods at the limit (``ParallelRodsResult.profile``,
+    from :func:`floatcalc.core.parallel2d.row_profile`): every rod section, the outer menisci
+    and the shared meniscus in each gap with its turning point (mid-gap depth) marked."""
+    from matplotlib.patches import Circle, Polygon
+
+    p = result.profile
+    mm = 1e3
+    R = p["radius_m"] * mm
+    zc = p["centre_z_m"] * mm
+    xs = np.asarray(p["centres_x_m"]) * mm
+    xr, zr = (np.asarray(a) * mm for a in p["outer_right_m"])
+    xl, zl = (np.asarray(a) * mm for a in p["outer_left_m"])
+    gaps = [(np.asarray(gx) * mm, np.asarray(gz) * mm) for gx, gz in p["gaps_m"]]
+    cx, cz = (np.asarray(a) * mm for a in p["contacts_m"])
+    depth = p["depth_m"] * mm
+    lc = result.liquid.lc * mm if result.liquid is not None else 2.7
+    X = float(cx[-1]) + extent_lc * lc
+    kr, kl = xr <= X, xl >= -X
+    xr, zr, xl, zl = xr[kr], zr[kr], xl[kl], zl[kl]
+    low = zc - R
+    bottom = -(depth + 0.6 * lc)
+    po, pi_ = p["phi_outer"], p["phi_inner"]
+    n = len(xs)
+    parts = [np.column_stack([xl[::-1], zl[::-1]])]
+    for k, x in enumerate(xs):  # wetted arc under each rod, then the gap to its right
+        a = np.linspace(-(po if k == 0 else pi_), po if k == n - 1 else pi_, 80)
+        parts.append(np.column_stack([x + R * np.sin(a), zc - R * np.cos(a)]))
+        if k < n - 1:
+            parts.append(np.column_stack(gaps[k]))
+    parts += [np.column_stack([xr, zr]), [[xr[-1] if xr.size else X, bottom], [xl[-1] if xl.size else -X, bottom]]]
+    ax.add_patch(Polygon(np.concatenate(parts), closed=True, facecolor=COLOURS["liquid"], edgecolor="none",
+                         zorder=1, gid="liquid", label="liquid"))
+    ax.plot(xr, zr, color=COLOURS["interface"], lw=1.8, zorder=3, label="meniscus (liquid surface)")
+    ax.plot(xl, zl, color=COLOURS["interface"], lw=1.8, zorder=3)
+    for k, (gx, gz) in enumerate(gaps):
+        ax.plot(gx, gz, color=COLOURS["interface"], lw=1.8, zorder=3, gid="shared meniscus")
+    ax.axhline(0.0, color=COLOURS["surface"], lw=0.9, ls=(0, (5, 4)), zorder=2, label="undisturbed surface")
+    for k, x in enumerate(xs):
+        ax.add_patch(Circle((x, zc), R, facecolor=COLOURS["solid"], edgecolor=COLOURS["solid_edge"], lw=1.0,
+                            zorder=4, gid="solid", label="rod sections (solid)" if k == 0 else None))
+    pts = ax.scatter(cx, cz, s=30, color=COLOURS["contact"], edgecolor="white", lw=0.7, zorder=5,
+                     label="contact points")
+    pts.set_gid("contact points")
+    if gaps:
+        mids = [(0.5 * (xs[k] + xs[k + 1]), float(gz[len(gz) // 2])) for k, (_, gz) in enumerate(gaps)]
+        ax.scatter([m[0] for m in mids], [m[1] for m in mids], marker="x", s=34, color=COLOURS["depth"], lw=1.4,
+                   zorder=5, label=f"mid-gap depth {-mids[0][1]:.3g} mm (shared meniscus)").set_gid("mid-gap")
+    top = max(zc + R, 0.0) + 0.35 * lc
+    if zoom:  # close-up of the row, still to scale
+        half = max(float(cx[-1]) + 2.0 * R, 0.2 * lc)
+        X = half
+        bottom, top = zc - 0.6 * half, zc + 0.6 * half
+        if gaps:
+            bottom = min(bottom, low - 0.15 * half)
+        ax.plot([-X, xs[0]], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(-0.97 * X, low - 0.02 * X, f"lowest point: depth {depth:.3g} mm", color=COLOURS["depth"],
+                fontsize=10, va="top", ha="left", zorder=6)
+    else:
+        xd = -X * 0.85
+        ax.annotate("", xy=(xd, low), xytext=(xd, 0.0),
+                    arrowprops={"arrowstyle": "<->", "color": COLOURS["depth"], "lw": 1.2}, zorder=5)
+        ax.plot([xd, xs[0]], [low, low], color=COLOURS["depth"], lw=0.8, ls=":", zorder=5)
+        ax.text(xd + 0.03 * X, 0.5 * low, f"depth {depth:.3g} mm", color=COLOURS["depth"], fontsize=10,
+                va="center", ha="left", zorder=6)
+        _legend_below(ax)
+    ax.set_xlim(-X, X)
+    ax.set_ylim(min(bottom, low - 0.1 * lc) if not zoom else bottom, top)
+    ax.set_aspect("equal")
+    ax.set_xlabel("horizontal distance from the middle of the row [mm]")
+    ax.set_ylabel(SECTION_YLABEL)
+    ax.set_title(f"Close-up of the {n} rods at the limit (to scale)" if zoom else
+                 f"Row of {n} rods: shared menisci at the limit load (to scale)", fontsize=11, loc="left")
     _style(ax)
     return ax
 
