@@ -472,7 +472,7 @@ def bending_shape(result: Any, ax=None):
     ax.scatter([x[0]], [z[0]], marker="s", s=60, color=COLOURS["solid_edge"], zorder=5, label="clamp")
     ax.set_xlabel("distance from the clamp [mm]")
     ax.set_ylabel("height of the leg [mm]\n(vertical scale enlarged)")
-    ax.set_title(f"Flexible leg at the limit: tip depth {result.tip_depth.to('mm').magnitude:.3g} mm, "
+    ax.set_title(f"Flexible leg bending at the limit: tip depth {result.tip_depth.to('mm').magnitude:.3g} mm, "
                  f"tip deflection {tip_deflection(s) * 1e3:.3g} mm", fontsize=11, loc="left")
     _legend_below(ax, ncols=2)
     _style(ax)
