@@ -162,7 +162,7 @@ def write_pdf(design, result, target: Any, *, tables=None, compared=(), date: st
 
     # 2. Plan view and progressive failure
     fig = pages.new(HEADINGS[1])
-    plotting.plan_view(result, ax=fig.add_axes([0.1, 0.5, 0.82, 0.42]))
+    plotting.plan_view(result, ax=fig.add_axes([0.1, 0.5, 0.74, 0.42]))  # colour bar on the right
     plotting.failure_steps(result, ax=fig.add_axes([0.11, 0.08, 0.82, 0.26]))
     fig.text(0.07, 0.405, "Element colours: carrying / near its limit (utilisation ≥ 90 %) / broken through. "
              "Numbers: the element rows on page 1.", fontsize=8.5)

@@ -400,7 +400,9 @@ def figure(kind: str, key: str, extra: str = "") -> bytes:
     hit = solver.cached(key)
     r = hit
     if kind == "plan":
-        return pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70)
+        from .drawings import plan_png
+
+        return plan_png(r)
     if kind == "steps":
         return pl.figure_png(pl.failure_steps, size=(9.0, 4.2), device_result=r)
     if kind == "sweep":
