@@ -14,7 +14,9 @@ Figures (seconds, medians over distinct new values so that every change misses t
 * ``page_rerun_cached_s``           the same changes again (every solve and drawing cached)
 * ``page_rerun_view_switch_s``      switch the drawing (no solve)
 * ``plan_png_tight_s``              the plan view PNG laid out by ``bbox_inches="tight"`` (baseline)
-* ``plan_png_margins_s``            the plan view PNG as the page draws it (fixed margins, trimmed)
+* ``plan_png_margins_s``            the plan view PNG on a new figure, fixed margins, trimmed
+* ``plan_png_kept_s``               the plan view PNG as the page draws it after a change (the
+                                    kept figure of that geometry, solved parts redrawn)
 
 Run: ``python tests/benchmarks/run.py`` (all benchmarks) or ``python tests/benchmarks/bench_page.py``.
 """
@@ -71,13 +73,21 @@ def run(quick: bool = False) -> dict:
         api.append(time.perf_counter() - t)
 
     from floatcalc import plotting as pl
+    from floatcalc.page import drawings
 
-    r = solve_device(design_from_data(copy.deepcopy(base)), placement=False)
-    tight, margins = [], []
-    for _ in range(n):  # interleaved, so that both see the same machine load
+    rs = []
+    for i in range(n + 1):
+        data = copy.deepcopy(base)
+        data["body"]["mass"] = f"{1.07 + 0.01 * (2 * n + i + 1):.2f} g"
+        rs.append(solve_device(design_from_data(data), placement=False))
+    drawings.clear()
+    drawings.plan_png(rs[0])
+    tight, margins, kept = [], [], []
+    for r in rs[1:]:  # interleaved, so that all three see the same machine load
         tight.append(_timed(lambda: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70)))
         margins.append(_timed(lambda: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70,
                                                     margins=pl.PLAN_MARGINS)))
+        kept.append(_timed(lambda: drawings.plan_png(r)))
 
     med = statistics.median
     out = {
@@ -88,6 +98,7 @@ def run(quick: bool = False) -> dict:
         "page_rerun_view_switch_s": med(switch),
         "plan_png_tight_s": med(tight),
         "plan_png_margins_s": med(margins),
+        "plan_png_kept_s": med(kept),
         "changes_measured": n,
     }
     out["page_overhead_s"] = out["page_rerun_change_s"] - out["api_solve_device_s"]
