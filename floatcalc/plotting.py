@@ -365,7 +365,7 @@ def _row_section(result: Any, ax, extent_lc: float, zoom: bool):
     ax.set_ylim(min(bottom, low - 0.1 * lc) if not zoom else bottom, top)
     ax.set_aspect("equal")
     ax.set_xlabel("horizontal distance from the middle of the row [mm]")
-    ax.set_ylabel(SECTION_YLABEL)
+    ax.set_ylabel("height [mm]" if zoom else SECTION_YLABEL)  # a close-up is short
     ax.set_title(f"Close-up of the {n} rods at the limit (to scale)" if zoom else
                  f"Row of {n} rods: shared menisci at the limit load (to scale)", fontsize=11, loc="left")
     _style(ax)
