@@ -511,7 +511,7 @@ def plan_view(device_result: Any, ax=None, grid: int = 100, numbers: bool = True
     mm = 1e3
     pts = np.vstack([m.footprint for m in dev.models])
     lo, hi = pts.min(axis=0) - 1.2 * lc, pts.max(axis=0) + 1.2 * lc
-    patches, dots = [], []
+    patches, dots, labels = [], [], []
     for i, m in enumerate(dev.models):
         fp = m.footprint * mm
         patches.append(ax.add_patch(Polygon(fp, closed=True, lw=3.0, zorder=4, gid="element", label=None)))
@@ -519,8 +519,9 @@ def plan_view(device_result: Any, ax=None, grid: int = 100, numbers: bool = True
         if np.ptp(fp, axis=0).max() < 0.02 * float(np.max(hi - lo)) * mm:  # too small to see at this scale
             dots.append((i, ax.scatter([c[0]], [c[1]], s=60, edgecolor="#222222", lw=0.6, zorder=5)))
         if numbers:
-            ax.text(c[0], c[1], str(i + 1), fontsize=9, ha="center", va="center", zorder=6, color="#111111",
-                    bbox={"boxstyle": "round,pad=0.12", "fc": "white", "ec": "none", "alpha": 0.8})
+            labels.append(ax.text(c[0], c[1], str(i + 1), fontsize=9, ha="center", va="center", zorder=6,
+                                  color="#111111",
+                                  bbox={"boxstyle": "round,pad=0.12", "fc": "white", "ec": "none", "alpha": 0.8}))
     com = ax.scatter([0.0], [0.0], marker="+", s=110, color="#111111", zorder=7)
     com.set_gid("centre of mass")
     pay = ax.scatter([0.0], [0.0], marker="v", s=80, color=COLOURS["load"], zorder=7)
@@ -540,7 +541,7 @@ def plan_view(device_result: Any, ax=None, grid: int = 100, numbers: bool = True
     ax.set_ylabel(PLAN_YLABEL)
     ax.set_title("Plan view: state of each element (to scale)", fontsize=11, loc="left")
     ax._floatcalc_plan = {"geometry": plan_geometry(device_result), "grid": grid, "lo": lo, "hi": hi,
-                          "patches": patches, "dots": dots, "com": com, "payload": pay, "cax": cax,
+                          "patches": patches, "dots": dots, "labels": labels, "com": com, "payload": pay, "cax": cax,
                           "field": None, "scale": None, "legend_payload": None}
     _plan_solved_parts(ax, device_result)
     return ax
@@ -555,6 +556,18 @@ def plan_view_update(ax, device_result: Any) -> bool:
         return False
     _plan_solved_parts(ax, device_result)
     return True
+
+
+def plan_view_layers(ax) -> tuple[list, list]:
+    """(changing, covering) artists of a :func:`plan_view`, for redrawing only the part of the
+    picture a new solve changes: ``changing`` are redrawn by :func:`plan_view_update`, and
+    ``covering`` lie on top of them inside the axes (spines, element numbers); both lists in
+    drawing (z) order. Everything else (titles, ticks, labels, legend) lies outside the axes
+    or under the meniscus field."""
+    st = ax._floatcalc_plan
+    changing = [st["field"], *st["patches"], *[d for _, d in st["dots"]], st["com"], st["payload"], st["cax"]]
+    covering = [*ax.spines.values(), *st["labels"]]
+    return changing, sorted(covering, key=lambda a: a.get_zorder())
 
 
 def _plan_solved_parts(ax, device_result: Any) -> None:
@@ -727,9 +740,10 @@ def new_figure(size=(7.0, 4.2), margins: dict | None = None):
     return fig
 
 
-def trimmed_png(fig, dpi: int = 100, pad: int = 10) -> bytes:
-    """PNG of ``fig`` drawn once at ``dpi``, its blank (white) border trimmed to ``pad`` pixels.
-    The figure keeps its canvas, so drawing it again reuses its tick and text layout."""
+def trimmed_png(fig, dpi: int = 100, pad: int = 10, drawn: bool = False) -> bytes:
+    """PNG of ``fig`` drawn once at ``dpi`` (or as its canvas holds it, ``drawn``), its blank
+    (white) border trimmed to ``pad`` pixels. The figure keeps its canvas, so drawing it again
+    reuses its tick and text layout."""
     import io
 
     from matplotlib.backends.backend_agg import FigureCanvasAgg
@@ -738,7 +752,8 @@ def trimmed_png(fig, dpi: int = 100, pad: int = 10) -> bytes:
     if fig.get_dpi() != dpi:
         fig.set_dpi(dpi)
     canvas = fig.canvas if isinstance(fig.canvas, FigureCanvasAgg) else FigureCanvasAgg(fig)
-    canvas.draw()
+    if not drawn:
+        canvas.draw()
     px = np.asarray(canvas.buffer_rgba())
     ink = np.any(px[..., :3] < 250, axis=2)
     rows, cols = np.flatnonzero(ink.any(axis=1)), np.flatnonzero(ink.any(axis=0))
@@ -755,5 +770,5 @@ PLAN_MARGINS = {"left": 0.09, "right": 0.86, "bottom": 0.17, "top": 0.95}
 
 
 __all__ = ["COLOURS", "VERDICT_COLOURS", "STATE_COLOURS", "safe_text", "meniscus_section", "element_curve",
-           "force_depth", "bending_shape", "tip_deflection", "plan_view", "plan_view_update", "plan_geometry", "failure_steps", "safety_factor_sweep", "comparison_bars",
+           "force_depth", "bending_shape", "tip_deflection", "plan_view", "plan_view_update", "plan_view_layers", "plan_geometry", "failure_steps", "safety_factor_sweep", "comparison_bars",
            "figure_png", "new_figure", "trimmed_png", "PLAN_MARGINS", "SECTION_XLABEL", "SECTION_YLABEL", "DEPTH_LABEL", "FORCE_LABEL"]
