@@ -455,11 +455,12 @@ def tip_deflection(shape: dict) -> float:
     return float(abs((z[-1] - z[0]) - math.tan(a0) * (x[-1] - x[0])))
 
 
-def bending_shape(result: Any, ax=None):
+def bending_shape(result: Any, ax=None, compact: bool = False):
     """Bent shape of a flexible leg at its limit (``FlexLegResult.shape``): depth along the leg,
     the straight line the clamp points along (where a rigid leg would lie), the undisturbed
     surface and the clamp. Not to scale vertically (depths are a few mm over legs of tens of
-    mm); the axes say so. The title gives the tip depth and :func:`tip_deflection`."""
+    mm); the axes say so. The title gives the tip depth and :func:`tip_deflection`; ``compact``
+    (a narrow column, the numbers said beside it) keeps the words short."""
     ax = _axes(ax)
     s = result.shape
     x = np.asarray(s["x_m"]) * 1e3
@@ -467,13 +468,17 @@ def bending_shape(result: Any, ax=None):
     a0 = math.radians(float(np.asarray(s.get("slope_deg", [0.0]))[0]))
     ax.axhline(0.0, color=COLOURS["surface"], lw=1.0, ls=(0, (5, 4)), label="undisturbed surface")
     ax.plot([x[0], x[-1]], [z[0], z[0] - math.tan(a0) * (x[-1] - x[0])], color="#777777", lw=1.0, ls="--",
-            label="straight line from the clamp (a rigid leg)")
+            label="straight from the clamp (rigid)" if compact else "straight line from the clamp (a rigid leg)")
     ax.plot(x, z, color=COLOURS["solid"], lw=2.6, label="leg at the limit load", gid="leg")
     ax.scatter([x[0]], [z[0]], marker="s", s=60, color=COLOURS["solid_edge"], zorder=5, label="clamp")
     ax.set_xlabel("distance from the clamp [mm]")
-    ax.set_ylabel("height of the leg [mm]\n(vertical scale enlarged)")
-    ax.set_title(f"Flexible leg bending at the limit: tip depth {result.tip_depth.to('mm').magnitude:.3g} mm, "
-                 f"tip deflection {tip_deflection(s) * 1e3:.3g} mm", fontsize=11, loc="left")
+    if compact:
+        ax.set_ylabel("height [mm] (scale enlarged)")
+        ax.set_title("One leg bending at its limit", fontsize=11, loc="left")
+    else:
+        ax.set_ylabel("height of the leg [mm]\n(vertical scale enlarged)")
+        ax.set_title(f"Flexible leg bending at the limit: tip depth {result.tip_depth.to('mm').magnitude:.3g} mm, "
+                     f"tip deflection {tip_deflection(s) * 1e3:.3g} mm", fontsize=11, loc="left")
     _legend_below(ax, ncols=2)
     _style(ax)
     return ax

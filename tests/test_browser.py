@@ -122,6 +122,7 @@ def browser(tmp_path_factory):
 def page(server, browser):
     """A new page (a new Streamlit session) on the opening design, settled."""
     pg = browser.new_page()
+    pg.set_default_timeout(90_000)  # a shared machine: widgets stay disabled while a rerun runs
     try:
         pg.goto(server, timeout=90_000)
         pg.get_by_text("Verdict: floats").first.wait_for(timeout=120_000)
@@ -175,7 +176,7 @@ def _save(page, tmp_path, name: str) -> Path:
     saved = tmp_path / name
     for attempt in range(2):
         try:
-            with page.expect_download(timeout=40_000) as dl:
+            with page.expect_download(timeout=90_000) as dl:
                 page.get_by_role("button", name="save this design (TOML)").click()
             dl.value.save_as(saved)
             return saved

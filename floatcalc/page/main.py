@@ -270,12 +270,17 @@ def table_panel(data: dict, i: int, slots: Slots, expanded: bool) -> None:
                 t["layout_spacing"] = text("layout spacing [mm]", str(t.get("layout_spacing", "8 mm")),
                                            k(f"el{i}.lsp"), help="centre-to-centre spacing").strip()
                 slots.add(f"{path}.layout_spacing")
-        cols = st.columns(2)
-        for j, (fname, f) in enumerate(kind.fields.items()):
-            with cols[j % 2]:
-                field_widget(t, fname, f, f"{path}.{fname}", k(f"el{i}.{fname}"), slots)
-        with cols[len(kind.fields) % 2]:
-            field_widget(t, "mount", kind.all_fields["mount"], f"{path}.mount", k(f"el{i}.mount"), slots)
+        # two fields a row; a field's problem shows under its row, as wide as the panel (a
+        # half column would break the key path of the message mid-word)
+        items = [*kind.fields.items(), ("mount", kind.all_fields["mount"])]
+        for j in range(0, len(items), 2):
+            pair = items[j:j + 2]
+            cols = st.columns(2)
+            for col, (fname, f) in zip(cols, pair):
+                with col:
+                    field_widget(t, fname, f, f"{path}.{fname}", k(f"el{i}.{fname}"), slots, slot=False)
+            for fname, _ in pair:
+                slots.add(f"{path}.{fname}")
         if kind.name == "flexible_leg":
             slots.drawings[i] = st.empty()
         m1, m2 = st.columns([1, 1.6])
@@ -362,7 +367,7 @@ def table_drawings(design, slots: Slots) -> None:
             hit = solver.cached(key)
             if hit is None:  # the solve goes through the worker (budget); the drawing here
                 res = solver.solve_element(kind, p, design.liquid, budget=10.0)
-                png = pl.figure_png(pl.bending_shape, size=(7.0, 3.6), dpi=90, result=res)
+                png = pl.figure_png(pl.bending_shape, size=(4.6, 3.3), dpi=110, result=res, compact=True)
                 words = (f"bending of one leg alone at its limit load: tip deflection "
                          f"{pl.tip_deflection(res.shape) * 1e3:.3g} mm from the clamp's straight line, "
                          f"tip depth {res.tip_depth.to('mm').magnitude:.3g} mm, clamp depth "
@@ -382,7 +387,10 @@ def elements_table_panel(r) -> None:
     for j, row in enumerate(rows, 1):
         row["no."] = j
     st.dataframe(rows, hide_index=True, width="stretch", height=min(38 + 35 * len(rows), 360),
-                 column_order=["no.", *[c for c in rows[0] if c != "no."]] if rows else None)
+                 column_order=["no.", *[c for c in rows[0] if c != "no."]] if rows else None,
+                 column_config={"element": st.column_config.TextColumn(width="medium"),
+                                "kind": st.column_config.TextColumn(width="small" if all(
+                                    len(r["kind"]) <= 6 for r in rows) else "medium")})
 
 
 def notes_panel(r) -> None:
