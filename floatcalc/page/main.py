@@ -388,9 +388,15 @@ def elements_table_panel(r) -> None:
         row["no."] = j
     st.dataframe(rows, hide_index=True, width="stretch", height=min(38 + 35 * len(rows), 360),
                  column_order=["no.", *[c for c in rows[0] if c != "no."]] if rows else None,
-                 column_config={"element": st.column_config.TextColumn(width="medium"),
-                                "kind": st.column_config.TextColumn(width="small" if all(
-                                    len(r["kind"]) <= 6 for r in rows) else "medium")})
+                 column_config={c: st.column_config.TextColumn(width=_text_width([str(r[c]) for r in rows], c))
+                                for c in ("element", "kind")} if rows else None)
+
+
+def _text_width(cells: list[str], head: str) -> int:
+    """Column width [px] for the longest of ``cells`` (and the header) at the table's font,
+    within 60–220 px (the rest of the row keeps its room at 1280 px)."""
+    n = max([len(head), *map(len, cells)])
+    return int(min(max(7.6 * n + 26, 60), 220))
 
 
 def notes_panel(r) -> None:
