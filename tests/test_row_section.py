@@ -89,7 +89,7 @@ def test_rod_row_drawing_shows_every_rod_and_contact_and_the_pdf_uses_it(monkeyp
     for zoom in (False, True):
         ax = plotting.meniscus_section(r, zoom=zoom)
         assert sum(1 for a in ax.patches if a.get_gid() == "solid") == 3
-        pts = [c for c in ax.collections if c.get_gid() == "contact points"][0]
+        pts = next(c for c in ax.collections if c.get_gid() == "contact points")
         assert len(pts.get_offsets()) == 6
         assert sum(1 for ln in ax.lines if ln.get_gid() == "shared meniscus") == 2
         assert ax.get_aspect() == 1.0

@@ -84,10 +84,10 @@ def run(quick: bool = False) -> dict:
     drawings.plan_png(rs[0])
     tight, margins, kept = [], [], []
     for r in rs[1:]:  # interleaved, so that all three see the same machine load
-        tight.append(_timed(lambda: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70)))
-        margins.append(_timed(lambda: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70,
+        tight.append(_timed(lambda r=r: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70)))
+        margins.append(_timed(lambda r=r: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70,
                                                     margins=pl.PLAN_MARGINS)))
-        kept.append(_timed(lambda: drawings.plan_png(r)))
+        kept.append(_timed(lambda r=r: drawings.plan_png(r)))
 
     med = statistics.median
     out = {
