@@ -1,4 +1,4 @@
-"""The page in a real headless Chromium, one flow per test of issue 13's "Done when":
+"""The page in a real headless Chromium, one flow for each of issue 13's "Done when" items:
 
 * the opening page reacts to an input, saves a design that loads in Python and in
   ``floatcalc device``, and after a bad value keeps the last results, marked not current, with
@@ -9,8 +9,9 @@
 * the classroom surface-tension slider changes the verdict;
 * the flexible-leg panel draws a bent leg.
 
-One ``streamlit run app.py`` on 127.0.0.1 at a free port serves every test of this module (one
-server start; each test opens its own page, so its own session). The page is driven with
+One ``streamlit run app.py`` on 127.0.0.1 at a free port serves all flows, in one test (one
+server start, also when pytest-xdist splits the suite over processes; each flow opens its own
+page, so its own session, and the failures of every flow are reported). The page is driven with
 Playwright's Python API on the Debian Chromium at /usr/bin/chromium (never a downloaded
 browser); the server is always stopped.
 """
@@ -95,22 +96,22 @@ def stop_server(proc, log) -> None:
     log.close()
 
 
-@pytest.fixture(scope="module")
-def server(tmp_path_factory):
-    proc, url, log = start_server(tmp_path_factory.mktemp("streamlit") / "streamlit.log")
+@pytest.fixture()
+def server(tmp_path):
+    proc, url, log = start_server(tmp_path / "streamlit.log")
     try:
         yield url
     finally:
         stop_server(proc, log)
 
 
-@pytest.fixture(scope="module")
-def browser(tmp_path_factory):
+@pytest.fixture()
+def browser(tmp_path):
     from playwright.sync_api import sync_playwright
 
     with sync_playwright() as p:
         ctx = p.chromium.launch_persistent_context(
-            user_data_dir=str(tmp_path_factory.mktemp("chromium-profile")), executable_path=CHROMIUM,
+            user_data_dir=str(tmp_path / "chromium-profile"), executable_path=CHROMIUM,
             headless=True, args=FLAGS, viewport={"width": 1280, "height": 800}, accept_downloads=True)
         try:
             yield ctx
@@ -118,18 +119,14 @@ def browser(tmp_path_factory):
             ctx.close()
 
 
-@pytest.fixture()
-def page(server, browser):
+def open_page(server: str, browser):
     """A new page (a new Streamlit session) on the opening design, settled."""
     pg = browser.new_page()
     pg.set_default_timeout(90_000)  # a shared machine: widgets stay disabled while a rerun runs
-    try:
-        pg.goto(server, timeout=90_000)
-        pg.get_by_text("Verdict: floats").first.wait_for(timeout=120_000)
-        settle(pg)
-        yield pg
-    finally:
-        pg.close()
+    pg.goto(server, timeout=90_000)
+    pg.get_by_text("Verdict: floats").first.wait_for(timeout=120_000)
+    settle(pg)
+    return pg
 
 
 def settle(page) -> None:
@@ -217,7 +214,7 @@ def _upload(page, path: Path, description: str) -> None:
     settle(page)
 
 
-def test_page_in_chromium_reacts_saves_and_keeps_results_after_a_bad_value(page, tmp_path):
+def flow_opening_page_reacts_saves_and_keeps_results_after_a_bad_value(page, tmp_path):
     page.get_by_text("twelve-leg surface skimmer").first.wait_for(timeout=30_000)
     before = _capacity(page)
     field = _enter(page, "radius [mm]", "0.25 mm")
@@ -285,7 +282,7 @@ coating = { advancing = "115 deg", receding = "95 deg" }
 FEET = {"foot A": ("12 mm", "0 mm"), "foot B": ("-6 mm", "10 mm"), "foot C": ("-6 mm", "-10 mm")}
 
 
-def test_mixed_design_upload_edit_one_ball_foot_save_and_load_in_floatcalc_device(page, tmp_path):
+def flow_mixed_design_upload_edit_one_ball_foot_save_and_load_in_floatcalc_device(page, tmp_path):
     text = MIXED + "".join(f"""
 [[elements]]
 kind = "ball"
@@ -322,7 +319,7 @@ coating = {{ advancing = "115 deg", receding = "95 deg" }}
     assert {e["name"] for e in out["elements"]} == {"legs 1", "legs 2", *FEET}
 
 
-def test_classroom_slider_changes_the_verdict(page):
+def flow_classroom_slider_changes_the_verdict(page, tmp_path):
     _choose(page, "built-in examples (all invented)", "classroom")
     page.get_by_role("button", name="load this example").click()
     page.get_by_text("darning needle").first.wait_for(timeout=60_000)
@@ -382,7 +379,7 @@ coating = { advancing = "115 deg", receding = "95 deg" }
 """
 
 
-def test_flexible_leg_panel_draws_a_bent_leg(page, tmp_path):
+def flow_flexible_leg_panel_draws_a_bent_leg(page, tmp_path):
     src = tmp_path / "flex.toml"
     src.write_text(FLEX)
     _upload(page, src, "Invented test design: a 0.4 g body on four flexible steel wire legs")
@@ -398,3 +395,32 @@ def test_flexible_leg_panel_draws_a_bent_leg(page, tmp_path):
     # Euler–Bernoulli, the deflection is nonzero for any nonzero load (Hetényi 1946)
     d = float(words.split("tip deflection ")[1].split(" mm")[0])
     assert d > 0.0, words
+
+
+FLOWS = [flow_opening_page_reacts_saves_and_keeps_results_after_a_bad_value,
+         flow_mixed_design_upload_edit_one_ball_foot_save_and_load_in_floatcalc_device,
+         flow_classroom_slider_changes_the_verdict,
+         flow_flexible_leg_panel_draws_a_bent_leg]
+
+
+def test_issue_13_flows_in_chromium(server, browser, tmp_path):
+    """Every flow above, each on its own page (its own session) of one server: one server
+    start however the suite is split over processes. Every flow runs; the failures of all are
+    reported together (with a screenshot of each failing page)."""
+    failures = []
+    for flow in FLOWS:
+        where = tmp_path / flow.__name__
+        where.mkdir()
+        page = open_page(server, browser)
+        try:
+            flow(page, where)
+        except Exception as exc:  # noqa: BLE001 - collected, reported below with the others
+            shot = where / "failure.png"
+            try:
+                page.screenshot(path=str(shot), full_page=True)
+            except Exception:  # noqa: BLE001 - the screenshot is a help, not the check
+                shot = None
+            failures.append(f"{flow.__name__}: {type(exc).__name__}: {exc} (screenshot: {shot})")
+        finally:
+            page.close()
+    assert not failures, "\n".join(failures)
