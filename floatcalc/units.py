@@ -488,6 +488,25 @@ def to_si(value: Any, kind: str, field: str, *, array: bool = False) -> Any:
     """
     if kind not in KINDS:  # programming error, not user input
         raise KeyError(kind)
+    if isinstance(value, str) and not array:
+        hit = _TEXT_SI.get((value, kind))
+        if hit is not None:  # text converted before (a page rerun validates every field again)
+            return hit
+        out = _to_si(value, kind, field, array)
+        if len(_TEXT_SI) >= _TEXT_SI_MAX:
+            _TEXT_SI.clear()
+        _TEXT_SI[(value, kind)] = out
+        return out
+    return _to_si(value, kind, field, array)
+
+
+#: Text values already converted by :func:`to_si`, by (text, kind): the result of a text does
+#: not depend on the field's name (only its error messages do, and errors are never stored).
+_TEXT_SI: dict = {}
+_TEXT_SI_MAX = 4096
+
+
+def _to_si(value: Any, kind: str, field: str, array: bool) -> Any:
     dim, si_unit, example = KINDS[kind]
     if isinstance(value, str):
         q = _parse_string(value, kind, field)

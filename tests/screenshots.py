@@ -15,7 +15,8 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent))
 
-from test_browser import CHROMIUM, FLAGS, settle, start_server, stop_server  # noqa: E402
+from test_browser import (CHROMIUM, FEET, FLAGS, FLEX, MIXED, _choose, _enter, settle, start_server,  # noqa: E402
+                          stop_server)
 
 OUT = HERE.parent / "artifacts"
 
@@ -33,9 +34,49 @@ def _shot(page, name: str, anchor: str | None = None, exact: bool = True) -> Non
 
 
 def _load_example(page, name: str) -> None:
-    page.get_by_role("combobox", name="built-in examples (all invented)").first.click()
-    page.get_by_role("option", name=name, exact=True).first.click()
+    _choose(page, "built-in examples (all invented)", name)
     page.get_by_role("button", name="load this example").click()
+    settle(page)
+
+
+ROW = """# Invented design for the screenshots (not a real device)
+schema_version = 2
+description = "Invented: a raft on a row of three rods and two flexible wire legs"
+invented = true
+
+[body]
+mass = "0.6 g"
+
+[[elements]]
+kind = "rod_row"
+name = "raft rods"
+position = ["0 mm", "0 mm"]
+radius = "0.25 mm"
+length = "40 mm"
+rods = 3
+spacing = "1.2 mm"
+material = "steel"
+coating = { advancing = "115 deg", receding = "95 deg" }
+
+[[elements]]
+kind = "flexible_leg"
+name = "wire leg"
+count = 2
+layout = "around"
+layout_radius = "12 mm"
+start_angle = "90 deg"
+radius = "0.1 mm"
+length = "30 mm"
+material = "steel"
+coating = { advancing = "115 deg", receding = "95 deg" }
+"""
+
+
+def _upload(page, text: str, name: str) -> None:
+    path = OUT / name
+    path.write_text(text)
+    page.locator('[data-testid="stFileUploader"] input[type="file"]').set_input_files(str(path))
+    page.wait_for_timeout(1000)
     settle(page)
 
 
@@ -86,6 +127,35 @@ def main() -> None:
                 slider.press("ArrowLeft")
             settle(page)
             _shot(page, "11_classroom", "Classroom: soap and surface tension")
+            # a mixed design: rods and ball feet, one foot's table open for editing
+            mixed = MIXED + "".join(f"""
+[[elements]]
+kind = "ball"
+name = "{n}"
+position = ["{x}", "{y}"]
+radius = "0.5 mm"
+material = "steel"
+coating = {{ advancing = "115 deg", receding = "95 deg" }}
+""" for n, (x, y) in FEET.items())
+            _upload(page, mixed, "shot_mixed.toml")
+            _choose(page, "table to edit (4 tables)", "table 3: 1 ball foot — foot B")
+            settle(page)
+            _shot(page, "12_mixed_ball_foot", "Support elements")
+            _enter(page, "radius [mm]", "-0.6 mm")
+            page.get_by_text("Not current").first.wait_for(timeout=60_000)
+            settle(page)
+            _shot(page, "13_bad_value_field", "Support elements")
+            _shot(page, "14_bad_value_results", "Results")
+            _upload(page, FLEX, "shot_flex.toml")
+            page.get_by_text("bending of one leg alone at its limit load").first.wait_for(timeout=120_000)
+            _shot(page, "15_flexible_leg", "bending of one leg alone at its limit load", exact=False)
+            _upload(page, ROW, "shot_row.toml")
+            _drawing(page, "element tables")
+            _shot(page, "16_rod_row_section", "Drawings")
+            page.mouse.move(800, 400)
+            page.mouse.wheel(0, 500)
+            page.wait_for_timeout(600)
+            _shot(page, "17_rod_row_close_up")
             ctx.close()
     finally:
         stop_server(proc, log)

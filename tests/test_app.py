@@ -234,3 +234,21 @@ def test_an_older_file_is_read_through_the_one_reader_with_its_note_shown():
     _ok(at)
     assert any(d.notes[0][:30].replace(" ", "") in i.value.replace("\\", "").replace(" ", "") for i in at.info)
     assert _verdict(at).startswith("Verdict: " + solve_device(d).verdict)
+
+
+def test_a_table_added_to_many_is_the_one_shown_for_editing():
+    """With more tables than are shown at once (the skimmer's twelve), the table just added is
+    the one opened for editing, not the first."""
+    at = _app()
+    at.selectbox(key="new_kind").set_value("ball").run()
+    ver = at.session_state["ver"]
+    at.button(key=f"add@{ver}").click().run()
+    _ok(at)
+    ver = at.session_state["ver"]
+    assert at.selectbox(key=f"edit_table@{ver}").value == 12
+    labels = [e.label.replace("\\", "") for e in at.expander]
+    assert any(lb.startswith("table 13: 4 ball feet") for lb in labels), labels
+    at.button(key=f"el12.dup@{ver}").click().run()  # a copy: shown next
+    _ok(at)
+    ver = at.session_state["ver"]
+    assert at.selectbox(key=f"edit_table@{ver}").value == 13

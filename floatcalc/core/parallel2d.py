@@ -194,3 +194,66 @@ def row_limit(R: float, theta: float, S: float, N: int):
     return {"force": float(fine["force"][k]), "depth": float(fine["depth"][k]),
             "phi_outer": float(fine["phi_outer"][k]), "phi_inner": float(fine["phi_inner"][k]),
             "h_mid": float(fine["h_mid"][k])}
+
+
+def row_profile(R: float, theta: float, S: float, N: int, extent: float = 3.0, n: int = 160, lim=None):
+    """Cross-section of a level row of N rods at its limit, for drawing: rod centres, the outer
+    menisci and the shared meniscus of every gap, in capillary lengths.
+
+    Coordinates: row centre at x = 0, undisturbed surface at z = 0, z up (z = −h). The state is
+    that of :func:`row_limit`. Outer sides follow the closed-form free meniscus
+    (:func:`floatcalc.core.rod2d.free_meniscus`). Each gap is drawn from the first integral, as
+    a function of the inclination ψ from the contact value ψ_i down to 0 at mid-gap:
+
+    .. math:: h(\\psi) = \\pm\\sqrt{h_m^2 + 4\\sin^2(\\psi/2)},\\qquad
+              x(\\psi) = x_{mid} \\mp X(\\psi, |h_m|)
+
+    (:func:`gap_distance`), mirrored about mid-gap. For N = 1 this is the single-rod profile of
+    :func:`floatcalc.core.rod2d.profile`.
+
+    Returns
+    -------
+    dict with ``centres_x`` (N,), ``centre_z``, ``outer_right`` and ``outer_left`` ((x, z) of
+    each outer meniscus), ``gaps`` (list of N − 1 (x, z) arrays, left contact to right contact),
+    ``contacts`` ((x, z) arrays of all 2N contact points, left to right), ``phi_outer``,
+    ``phi_inner`` (contact positions [rad]), ``psi_outer``, ``psi_inner``, ``h_mid``
+    (signed turning-point depth, NaN for N = 1), ``depth`` (of the lowest point) [l_c].
+    ``lim`` may pass the :func:`row_limit` of the same row (not solved again).
+
+    >>> p = row_profile(0.1, np.radians(120), 1.0, 3)
+    >>> len(p["gaps"]), p["contacts"][0].size
+    (2, 6)
+    """
+    lim = row_limit(R, theta, S, N) if lim is None else lim
+    c = lim["depth"] - R  # centre depth below the surface
+    po, pi_ = lim["phi_outer"], lim["phi_inner"] if N > 1 else lim["phi_outer"]
+    psi_o, psi_i = po + theta - PI, pi_ + theta - PI
+    xs = (np.arange(N) - 0.5 * (N - 1)) * S
+    x0 = xs[-1] + R * np.sin(po)
+    xr, zr = rod2d.free_meniscus(psi_o, x0, extent=extent, n=n)
+    gaps = []
+    hm = lim["h_mid"]
+    if N > 1:
+        sign = 1.0 if psi_i >= 0 else -1.0
+        a = abs(psi_i)
+        psi = np.linspace(a, 0.0, n)
+        half = gap_distance(psi, abs(hm)) if a > 0 else np.zeros(n)
+        h = sign * np.sqrt(hm * hm + 4.0 * np.sin(0.5 * psi) ** 2)
+        for k in range(N - 1):
+            xm = 0.5 * (xs[k] + xs[k + 1])
+            gx = np.concatenate([xm - half, (xm + half[::-1])[1:]])
+            gz = np.concatenate([-h, -h[::-1][1:]])
+            gaps.append((gx, gz))
+    cx, cz = [], []
+    for k, x in enumerate(xs):
+        left = po if k == 0 else pi_
+        right = po if k == N - 1 else pi_
+        cx += [x - R * np.sin(left), x + R * np.sin(right)]
+        cz += [-(c + R * np.cos(left)), -(c + R * np.cos(right))]
+    return {
+        "centres_x": xs, "centre_z": -c,
+        "outer_right": (xr, zr), "outer_left": (-xr, zr),
+        "gaps": gaps, "contacts": (np.array(cx), np.array(cz)),
+        "phi_outer": po, "phi_inner": pi_, "psi_outer": psi_o, "psi_inner": psi_i,
+        "h_mid": hm, "depth": lim["depth"],
+    }

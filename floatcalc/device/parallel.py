@@ -44,6 +44,7 @@ class ParallelRodsResult(Result):
     own_weight: Any = qfield("N")
     payload: Any = qfield("N")
     payload_mass: Any = qfield("kg")
+    profile: dict | None = field(default=None, json=False)
     liquid: Liquid | None = field(default=None, json=False)
     warnings: tuple[str, ...] = field(default=())
     cautions: tuple[str, ...] = field(default=())
@@ -126,7 +127,14 @@ def parallel_rods(radius: Any, length: Any, contact_angle: Any, count: int, spac
     perimeter = n * (2.0 * L + 4.0 * R * math.sin(lim["phi_outer"]))
     from ..dimensionless import baudoin
 
-    return ParallelRodsResult(
+    prof = parallel2d.row_profile(R / lc, th, S / lc, n, lim=lim)
+    m = lambda xz: (xz[0] * lc, xz[1] * lc)  # noqa: E731 - [l_c] -> [m]
+    profile = {"body": "rod row", "radius_m": R, "centre_z_m": prof["centre_z"] * lc,
+               "centres_x_m": prof["centres_x"] * lc, "outer_right_m": m(prof["outer_right"]),
+               "outer_left_m": m(prof["outer_left"]), "gaps_m": [m(g) for g in prof["gaps"]],
+               "contacts_m": m(prof["contacts"]), "phi_outer": prof["phi_outer"], "phi_inner": prof["phi_inner"],
+               "depth_m": prof["depth"] * lc}
+    return ParallelRodsResult(profile=profile,
         surface_tension_part=Q_(st_part, "N"), pressure_part=Q_(total - st_part, "N"),
         contact_perimeter=Q_(perimeter, "m"), bond_number=(R / lc) ** 2, bond_length=Q_(R, "m"),
         baudoin_number=baudoin(weight, s, perimeter), liquid=liq,

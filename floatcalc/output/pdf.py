@@ -162,7 +162,7 @@ def write_pdf(design, result, target: Any, *, tables=None, compared=(), date: st
 
     # 2. Plan view and progressive failure
     fig = pages.new(HEADINGS[1])
-    plotting.plan_view(result, ax=fig.add_axes([0.1, 0.5, 0.82, 0.42]))
+    plotting.plan_view(result, ax=fig.add_axes([0.1, 0.5, 0.74, 0.42]))  # colour bar on the right
     plotting.failure_steps(result, ax=fig.add_axes([0.11, 0.08, 0.82, 0.26]))
     fig.text(0.07, 0.405, "Element colours: carrying / near its limit (utilisation ≥ 90 %) / broken through. "
              "Numbers: the element rows on page 1.", fontsize=8.5)
@@ -181,14 +181,20 @@ def write_pdf(design, result, target: Any, *, tables=None, compared=(), date: st
         first = next((e for e in result.elements if e.name == t.params.get("name")), None)
         if first is not None:
             load = first.force
-        if res is not None and getattr(res, "profile", None):
+        if res is not None and (getattr(res, "profile", None) or {}).get("body") == "rod row":
+            # a row's rods are small beside its outer menisci: the section and a close-up
+            plotting.meniscus_section(res, ax=fig.add_axes([0.12, 0.67, 0.8, 0.23]))
+            plotting.meniscus_section(res, ax=fig.add_axes([0.22, 0.42, 0.6, 0.14]), zoom=True)
+        elif res is not None and getattr(res, "profile", None):
             plotting.meniscus_section(res, ax=fig.add_axes([0.12, 0.62, 0.8, 0.28]))
         elif res is not None and isinstance(getattr(res, "shape", None), dict):
             plotting.bending_shape(res, ax=fig.add_axes([0.12, 0.6, 0.8, 0.28]))
         else:
             fig.text(0.07, 0.75, "no cross-section drawing for this kind", fontsize=9, color="#555555")
         if res is not None or t.model is not None:
-            plotting.force_depth(res, model=t.model, load=load, ax=fig.add_axes([0.12, 0.13, 0.8, 0.33]))
+            box = [0.12, 0.125, 0.8, 0.225] if "rod row" in str((getattr(res, "profile", None) or {}).get("body")) else \
+                [0.12, 0.13, 0.8, 0.33]
+            plotting.force_depth(res, model=t.model, load=load, ax=fig.add_axes(box))
         fig.text(0.07, 0.08, _plain(f"model: {t.model.model_name}" if t.model is not None else ""), fontsize=8)
 
     # 4. comparison

@@ -104,8 +104,16 @@ def new_table(kind_name: str, base: dict | None = None) -> dict:
     return t
 
 
+def _show_table(i: int) -> None:
+    """With one table edited at a time (more than :data:`ALL_TABLES_SHOWN`), edit table ``i``
+    next (a table just added or duplicated is shown, not the first one)."""
+    if len(_ss().data.get("elements", [])) > ALL_TABLES_SHOWN:
+        _ss()[k("edit_table")] = i
+
+
 def _add_table() -> None:
     _edit(lambda d: d.setdefault("elements", []).append(new_table(_ss().get("new_kind", "rod"))))
+    _show_table(len(_ss().data["elements"]) - 1)
 
 
 def _dup_table(i: int) -> None:
@@ -114,6 +122,7 @@ def _dup_table(i: int) -> None:
         t["name"] = (t.get("name") or "table") + " copy"
         d["elements"].insert(i + 1, t)
     _edit(f)
+    _show_table(i + 1)
 
 
 def _remove_table(i: int) -> None:
@@ -261,12 +270,17 @@ def table_panel(data: dict, i: int, slots: Slots, expanded: bool) -> None:
                 t["layout_spacing"] = text("layout spacing [mm]", str(t.get("layout_spacing", "8 mm")),
                                            k(f"el{i}.lsp"), help="centre-to-centre spacing").strip()
                 slots.add(f"{path}.layout_spacing")
-        cols = st.columns(2)
-        for j, (fname, f) in enumerate(kind.fields.items()):
-            with cols[j % 2]:
-                field_widget(t, fname, f, f"{path}.{fname}", k(f"el{i}.{fname}"), slots)
-        with cols[len(kind.fields) % 2]:
-            field_widget(t, "mount", kind.all_fields["mount"], f"{path}.mount", k(f"el{i}.mount"), slots)
+        # two fields a row; a field's problem shows under its row, as wide as the panel (a
+        # half column would break the key path of the message mid-word)
+        items = [*kind.fields.items(), ("mount", kind.all_fields["mount"])]
+        for j in range(0, len(items), 2):
+            pair = items[j:j + 2]
+            cols = st.columns(2)
+            for col, (fname, f) in zip(cols, pair):
+                with col:
+                    field_widget(t, fname, f, f"{path}.{fname}", k(f"el{i}.{fname}"), slots, slot=False)
+            for fname, _ in pair:
+                slots.add(f"{path}.{fname}")
         if kind.name == "flexible_leg":
             slots.drawings[i] = st.empty()
         m1, m2 = st.columns([1, 1.6])
@@ -350,11 +364,16 @@ def table_drawings(design, slots: Slots) -> None:
         kind = get_kind(p["kind"])
         key = "bendpng:" + signature(p, design.liquid)
         try:
-            png = solver.cached(key)
-            if png is None:  # the solve goes through the worker (budget); the drawing here
+            hit = solver.cached(key)
+            if hit is None:  # the solve goes through the worker (budget); the drawing here
                 res = solver.solve_element(kind, p, design.liquid, budget=10.0)
-                png = solver.remember(key, pl.figure_png(pl.bending_shape, size=(6.0, 3.2), dpi=90, result=res))
-            ph.image(png, caption="bending of one leg alone at its limit load", width="stretch")
+                png = pl.figure_png(pl.bending_shape, size=(4.6, 3.3), dpi=110, result=res, compact=True)
+                words = (f"bending of one leg alone at its limit load: tip deflection "
+                         f"{pl.tip_deflection(res.shape) * 1e3:.3g} mm from the clamp's straight line, "
+                         f"tip depth {res.tip_depth.to('mm').magnitude:.3g} mm, clamp depth "
+                         f"{res.clamp_depth_at_max.to('mm').magnitude:.3g} mm")
+                hit = solver.remember(key, (png, words))
+            ph.image(hit[0], caption=hit[1], width="stretch")
         except solver.SolveTimeout:
             ph.caption("bending drawing: still solving")
         except (InputError, ConvergenceError) as exc:
@@ -368,7 +387,16 @@ def elements_table_panel(r) -> None:
     for j, row in enumerate(rows, 1):
         row["no."] = j
     st.dataframe(rows, hide_index=True, width="stretch", height=min(38 + 35 * len(rows), 360),
-                 column_order=["no.", *[c for c in rows[0] if c != "no."]] if rows else None)
+                 column_order=["no.", *[c for c in rows[0] if c != "no."]] if rows else None,
+                 column_config={c: st.column_config.TextColumn(width=_text_width([str(r[c]) for r in rows], c))
+                                for c in ("element", "kind")} if rows else None)
+
+
+def _text_width(cells: list[str], head: str) -> int:
+    """Column width [px] for the longest of ``cells`` (and the header) at the table's font,
+    within 60–220 px (the rest of the row keeps its room at 1280 px)."""
+    n = max([len(head), *map(len, cells)])
+    return int(min(max(7.6 * n + 26, 60), 220))
 
 
 def notes_panel(r) -> None:
@@ -386,7 +414,9 @@ def figure(kind: str, key: str, extra: str = "") -> bytes:
     hit = solver.cached(key)
     r = hit
     if kind == "plan":
-        return pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70)
+        from .drawings import plan_png
+
+        return plan_png(r)
     if kind == "steps":
         return pl.figure_png(pl.failure_steps, size=(9.0, 4.2), device_result=r)
     if kind == "sweep":

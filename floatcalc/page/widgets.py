@@ -114,8 +114,9 @@ def label_of(name: str, f) -> str:
     return name.replace("_", " ") + (f" [{f.unit}]" if f.unit else "")
 
 
-def field_widget(table: dict, name: str, f, path: str, key: str, slots: Slots) -> None:
-    """One kind field: read its widget into ``table`` (blank optional fields are left out)."""
+def field_widget(table: dict, name: str, f, path: str, key: str, slots: Slots, slot: bool = True) -> None:
+    """One kind field: read its widget into ``table`` (blank optional fields are left out).
+    Its problem slot goes right under it, or, with ``slot=False``, where the caller adds it."""
     cur = table.get(name)
     helptext = f.help + (f"; e.g. {f.example}" if f.example else "")
     if f.kind == "int":
@@ -141,7 +142,8 @@ def field_widget(table: dict, name: str, f, path: str, key: str, slots: Slots) -
             table.pop(name, None)
             if f.required:
                 table[name] = ""  # the loader says it is required, at this field
-    slots.add(path)
+    if slot:
+        slots.add(path)
 
 
 def material_widget(table: dict, path: str, key: str, slots: Slots) -> None:

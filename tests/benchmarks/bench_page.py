@@ -8,10 +8,15 @@ Figures (seconds, medians over distinct new values so that every change misses t
 
 * ``page_first_load_s``             opening the page (skimmer, results and plan view)
 * ``page_rerun_change_s``           change the body mass to a new value (a new device solve)
-* ``api_solve_device_s``            ``solve_device`` alone for the same changes (baseline)
+* ``api_solve_device_s``            ``solve_device(design, placement=False)`` alone (as the page
+                                    calls it) for the same changes (baseline)
 * ``page_overhead_s``               page_rerun_change_s − api_solve_device_s (widgets, checks, drawing)
 * ``page_rerun_cached_s``           the same changes again (every solve and drawing cached)
 * ``page_rerun_view_switch_s``      switch the drawing (no solve)
+* ``plan_png_tight_s``              the plan view PNG laid out by ``bbox_inches="tight"`` (baseline)
+* ``plan_png_margins_s``            the plan view PNG on a new figure, fixed margins, trimmed
+* ``plan_png_kept_s``               the plan view PNG as the page draws it after a change (the
+                                    kept figure of that geometry, solved parts redrawn)
 
 Run: ``python tests/benchmarks/run.py`` (all benchmarks) or ``python tests/benchmarks/bench_page.py``.
 """
@@ -60,12 +65,29 @@ def run(quick: bool = False) -> dict:
 
     base = example("skimmer").data
     api = []
-    for i in range(n):
+    for i in range(n):  # the page's changes, again, on new values (no cache hit)
         data = copy.deepcopy(base)
-        data["body"]["mass"] = f"{1.5 + 0.01 * i:.2f} g"
+        data["body"]["mass"] = f"{1.07 + 0.01 * (n + i + 1):.2f} g"
         t = time.perf_counter()
-        solve_device(design_from_data(data))
+        solve_device(design_from_data(data), placement=False)
         api.append(time.perf_counter() - t)
+
+    from floatcalc import plotting as pl
+    from floatcalc.page import drawings
+
+    rs = []
+    for i in range(n + 1):
+        data = copy.deepcopy(base)
+        data["body"]["mass"] = f"{1.07 + 0.01 * (2 * n + i + 1):.2f} g"
+        rs.append(solve_device(design_from_data(data), placement=False))
+    drawings.clear()
+    drawings.plan_png(rs[0])
+    tight, margins, kept = [], [], []
+    for r in rs[1:]:  # interleaved, so that all three see the same machine load
+        tight.append(_timed(lambda r=r: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70)))
+        margins.append(_timed(lambda r=r: pl.figure_png(pl.plan_view, size=(8.0, 6.2), device_result=r, grid=70,
+                                                    margins=pl.PLAN_MARGINS)))
+        kept.append(_timed(lambda r=r: drawings.plan_png(r)))
 
     med = statistics.median
     out = {
@@ -74,6 +96,9 @@ def run(quick: bool = False) -> dict:
         "api_solve_device_s": med(api),
         "page_rerun_cached_s": med(cached),
         "page_rerun_view_switch_s": med(switch),
+        "plan_png_tight_s": med(tight),
+        "plan_png_margins_s": med(margins),
+        "plan_png_kept_s": med(kept),
         "changes_measured": n,
     }
     out["page_overhead_s"] = out["page_rerun_change_s"] - out["api_solve_device_s"]
@@ -81,8 +106,12 @@ def run(quick: bool = False) -> dict:
 
 
 if __name__ == "__main__":
+    import os
+
+    print(f"load average {os.getloadavg()[0]:.2f} (1 min) before the run")
     res = run(quick="--quick" in sys.argv)
     for k, v in res.items():
         target = TARGETS.get(k)
         t = f"   (target {target[0]} {target[1]})" if target else ""
         print(f"{k:34s} {v:10.4g}{t}")
+    print(f"load average {os.getloadavg()[0]:.2f} (1 min) after the run")
