@@ -309,7 +309,9 @@ def layout(design, shielding=None) -> _Layout:
             geo = tuple((k, p[k]) for k in get_kind(kind).fields)
             nseg, dens = 1, float(p["density"])
         shield = float(f) if f < 1.0 else 1.0
-        key = (kind, geo, json.dumps(c, sort_keys=True, default=str), dens, nseg, shield)
+        # factors of like elements differ in their last digits (a symmetric layout solved
+        # numerically): one table serves them all, with an error of at most 1e-12 relative
+        key = (kind, geo, json.dumps(c, sort_keys=True, default=str), dens, nseg, float(f"{shield:.12e}"))
         if key not in keys:
             keys[key] = len(types)
             types.append(_Type(kind, geo, float(c["advancing"]), dict(c), dens, shield, nseg))
