@@ -8,8 +8,9 @@ chunk order.
 * ``"serial"`` – in this process;
 * ``"local"`` – a persistent :class:`concurrent.futures.ProcessPoolExecutor` on the local
   cores, started once per process (``fork`` on Linux when no other thread runs, else
-  ``forkserver``), fed with groups of chunks that each run for ≥ ~0.2 s; a run too small to
-  gain from processes finishes in the calling process (see :func:`_run_local`);
+  ``forkserver``), fed with groups of chunks that each run for ≥ ~0.2 s; once it runs, its
+  workers start at once while the calling process times the first chunk; a run too small to
+  gain from processes otherwise finishes in the calling process (see :func:`_run_local`);
 * ``"dask"`` – an existing ``dask.distributed`` scheduler given by its address
   (``tcp://host:8786``), or a ``Client`` object. Dask is an optional dependency (the
   ``cluster`` extra), imported only here and only when asked for;
@@ -199,43 +200,67 @@ def _run_group(fn, group):
     return [fn(*t) for t in group]
 
 
+def _warm_pool(n: int):
+    """The persistent pool if it already runs with ``n`` workers (else None: none is started)."""
+    pool = _POOL["pool"]
+    if pool is None or _POOL["key"] != n or getattr(pool, "_broken", False):
+        return None
+    return pool
+
+
 def _run_local(fn, tasks, workers, bar) -> list[Any]:
     """Tasks on the persistent pool, in groups of about :data:`TASK_MIN_S` seconds each.
 
-    The first task runs here and is timed: if the rest would take less than
+    The first task runs here and is timed. If the pool already runs, each worker starts at
+    once on one of the next tasks meanwhile (so that nothing waits for the timing; their
+    results are used whatever the timing says). If the rest would then take less than
     :data:`PARALLEL_MIN_S` seconds it also runs here (starting and feeding processes would
-    cost more). Otherwise the rest is cut into consecutive groups, each at least
-    :data:`TASK_MIN_S` long by that estimate and at least two per worker while there are
-    enough tasks, so that transfer costs are paid once per group, not per task. One group is
-    in flight per worker; while they run, this process takes groups from the back of the
-    queue itself. Grouping never changes a result: each task keeps its own arguments (and
-    seed), and results come back in task order. If the pool breaks (a worker killed), the
-    groups not yet done run here.
+    cost more; a cold pool is then not started). Otherwise the rest is cut into consecutive
+    groups, each at least :data:`TASK_MIN_S` long by that estimate and at least two per worker
+    while there are enough tasks, so that transfer costs are paid once per group, not per
+    task. One group is in flight per worker; while they run, this process takes groups from
+    the back of the queue itself. Grouping never changes a result: each task keeps its own
+    arguments (and seed), and results come back in task order. If the pool breaks (a worker
+    killed), the groups not yet done run here.
     """
     from collections import deque
     from concurrent.futures import FIRST_COMPLETED, wait
     from concurrent.futures.process import BrokenProcessPool
 
     n = min(workers or os.cpu_count() or 1, len(tasks))
+    warm = _warm_pool(n) if n > 1 and len(tasks) > 1 else None
+    early: list[list[tuple]] = []
+    inflight: dict[Any, int] = {}
+    if warm is not None:
+        try:
+            for i in range(1, min(n, len(tasks) - 1) + 1):
+                inflight[warm.submit(_run_group, fn, [tasks[i]])] = len(early)
+                early.append([tasks[i]])
+        except (BrokenProcessPool, RuntimeError):
+            shutdown_pool()
+            inflight.clear()
+            early = []
     t = time.perf_counter()
     first = fn(*tasks[0])
     t_first = time.perf_counter() - t
     bar.step()
-    rest = tasks[1:]
+    rest = tasks[1 + len(early):]
     if n <= 1 or not rest or t_first * len(rest) < PARALLEL_MIN_S:
-        out = [first]
-        for task in rest:
-            out.append(fn(*task))
-            bar.step()
-        return out
-    per = max(1, math.ceil(TASK_MIN_S / max(t_first, 1e-9)))
-    per = min(per, max(1, len(rest) // (2 * n)))  # keep every worker busy to the end
-    groups = [rest[i:i + per] for i in range(0, len(rest), per)]
+        groups = early + [[task] for task in rest]
+        pending = deque()
+        local_only = range(len(early), len(groups))
+    else:
+        per = max(1, math.ceil(TASK_MIN_S / max(t_first, 1e-9)))
+        per = min(per, max(1, len(rest) // (2 * n)))  # keep every worker busy to the end
+        groups = early + [rest[i:i + per] for i in range(0, len(rest), per)]
+        pending = deque(range(len(early), len(groups)))
+        local_only = range(0)
     done: list[Any] = [None] * len(groups)
-    pending = deque(range(len(groups)))
-    inflight: dict[Any, int] = {}
     try:
-        pool = local_pool(n)
+        for i in local_only:
+            done[i] = _run_group(fn, groups[i])
+            bar.step(len(groups[i]))
+        pool = local_pool(n) if pending else None
         while pending or inflight:
             while pending and len(inflight) < n:
                 i = pending.popleft()
