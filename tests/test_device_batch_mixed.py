@@ -187,3 +187,24 @@ def test_device_model_takes_the_batch_for_mixed_devices(rig):
     for k in OUTPUTS:
         assert got[k].shape == (2, 3)
     _check({k: got[k].ravel() for k in OUTPUTS}, {k: np.ravel(ref[k]) for k in OUTPUTS})
+
+
+def test_equal_element_inputs_share_one_table(rig, monkeypatch):
+    """A sweep of the body mass at two contact-angle shifts: the element laws are built for the
+    two distinct inputs only, and every sample still gets the scalar answer."""
+    mixed, shield = rig
+    x = _samples(mixed, 8, seed=6)
+    x["contact_angle_shift"] = np.where(np.arange(8) % 2 == 0, 0.0, -0.05)
+    for k in ("radius_factor", "length_factor", "surface_tension"):
+        x[k] = np.full(8, x[k][0])
+    sizes = []
+    real = db._round_tables
+
+    def counted(kind, geo, th, *a):
+        sizes.append(th.size)
+        return real(kind, geo, th, *a)
+
+    monkeypatch.setattr(db, "_round_tables", counted)
+    got = db.DeviceBatchFunc(mixed, shielding=shield)(x)
+    assert sizes == [2, 2, 2]     # ball, pad, pin types: two distinct inputs each
+    _check(got, _scalar(mixed, x, shield))

@@ -141,6 +141,17 @@ def _rod_tables(R, th, L, nseg, points):
     return tabs
 
 
+def _unique(*cols):
+    """Samples with equal element-law inputs (a sweep that varies the body mass, say) share one
+    table: indices of the distinct rows and, if there are repeats, each sample's row in them
+    (else None). Equal inputs give equal tables, so this changes no number."""
+    A = np.stack(np.broadcast_arrays(*cols), axis=1)
+    _, first, inv = np.unique(A, axis=0, return_index=True, return_inverse=True)
+    if first.size == A.shape[0]:
+        return slice(None), None
+    return first, inv.ravel()
+
+
 def _round_tables(kind, geo, th, sigma, liquid, density):
     """Tables of one round type for S samples, as the round adapter builds them from
     :func:`floatcalc.round.element_tables`, in SI: depth, force, contact (S, points), outer
@@ -432,14 +443,21 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
         members = lay.elem_type == t
         if ty.kind == "rod":
             geo = dict(ty.geo)
-            tb = _rod_tables(geo["radius"] * rf / lc, th, geo["length"] * lf / lc, ty.nseg, POINTS)
+            Rs, Ls = geo["radius"] * rf / lc, geo["length"] * lf / lc
+            u, inv = _unique(Rs, th, Ls)
+            tb = _rod_tables(Rs[u], th[u], Ls[u], ty.nseg, POINTS)
+            if inv is not None:
+                tb = {k: v[inv] for k, v in tb.items()}
             mid, end = tb["mid"], tb["end"]
             if ty.shield < 1.0:  # neighbours' shared meniscus (nominal layout), as Device.from_design
                 mid, end = mid * ty.shield, end * ty.shield
             rows.append((tb["depth"], (mid, end), tb["contact"], tb["n"]))
         else:
-            geo = {k: v * (rf if k == "radius" else lf if k == "length" else 1.0) for k, v in ty.geo}
-            D, F, H, r_c, w = _round_tables(ty.kind, geo, th, sigma, liq, ty.density)
+            geo = {k: np.broadcast_to(v * (rf if k == "radius" else lf if k == "length" else 1.0), (S,))
+                   for k, v in ty.geo}
+            u, inv = _unique(th, sigma, *geo.values())
+            out = _round_tables(ty.kind, {k: v[u] for k, v in geo.items()}, th[u], sigma[u], liq, ty.density)
+            D, F, H, r_c, w = out if inv is None else (v[inv] for v in out)
             if ty.shield < 1.0:
                 F = F * ty.shield
             rows.append((D / lcc, (F / fsc,), H / lcc, None))
