@@ -161,17 +161,79 @@ def test_overlap_test_is_the_scalar_one_near_touching():
 
 
 def test_kinds_that_stay_scalar_say_why():
-    assert set(db.SCALAR_KINDS) == {"rod_row", "flexible_leg"}
+    assert set(db.SCALAR_KINDS) == {"flexible_leg"}
     assert all(db.SCALAR_KINDS[k] for k in db.SCALAR_KINDS)
     from floatcalc.elements import kind_names
 
     assert set(kind_names()) == set(db.BATCH_KINDS) | set(db.SCALAR_KINDS)
-    row = _design([{"kind": "rod_row", "position": ["0 mm", "20 mm"], "radius": "0.2 mm", "length": "30 mm",
-                    "rods": 3, "spacing": "4 mm", "material": "steel", "coating": {"advancing": "120 deg"}},
-                   *MIXED[4:6]], com=("0 mm", "5 mm"))
-    assert not db.batchable(row)
-    m = device_model(row)
+    flex = _design([{"kind": "flexible_leg", "position": ["0 mm", "20 mm"], "heading": "90 deg", "radius": "0.1 mm",
+                     "length": "20 mm", "material": "steel", "coating": {"advancing": "150 deg"}}, *MIXED[4:6]],
+                   com=("0 mm", "5 mm"))
+    assert not db.batchable(flex)
+    m = device_model(flex)
     assert not m.vectorised and isinstance(m.func, _DeviceFunc)
+
+
+#: Invented rig: two rod rows (three rods, and a close pair raised a little and turned) and a ball.
+ROWS = [{"kind": "rod_row", "position": ["0 mm", "20 mm"], "radius": "0.2 mm", "length": "30 mm", "rods": 3,
+         "spacing": "4 mm", "material": "steel", "coating": {"advancing": "120 deg"}, "segments": 4},
+        {"kind": "rod_row", "position": ["0 mm", "-20 mm"], "heading": "10 deg", "radius": "0.2 mm", "length": "30 mm",
+         "rods": 2, "spacing": "1.5 mm", "material": "steel", "coating": {"advancing": "120 deg"}, "mount": "0.02 mm"},
+        {"kind": "ball", "position": ["12 mm", "0 mm"], "radius": "1 mm", "material": "nylon",
+         "coating": {"advancing": "150 deg"}}]
+
+
+def test_rod_row_device_batch_matches_scalar():
+    design = _design(ROWS, mass="0.5 g", com=("1 mm", "2 mm"))
+    assert db.batchable(design)
+    x = _samples(design, 4, seed=8)
+    lay = db.layout(design)
+    assert db.build(design, lay, x)[-1].all()
+    _check(db.DeviceBatchFunc(design)(x), _scalar(design, x))
+
+
+def test_fast_turning_depth_is_the_bisection_root():
+    """core.parallel2d_batch.turning_depth (10 bisections and 6 Illinois steps) against
+    core.parallel2d.turning_depth (56 bisections) on seeded random inclinations and gaps,
+    from nearly flat to steep and from narrow to wide gaps."""
+    from floatcalc.core import parallel2d, parallel2d_batch
+
+    rng = np.random.default_rng(12)
+    psi = rng.uniform(-np.pi, np.pi, 4000)
+    psi[:3] = (1e-6, -1e-6, np.pi - 1e-6)
+    gap = 10 ** rng.uniform(-6, 1.5, 4000)
+    ref = parallel2d.turning_depth(psi, gap)
+    np.testing.assert_allclose(parallel2d_batch.turning_depth(psi, gap), ref, rtol=1e-12, atol=0)
+
+
+def test_row_tables_are_the_rod_row_adapter():
+    """The batched rod-row tables against the rod_row adapter (floatcalc.elements.rod_row) on
+    seeded random rows: depths, outer and inner rod forces and contact depths."""
+    import floatcalc as fc
+    from floatcalc.core import parallel2d_batch
+    from floatcalc.elements import get_kind
+
+    w = fc.water()
+    lc, fs = w.lc, w.sigma * w.lc
+    rng = np.random.default_rng(21)
+    M, N = 3, 4
+    R = rng.uniform(1e-4, 4e-4, M)
+    th = np.radians(rng.uniform(95, 165, M))
+    Sp = R * rng.uniform(2.5, 40, M)
+    L = rng.uniform(0.02, 0.06, M)
+    tb = parallel2d_batch.row_tables(R / lc, th, Sp / lc, N, L / lc, 5)
+    kind = get_kind("rod_row")
+    for i in range(M):
+        p = {"kind": "rod_row", "name": "", "position": (0.0, 0.0), "mount": 0.0, "radius": R[i], "length": L[i],
+             "rods": N, "spacing": Sp[i], "heading": 0.0, "segments": 5, "density": 7850.0, "material_name": "steel",
+             "coating": {"advancing": th[i], "texture": "none"}}
+        m = kind.model(p, w)
+        n = int(tb["n"][i])
+        assert m.depth.shape[1] == n
+        np.testing.assert_allclose(tb["depth"][i, :n], m.depth[0] / lc, rtol=1e-12, atol=1e-14)
+        np.testing.assert_allclose(tb["outer"][i, :n], m.force[0] / fs, rtol=1e-10, atol=1e-14)
+        np.testing.assert_allclose(tb["inner"][i, :n], m.force[5] / fs, rtol=1e-10, atol=1e-14)   # rod 2 of 4
+        np.testing.assert_allclose(tb["contact"][i, :n], m.contact[0] / lc, rtol=1e-10, atol=1e-14)
 
 
 def test_device_model_takes_the_batch_for_mixed_devices(rig):

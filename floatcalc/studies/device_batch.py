@@ -1,4 +1,4 @@
-"""Batched study function of a device whose elements are rods, ball feet, pads, pins or rings.
+"""Batched study function of a device whose elements are rods, rod rows, ball feet, pads, pins or rings.
 
 The scalar device model (:mod:`floatcalc.studies.device_model`) rebuilds the device for every
 sample (:meth:`floatcalc.device.solve.Device.from_design`, each element's force–depth table
@@ -9,6 +9,10 @@ same steps run on arrays over all samples of a block:
   (:func:`floatcalc.core.finite_rod.limit_many`, the same grid and parabola), the 241-point
   table from first contact to the limit, the end caps on the end segments and the cut at
   depth 0 (:func:`~floatcalc.elements._registry.from_first_contact`);
+* rod rows (kind ``rod_row``, the adapter of :mod:`floatcalc.elements.rod_row`): the shared
+  2D menisci of :mod:`floatcalc.core.parallel2d` on the same grids, batched by
+  :mod:`floatcalc.core.parallel2d_batch` (a faster root finder for the turning depth, the same
+  root to about 1e-14), one table for the outer and one for the inner rods;
 * ball feet, pads, pins and rings (the round adapter of :mod:`floatcalc.elements._round`):
   :func:`floatcalc.round.element_tables` called once per element type with arrays over the
   samples (the very function the adapter calls with one row), the last force raised to the
@@ -38,11 +42,9 @@ capacities that did not converge or devices that carry next to nothing; and a wh
 whose element tables refuse an input (an element outside the range of its law), so that the
 scalar model raises its own error for the first such sample.
 
-Kinds that stay on the scalar path (:data:`SCALAR_KINDS`, with the reason): ``rod_row``, whose
-shared-meniscus law (:mod:`floatcalc.core.parallel2d`) costs about 0.2 s a sample in its
-turning-depth bisection whichever path calls it, so a batch would gain nothing but the
-equilibrium; and ``flexible_leg``, whose elastica (:mod:`floatcalc.core.beam`) is solved per
-sample (about 40 ms) and has no vectorised or tabulated form that reproduces it to 1e-8.
+Kinds that stay on the scalar path (:data:`SCALAR_KINDS`, with the reason): ``flexible_leg``,
+whose elastica (:mod:`floatcalc.core.beam`) is solved per sample (about 40 ms) and has no
+vectorised or tabulated form that reproduces it to 1e-8.
 """
 
 from __future__ import annotations
@@ -55,12 +57,11 @@ from typing import Any
 import numpy as np
 
 #: Element kinds the batch builds itself.
-BATCH_KINDS = frozenset({"rod", "ball", "pad", "pin", "ring"})
+BATCH_KINDS = frozenset({"rod", "rod_row", "ball", "pad", "pin", "ring"})
 #: Round kinds (one force point, tables from floatcalc.round.element_tables).
 ROUND_KINDS = ("ball", "pad", "pin", "ring")
 #: Kinds left to the scalar model, and why.
 SCALAR_KINDS = {
-    "rod_row": "its shared-meniscus law (core.parallel2d) takes about 0.2 s a sample whichever path calls it",
     "flexible_leg": "its elastica (core.beam) is solved per sample and has no batched form equal to it to 1e-8",
 }
 #: Samples per block (bounds the memory of the coupling arrays).
@@ -263,11 +264,14 @@ class _Layout:
     owner: np.ndarray      # (m,)
     seg_index: np.ndarray  # (m,) segment k of each point
     row: np.ndarray        # (m,) table row
+    across: np.ndarray     # (m,) offset across the heading (rods of a row) [m]
+    rods: np.ndarray       # (E,) rods of the element (a row: its count; else 1)
     # footprints: vertex = centre + P1 s1 + P2 s2 (s1, s2 the sizes of each sample)
     P1: np.ndarray         # (E, K, 2)
     P2: np.ndarray
     size0: np.ndarray      # (E, 2) nominal sizes (rod: half length, radius; round: footprint radius, 0)
     size_by: np.ndarray    # (E, 2) which factor scales each size: 0 none, 1 radius, 2 length
+    size_add: np.ndarray   # (E, 2) fixed part of each size (a row's half spread)
     axes: np.ndarray       # (E, 12, 2) edge normals of each footprint
     hull_corners: np.ndarray  # indices (into E*K vertices) of the nominal support polygon, ccw
     centres_hold: bool     # the body's centre of mass lies clearly inside the hull of element centres
@@ -276,7 +280,7 @@ class _Layout:
 
 def _footprint(kind, p, ux, uy):
     """Unit vertex offsets P1, P2 (K, 2), sizes, size factors and edge normals (12, 2)."""
-    if kind == "rod":
+    if kind in ("rod", "rod_row"):
         a = np.array([-1.0, 1.0, 1.0, -1.0])
         b = np.array([-1.0, -1.0, 1.0, 1.0])
         P1 = np.column_stack([a * ux, a * uy])
@@ -316,6 +320,9 @@ def layout(design, shielding=None) -> _Layout:
         if kind == "rod":
             geo = (("radius", p["radius"]), ("length", p["length"]))
             nseg, dens = p["segments"], 0.0   # a rod's own weight is computed here, not in its table
+        elif kind == "rod_row":
+            geo = (("radius", p["radius"]), ("length", p["length"]), ("rods", p["rods"]), ("spacing", p["spacing"]))
+            nseg, dens = p["segments"], 0.0
         else:
             geo = tuple((k, p[k]) for k in get_kind(kind).fields)
             nseg, dens = 1, float(p["density"])
@@ -327,19 +334,29 @@ def layout(design, shielding=None) -> _Layout:
             keys[key] = len(types)
             types.append(_Type(kind, geo, float(c["advancing"]), dict(c), dens, shield, nseg))
             first.append(nrows)
-            nrows += 2 if kind == "rod" else 1
+            nrows += 2 if kind in ("rod", "rod_row") else 1
         et.append(keys[key])
     arr = lambda f: np.array([f(p) for p in legs], dtype=float)  # noqa: E731
-    is_rod = np.array([p["kind"] == "rod" for p in legs])
-    owner, seg, row = [], [], []
+    is_rod = np.array([p["kind"] in ("rod", "rod_row") for p in legs])
+    owner, seg, row, across = [], [], [], []
     for e, p in enumerate(legs):
         n = types[et[e]].nseg
+        if p["kind"] == "rod_row":   # rod k of the row, segment j; outer rods on the first table row
+            N = p["rods"]
+            for k in range(N):
+                for j in range(n):
+                    owner.append(e)
+                    seg.append(j)
+                    across.append((k - 0.5 * (N - 1)) * p["spacing"])
+                    row.append(first[et[e]] + (0 if k in (0, N - 1) else 1))
+            continue
         for k in range(n):
             owner.append(e)
             seg.append(k)
+            across.append(0.0)
             row.append(first[et[e]] + (1 if is_rod[e] and k in (0, n - 1) else 0))
-    ux = arr(lambda p: math.cos(p["heading"]) if p["kind"] == "rod" else 1.0)
-    uy = arr(lambda p: math.sin(p["heading"]) if p["kind"] == "rod" else 0.0)
+    ux = arr(lambda p: math.cos(p["heading"]) if p["kind"] in ("rod", "rod_row") else 1.0)
+    uy = arr(lambda p: math.sin(p["heading"]) if p["kind"] in ("rod", "rod_row") else 0.0)
     cx, cy = arr(lambda p: p["position"][0]), arr(lambda p: p["position"][1])
     fp = [_footprint(p["kind"], p, u, v) for p, u, v in zip(legs, ux, uy)]
     P1 = np.stack([f[0] for f in fp])
@@ -347,8 +364,12 @@ def layout(design, shielding=None) -> _Layout:
     size0 = np.array([f[2] for f in fp], dtype=float)
     size_by = np.array([f[3] for f in fp], dtype=np.int64)
     axes = np.stack([f[4] for f in fp])
+    # a row's half width: half the spread of its rods (fixed) plus the rod radius (scaled)
+    add = arr(lambda p: 0.5 * (p["rods"] - 1) * p["spacing"] if p["kind"] == "rod_row" else 0.0)
+    size_add = np.column_stack([np.zeros_like(add), add])
     C = np.stack([cx, cy], axis=-1)[:, None, :]
-    V = (C + P1 * size0[:, 0, None, None] + P2 * size0[:, 1, None, None]).reshape(-1, 2)
+    sz = size0 + size_add
+    V = (C + P1 * sz[:, 0, None, None] + P2 * sz[:, 1, None, None]).reshape(-1, 2)
     hull = convex_hull(V)
     idx = np.array([int(np.argmin(np.hypot(*(V - h).T))) for h in hull])
     xb, yb = design.body["centre_of_mass"]
@@ -359,7 +380,8 @@ def layout(design, shielding=None) -> _Layout:
                    tan_tilt=arr(lambda p: math.tan(p["tilt"]) if p["kind"] == "rod" else 0.0),
                    mount=arr(lambda p: p["mount"]), density=arr(lambda p: p["density"]), nseg=np.array([types[t].nseg for t in et], dtype=np.int64),
                    owner=np.array(owner), seg_index=np.array(seg), row=np.array(row),
-                   P1=P1, P2=P2, size0=size0, size_by=size_by, axes=axes, hull_corners=idx,
+                   across=np.array(across, dtype=float), rods=arr(lambda p: p.get("rods", 1) if p["kind"] == "rod_row" else 1),
+                   P1=P1, P2=P2, size0=size0, size_by=size_by, size_add=size_add, axes=axes, hull_corners=idx,
                    centres_hold=centres_hold, shielding=tuple(float(f) for f in shielding))
 
 
@@ -382,7 +404,7 @@ def _geometry_clear(lay: _Layout, rf, lf, xb, yb) -> np.ndarray:
     S = rf.size
     E = lay.cx.size
     factor = np.stack([np.ones(S), rf, lf], axis=1)                     # (S, 3)
-    size = lay.size0[None] * factor[:, lay.size_by]                     # (S, E, 2)
+    size = lay.size0[None] * factor[:, lay.size_by] + lay.size_add[None]   # (S, E, 2)
     ok = np.ones(S, dtype=bool)
     scale = max(float(np.max(np.abs(np.concatenate([lay.cx, lay.cy])))), 1e-300) + np.max(size, axis=(1, 2))
     if E > 1:
@@ -452,6 +474,20 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
             if ty.shield < 1.0:  # neighbours' shared meniscus (nominal layout), as Device.from_design
                 mid, end = mid * ty.shield, end * ty.shield
             rows.append((tb["depth"], (mid, end), tb["contact"], tb["n"]))
+        elif ty.kind == "rod_row":
+            from ..core.parallel2d_batch import row_tables
+
+            geo = dict(ty.geo)
+            Rs, Ls = geo["radius"] * rf / lc, geo["length"] * lf / lc
+            Sp = geo["spacing"] / lc
+            u, inv = _unique(Rs, th, Ls, Sp)
+            tb = row_tables(Rs[u], th[u], Sp[u], int(geo["rods"]), Ls[u], ty.nseg, POINTS)
+            if inv is not None:
+                tb = {k: v[inv] for k, v in tb.items()}
+            outer, inner = tb["outer"], tb["inner"]
+            if ty.shield < 1.0:
+                outer, inner = outer * ty.shield, inner * ty.shield
+            rows.append((tb["depth"], (outer, inner), tb["contact"], tb["n"]))
         else:
             geo = {k: np.broadcast_to(v * (rf if k == "radius" else lf if k == "length" else 1.0), (S,))
                    for k, v in ty.geo}
@@ -475,18 +511,19 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
     o = lay.owner
     nseg = lay.nseg[o]
     along = (lay.seg_index + 0.5)[None, :] / nseg[None, :] * length[:, o] - 0.5 * length[:, o]   # (S, m)
-    px = lay.cx[o] + along * lay.ux[o]
-    py = lay.cy[o] + along * lay.uy[o]
+    px = lay.cx[o] + along * lay.ux[o] + lay.across * -lay.uy[o]
+    py = lay.cy[o] + along * lay.uy[o] + lay.across * lay.ux[o]
     offs = along * lay.tan_tilt[o] - lay.mount[o]
     X, Y = px / lcc, py / lcc
     Cpl = np.zeros((S, o.size, E))
     rods = np.flatnonzero(lay.is_rod)
     if rods.size:
-        Rl, Ll = radius[:, rods] / lcc, length[:, rods] / lcc
+        half_w = radius[:, rods] + lay.size_add[rods, 1][None, :]      # a row: its half width
+        Rl, Ll = half_w / lcc, length[:, rods] / lcc
         Cpl[:, :, rods] = _field(X[:, :, None], Y[:, :, None], (lay.cx[rods] / lcc)[:, None, :],
                                  (lay.cy[rods] / lcc)[:, None, :], lay.ux[rods], lay.uy[rods],
                                  0.5 * Ll[:, None, :], Rl[:, None, :])
-        own[:, rods] = lay.density[rods][None, :] * math.pi * radius[:, rods] ** 2 * length[:, rods] * g
+        own[:, rods] = (lay.rods[rods] * lay.density[rods])[None, :] * math.pi * radius[:, rods] ** 2 * length[:, rods] * g
     rnd = np.flatnonzero(~lay.is_rod)
     if rnd.size:
         Cpl[:, :, rnd] = _round_field(X[:, :, None], Y[:, :, None], (lay.cx[rnd] / lcc)[:, None, :],
