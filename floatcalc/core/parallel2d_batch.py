@@ -18,7 +18,8 @@ times on ln h_m over [−40, 12]; :func:`turning_depth` bisects 10 times on the 
 and then takes 6 Illinois (modified regula falsi) steps inside the bracket left, on the same
 monotone function. Both give the root to about 1e-14 relative
 (tests/test_device_batch_mixed.py checks 1e-12 on seeded random rows), with a third of the
-quadratures.
+quadratures; and the 1201-point sides of the adapter reuse the roots of the 2401-point row
+curve (the coarse grid is every other point of the fine one, exactly).
 
 Validity: that of :mod:`floatcalc.core.parallel2d` (long rigid rods at one depth, S > 2R).
 
@@ -94,17 +95,27 @@ def outer_side(R, theta, n: int = 1201):
     return np.broadcast_to(phi, c.shape), c, side_force(phi, Rc, tc, c)
 
 
-def inner_side(R, theta, S, n: int = 1201):
-    """Inner side of each design (as :func:`floatcalc.core.parallel2d.inner_side`): φ, c,
-    side force and signed h_m (S, n) valid over their first ``count`` (S,) entries."""
+def _gap_roots(R, theta, S, n):
+    """Turning depths h_m (S, n) on φ = linspace(0, π, n) where the gap is open (else 1),
+    with the open mask. linspace(0, π, 2401)[::2] is linspace(0, π, 1201) exactly (the step
+    halves exactly), so one solve on the fine grid serves both grids."""
     phi = np.broadcast_to(np.linspace(0.0, PI, n)[None, :], (R.size, n))
     half_gap = 0.5 * S[:, None] - R[:, None] * np.sin(phi)
     ok = half_gap > 1e-9
-    cnt, phi, half_gap = _compact(ok, phi, half_gap)
-    valid = np.arange(n)[None, :] < cnt[:, None]
     psi = phi + theta[:, None] - PI
     hm = np.ones_like(psi)
-    hm[valid] = turning_depth(psi[valid], half_gap[valid])
+    hm[ok] = turning_depth(psi[ok], half_gap[ok])
+    return phi, ok, hm
+
+
+def inner_side(R, theta, S, n: int = 1201, roots=None):
+    """Inner side of each design (as :func:`floatcalc.core.parallel2d.inner_side`): φ, c,
+    side force and signed h_m (S, n) valid over their first ``count`` (S,) entries.
+    ``roots``: the (φ, open, h_m) of :func:`_gap_roots` on this grid, if already solved."""
+    phi, ok, hm = _gap_roots(R, theta, S, n) if roots is None else roots
+    cnt, phi, hm = _compact(ok, phi, hm)
+    valid = np.arange(n)[None, :] < cnt[:, None]
+    psi = phi + theta[:, None] - PI
     sign = np.where(psi >= 0.0, 1.0, -1.0)
     h = sign * np.sqrt(hm * hm + 4.0 * np.sin(0.5 * psi) ** 2)
     c = h - R[:, None] * np.cos(phi)
@@ -123,12 +134,11 @@ def inner_side(R, theta, S, n: int = 1201):
     return phi_b, c_b, f_b, hm_b, count
 
 
-def row_limit_depth(R, theta, S, N, n: int = 2401):
+def row_limit_depth(R, theta, S, N, n: int = 2401, roots=None):
     """Centre depth c of each level row of N rods at its limit (the largest force of
-    :func:`floatcalc.core.parallel2d.row_curve` on ``n`` centre depths), and the tables of
-    both sides on ``n`` contact positions."""
+    :func:`floatcalc.core.parallel2d.row_curve` on ``n`` centre depths)."""
     po, co, fo = outer_side(R, theta, n)
-    pi_t, ci, fi, _, ni = inner_side(R, theta, S, n)
+    pi_t, ci, fi, _, ni = inner_side(R, theta, S, n, roots)
     rows = np.arange(R.size)
     lo = np.maximum(co[:, 0], ci[:, 0])
     hi = np.minimum(co[:, -1], ci[rows, ni - 1])
@@ -158,9 +168,10 @@ def row_tables(R, theta, S, N, L, segments, points: int = 241):
     """
     R, theta, S, L = (np.asarray(a, dtype=float) for a in (R, theta, S, L))
     M = R.size
-    c_lim = row_limit_depth(R, theta, S, N)
+    roots = _gap_roots(R, theta, S, 2401)
+    c_lim = row_limit_depth(R, theta, S, N, 2401, roots)
     po, co, fo = outer_side(R, theta, 1201)
-    _, ci, fi, _, ni = inner_side(R, theta, S, 1201)
+    _, ci, fi, _, ni = inner_side(R, theta, S, 1201, tuple(np.ascontiguousarray(a[:, ::2]) for a in roots))
     c0 = np.maximum(np.maximum(co[:, 0], ci[:, 0]), -R)
     c = np.linspace(c0, c_lim, points, axis=-1)
     full = np.full(M, 1201)
