@@ -4,7 +4,8 @@ Two invented test rigs (not real devices):
 
 * *mixed*: four rods, two ball feet, two pads and two pins (balls and pads close to the rods,
   so their nominal shielding factors are below 1);
-* *rings*: three ring footpads and three rods.
+* *rings*: three ring footpads and three rods;
+* *rows*: two rod rows (three rods, and a pair) and a ball foot.
 
 Figures, each pair measured interleaved in this process on the same seeded inputs (contact
 angle shift, radius and length factors, surface tension, body mass all perturbed; see
@@ -16,7 +17,9 @@ angle shift, radius and length factors, surface tension, body mass all perturbed
   rebuild and capacity search per sample, on a subset) and ``device_mixed_batch_speedup``;
   ``device_mixed_batch_max_rel_diff``: the largest relative difference of ``max_payload``
   between the two on the subset;
-* ``device_ring_samples_per_s`` / ``device_ring_scalar_samples_per_s`` likewise;
+* ``device_ring_samples_per_s`` / ``device_ring_scalar_samples_per_s`` likewise, and
+  ``device_row_samples_per_s`` / ``device_row_scalar_samples_per_s`` (no target: the rows'
+  shared-meniscus law costs tens of milliseconds a sample even batched);
 * ``device_mixed_uncertainty_serial_s`` / ``_local_s`` / ``device_mixed_parallel_speedup``: a
   Monte Carlo study (:func:`floatcalc.studies.uncertainty`) of 10⁴ samples of the mixed rig,
   serially and on all local cores (``--quick``: 2000), identical samples checked
@@ -66,6 +69,14 @@ RINGS = [
        "coating": {"advancing": "115 deg"}} for a in (90, 210, 330)),
     *(_rod(16, a, "14 mm") for a in (30, 150, 270)),
 ]
+
+#: Invented rig: two rod rows and a ball foot.
+ROWS = [{"kind": "rod_row", "position": ["0 mm", "20 mm"], "radius": "0.2 mm", "length": "30 mm", "rods": 3,
+         "spacing": "4 mm", "material": "steel", "coating": {"advancing": "120 deg"}, "segments": 4},
+        {"kind": "rod_row", "position": ["0 mm", "-20 mm"], "heading": "10 deg", "radius": "0.2 mm", "length": "30 mm",
+         "rods": 2, "spacing": "1.5 mm", "material": "steel", "coating": {"advancing": "120 deg"}},
+        {"kind": "ball", "position": ["12 mm", "0 mm"], "radius": "1 mm", "material": "nylon",
+         "coating": {"advancing": "150 deg"}}]
 
 
 def _design(elements, mass):
@@ -137,6 +148,7 @@ def run(quick: bool = False) -> dict:
     mixed = _design(MIXED, "0.3 g")
     res.update(_rates("mixed", mixed, 1000 if quick else 2000, 10 if quick else 40, reps))
     res.update(_rates("ring", _design(RINGS, "0.3 g"), 200 if quick else 500, 5 if quick else 20, reps))
+    res.update(_rates("row", _design(ROWS, "0.5 g"), 20 if quick else 60, 3 if quick else 6, 1))
     model = device_model(mixed)
     res["device_mixed_model_vectorised"] = model.vectorised
     n = 2000 if quick else 10_000
