@@ -122,7 +122,9 @@ def _device_study():
     return device_model(design), dists
 
 
+@pytest.mark.slow
 def test_local_processes_equal_serial_for_a_batched_device():
+    """~5 s: two device studies and a pool of worker processes."""
     from floatcalc.studies import executors
 
     m, dists = _device_study()
