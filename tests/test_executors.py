@@ -184,3 +184,24 @@ def test_progress_bar_only_when_asked():
     quiet = io.StringIO()
     Progress(4, enabled=None, stream=quiet).step()   # not a terminal: silent
     assert quiet.getvalue() == ""
+
+
+def test_side_work_runs_once_on_every_executor(monkeypatch):
+    """run_chunks(side=...) runs the caller's own work exactly once, in this process, whether
+    the tasks run here or on a pool (and the results are those of the tasks)."""
+    import os
+
+    from floatcalc.studies import executors
+
+    calls = []
+    side = lambda: calls.append(os.getpid())  # noqa: E731
+    tasks = [(k,) for k in range(8)]
+    assert [x for x, _ in run_chunks(_pid_after, tasks, executor="serial", side=side)] == list(range(8))
+    monkeypatch.setattr(executors, "PARALLEL_MIN_S", 0.0)
+    monkeypatch.setattr(executors, "TASK_MIN_S", 1e-9)
+    executors.shutdown_pool()
+    out = run_chunks(_pid_after, tasks, executor="local", workers=2, side=side)      # cold pool
+    out += run_chunks(_pid_after, tasks, executor="local", workers=2, side=side)     # warm pool
+    executors.shutdown_pool()
+    assert [x for x, _ in out] == list(range(8)) * 2
+    assert calls == [os.getpid()] * 3

@@ -106,7 +106,8 @@ def chunk_size(total: int, largest: int, smallest: int, parts: int = 16) -> int:
 
 def run_chunks(fn: Callable[..., Any], tasks: Sequence[tuple], *, executor: str | None = "auto",
                scheduler: Any = None, workers: int | None = None, large: bool = False,
-               progress: bool | None = None, label: str = "study") -> list[Any]:
+               progress: bool | None = None, label: str = "study",
+               side: Callable[[], Any] | None = None) -> list[Any]:
     """Call ``fn(*task)`` for every task and return the results in task order.
 
     Parameters
@@ -124,20 +125,41 @@ def run_chunks(fn: Callable[..., Any], tasks: Sequence[tuple], *, executor: str 
         Hint for ``"auto"``: the run is big enough to be worth starting processes.
     progress : bool, optional
         Show the stderr bar; default only when stderr is a terminal.
+    side : callable, optional
+        Other work of the caller (no arguments; its result is dropped), called once in this
+        process: while worker processes or a cluster run the tasks, else after them, so that
+        the caller's own share of a study (its validity warnings, say) does not wait for them.
     """
     tasks = list(tasks)
     workers = check_workers(workers)
     kind = resolve(executor, scheduler, large=large, n_chunks=len(tasks), workers=workers)
     bar = Progress(len(tasks), label=label, enabled=progress)
+    once = _Once(side)
     if kind == "serial" or not tasks:
         out = []
         for t in tasks:
             out.append(fn(*t))
             bar.step()
+        once()
         return out
     if kind == "local":
-        return _run_local(fn, tasks, workers, bar)
-    return _run_dask(fn, tasks, scheduler, bar)
+        out = _run_local(fn, tasks, workers, bar, once)
+    else:
+        out = _run_dask(fn, tasks, scheduler, bar, once)
+    once()
+    return out
+
+
+class _Once:
+    """Call ``side`` at most once (see :func:`run_chunks`)."""
+
+    def __init__(self, side):
+        self.side = side
+
+    def __call__(self):
+        side, self.side = self.side, None
+        if side is not None:
+            side()
 
 
 #: A local run whose estimated remaining work (first task's time × tasks left) is below this
@@ -208,7 +230,7 @@ def _warm_pool(n: int):
     return pool
 
 
-def _run_local(fn, tasks, workers, bar) -> list[Any]:
+def _run_local(fn, tasks, workers, bar, side=lambda: None) -> list[Any]:
     """Tasks on the persistent pool, in groups of about :data:`TASK_MIN_S` seconds each.
 
     The first task runs here and is timed. If the pool already runs, each worker starts at
@@ -218,8 +240,9 @@ def _run_local(fn, tasks, workers, bar) -> list[Any]:
     cost more; a cold pool is then not started). Otherwise the rest is cut into consecutive
     groups, each at least :data:`TASK_MIN_S` long by that estimate and at least two per worker
     while there are enough tasks, so that transfer costs are paid once per group, not per
-    task. One group is in flight per worker; while they run, this process takes groups from
-    the back of the queue itself. Grouping never changes a result: each task keeps its own
+    task. One group is in flight per worker; while they run, this process does the caller's
+    ``side`` work (:func:`run_chunks`) and then takes groups from the back of the queue
+    itself. Grouping never changes a result: each task keeps its own
     arguments (and seed), and results come back in task order. If the pool breaks (a worker
     killed), the groups not yet done run here.
     """
@@ -265,6 +288,7 @@ def _run_local(fn, tasks, workers, bar) -> list[Any]:
             while pending and len(inflight) < n:
                 i = pending.popleft()
                 inflight[pool.submit(_run_group, fn, groups[i])] = i
+            side()   # the caller's own work while the workers run (once)
             if pending:  # help: run the last waiting group here
                 i = pending.pop()
                 done[i] = _run_group(fn, groups[i])
@@ -285,7 +309,7 @@ def _run_local(fn, tasks, workers, bar) -> list[Any]:
     return [first] + [r for grp in done for r in grp]
 
 
-def _run_dask(fn, tasks, scheduler, bar) -> list[Any]:
+def _run_dask(fn, tasks, scheduler, bar, side=lambda: None) -> list[Any]:
     try:
         from dask.distributed import Client
     except ImportError:
@@ -303,6 +327,7 @@ def _run_dask(fn, tasks, scheduler, bar) -> list[Any]:
         client = scheduler
     try:
         futs = [client.submit(fn, *t, pure=False) for t in tasks]
+        side()   # the caller's own work while the cluster runs (once)
         results: list[Any] = []
         for f in futs:  # in chunk order (each future knows its client; no default client needed)
             results.append(f.result())

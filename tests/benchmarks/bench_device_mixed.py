@@ -26,7 +26,12 @@ angle shift, radius and length factors, surface tension, body mass all perturbed
   (``device_mixed_serial_equals_local``).
 
 The machine's cores and its 1-minute load average before and after are reported: other jobs on
-a shared machine slow every figure (the scalar and batched runs alike).
+a shared machine slow every figure (the scalar and batched runs alike). ``machine_parallel_headroom``
+is the same serial-against-local comparison for a busy loop in 16 tasks (``sum`` over a
+range; no floatcalc in it), measured right after the study: where it is near 1 the machine had no spare
+core for this process's workers at the time (other sessions busy; with the kernel's
+``sched_autogroup`` all processes of one session share one session's CPU share), and no
+study can gain from them then.
 """
 
 from __future__ import annotations
@@ -132,6 +137,23 @@ def _study(model, n, executor):
                        executor=executor)
 
 
+def _headroom(reps):
+    from floatcalc.studies.executors import local_pool, run_chunks, shutdown_pool
+
+    tasks = [(range(k, k + 6_000_000),) for k in range(16)]   # builtins: picklable from any module
+    local_pool(os.cpu_count() or 1)
+    t_s = t_l = math.inf
+    for _ in range(reps):
+        t = time.perf_counter()
+        run_chunks(sum, tasks, executor="serial")
+        t_s = min(t_s, time.perf_counter() - t)
+        t = time.perf_counter()
+        run_chunks(sum, tasks, executor="local")
+        t_l = min(t_l, time.perf_counter() - t)
+    shutdown_pool()
+    return t_s / t_l
+
+
 def _load():
     try:
         return os.getloadavg()[0]
@@ -165,6 +187,7 @@ def run(quick: bool = False) -> dict:
         t_l = min(t_l, time.perf_counter() - t)
         same &= bool(np.array_equal(a.capacity_samples, b.capacity_samples))
     shutdown_pool()
+    res["machine_parallel_headroom"] = _headroom(1 if quick else 2)
     res.update({"device_mixed_uncertainty_samples": n, "device_mixed_uncertainty_serial_s": t_s,
                 "device_mixed_uncertainty_local_s": t_l, "device_mixed_parallel_speedup": t_s / t_l,
                 "device_mixed_serial_equals_local": same, "device_mixed_load_after": _load()})
