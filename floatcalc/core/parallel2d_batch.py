@@ -182,8 +182,8 @@ def inner_side(R, theta, S, n: int = 1201, roots=None):
 def row_limit_depth(R, theta, S, N, n: int = 2401, roots=None):
     """Centre depth c of each level row of N rods at its limit (the largest force of
     :func:`floatcalc.core.parallel2d.row_curve` on ``n`` centre depths)."""
-    po, co, fo = outer_side(R, theta, n)
-    pi_t, ci, fi, _, ni = inner_side(R, theta, S, n, roots)
+    _, co, fo = outer_side(R, theta, n)
+    _, ci, fi, _, ni = inner_side(R, theta, S, n, roots)
     rows = np.arange(R.size)
     lo = np.maximum(co[:, 0], ci[:, 0])
     hi = np.minimum(co[:, -1], ci[rows, ni - 1])

@@ -127,7 +127,11 @@ def _rates(name, design, n_batch, n_scalar, reps):
 
 
 def _study(model, n, executor):
-    from floatcalc.studies.uncertainty import Contamination, parse_distribution, uncertainty
+    from floatcalc.studies.uncertainty import (
+        Contamination,
+        parse_distribution,
+        uncertainty,
+    )
 
     d = {"contact_angle_shift": parse_distribution("normal:-3deg:3deg", "angle", "contact_angle_shift"),
          "radius_factor": parse_distribution("tol:1:0.03", "ratio", "radius_factor"),
