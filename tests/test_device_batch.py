@@ -173,34 +173,39 @@ def test_overlapping_footprints_stay_an_input_error():
     assert str(batch.value) == str(scalar.value) and "\n" not in str(batch.value)
 
 
-def test_only_rod_devices_are_batchable():
+def test_rod_and_round_devices_are_batchable():
+    """Rods and round elements are batched (round ones in tests/test_device_batch_mixed.py)."""
     assert db.batchable(example("skimmer")) and db.batchable(example("twin_rod"))
     legs = [{"kind": "ball", "position": [f"{8 * math.cos(a):.6f} mm", f"{8 * math.sin(a):.6f} mm"],
              "radius": "1 mm", "material": "nylon", "coating": {"advancing": "150 deg"}} for a in (0.0, 2.1, 4.2)]
     balls = design_from_data({"schema_version": 1, "liquid": {"name": "water"},
                               "body": {"mass": "0.02 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": legs})
-    assert not db.batchable(balls)
+    assert db.batchable(balls)
+    flex = [{"kind": "flexible_leg", "position": [f"{8 * math.cos(a):.6f} mm", f"{8 * math.sin(a):.6f} mm"],
+             "heading": f"{a} rad", "radius": "0.1 mm", "length": "20 mm", "material": "steel",
+             "coating": {"advancing": "150 deg"}} for a in (0.0, 2.1, 4.2)]
+    legs_flex = design_from_data({"schema_version": 1, "liquid": {"name": "water"},
+                                  "body": {"mass": "0.02 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": flex})
+    assert not db.batchable(legs_flex)
 
 
-def test_rods_with_tables_of_different_lengths_go_to_the_scalar_model():
-    """The batch can stack tables of different lengths, the scalar Device.support cannot: such
-    samples are left to the scalar model, so both paths behave alike (raise alike, or agree)."""
+def test_rods_with_tables_of_different_lengths_are_batched_like_the_scalar_path():
+    """Rods whose tables from first contact differ in length: the scalar Device.support
+    resamples them all on as many points as the longest (device.solve._common_tables), and so
+    does the batch, which decides these samples itself."""
     design = design_from_data(UNEVEN)
-    x = _samples(design, 3, seed=2)
-    try:
-        ref = _scalar(design, x)
-    except Exception as exc:  # noqa: BLE001 - whatever the scalar path does, the batch must do
-        with pytest.raises(type(exc)):
-            db.DeviceBatchFunc(design)(x)
-    else:
-        got = db.DeviceBatchFunc(design)(x)
-        for k in OUTPUTS:
-            np.testing.assert_allclose(got[k], ref[k], rtol=RTOL)
+    x = _samples(design, 6, seed=2)
+    lay = db.layout(design)
+    assert db.build(design, lay, x)[-1].all()
+    ref = _scalar(design, x)
+    got = db.DeviceBatchFunc(design)(x)
+    for k in OUTPUTS:
+        np.testing.assert_allclose(got[k], ref[k], rtol=RTOL)
 
 
-def test_device_model_is_batched_for_rods_and_scalar_otherwise():
-    """device_model switches to the batch for all-rod designs (arrays in, the scalar numbers
-    out, broadcast shapes kept) and keeps the scalar model for any other kind."""
+def test_device_model_is_batched_for_rods_and_balls():
+    """device_model switches to the batch for designs of batched kinds (arrays in, the scalar
+    numbers out, broadcast shapes kept); kinds that stay scalar: tests/test_device_batch_mixed.py."""
     from floatcalc.studies.models import evaluate_pointwise
 
     m = device_model("skimmer")
@@ -216,5 +221,6 @@ def test_device_model_is_batched_for_rods_and_scalar_otherwise():
     balls = design_from_data({"schema_version": 1, "liquid": {"name": "water"},
                               "body": {"mass": "0.02 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": legs})
     mb = device_model(balls)
-    assert not mb.vectorised and isinstance(mb.func, _DeviceFunc)
-    assert float(mb.evaluate({})["max_payload"]) > 0
+    assert mb.vectorised and isinstance(mb.func, db.DeviceBatchFunc)
+    ref = _DeviceFunc(balls, shielding=mb.func.shielding)(mb.merged({}))
+    assert float(mb.evaluate({})["max_payload"]) == pytest.approx(ref["max_payload"], rel=1e-8) and ref["max_payload"] > 0

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import functools
 import io
 import math
 
@@ -103,6 +104,38 @@ def test_dask_process_cluster_equals_serial():
         _same(_study(executor="serial"), d)
 
 
+@functools.cache
+def _device_study():
+    """An invented rig of three ball feet and a rod, far apart (no shared menisci to solve)."""
+    from floatcalc.design import design_from_data
+    from floatcalc.studies.device_model import device_model
+
+    legs = [{"kind": "ball", "position": [f"{9 * math.cos(a):.6f} mm", f"{9 * math.sin(a):.6f} mm"],
+             "radius": "1 mm", "material": "nylon", "coating": {"advancing": "150 deg"}} for a in (0.0, 2.1, 4.2)]
+    legs.append({"kind": "rod", "position": ["-30 mm", "0 mm"], "heading": "90 deg", "radius": "0.2 mm",
+                 "length": "20 mm", "material": "steel", "coating": {"advancing": "150 deg"}})
+    design = design_from_data({"schema_version": 2, "description": "Invented test rig", "invented": True,
+                               "liquid": {"name": "water"},
+                               "body": {"mass": "0.1 g", "centre_of_mass": ["-5 mm", "0 mm"]}, "elements": legs})
+    dists = {"contact_angle_shift": parse_distribution("normal:-3deg:3deg", "angle", "contact_angle_shift"),
+             "radius_factor": parse_distribution("tol:1:0.03", "ratio", "radius_factor")}
+    return device_model(design), dists
+
+
+@pytest.mark.slow
+def test_local_processes_equal_serial_for_a_batched_device():
+    """~5 s: two device studies and a pool of worker processes."""
+    from floatcalc.studies import executors
+
+    m, dists = _device_study()
+    a = uncertainty(m, dists, samples=600, seed=4, executor="serial")
+    executors.local_pool(2)   # a warm pool: its workers start while the first chunk is timed
+    b = uncertainty(m, dists, samples=600, seed=4, executor="local", workers=2)
+    executors.shutdown_pool()
+    assert b.executor == "local"
+    _same(a, b)
+
+
 def test_local_dask_cluster_equals_serial():
     distributed = pytest.importorskip("distributed", reason="dask.distributed is in the test extra; "
                                       "skipped only where it is not installed")
@@ -111,6 +144,14 @@ def test_local_dask_cluster_equals_serial():
         d = _study(scheduler=cluster.scheduler_address)      # connects by address, like --scheduler
         assert d.executor == "dask"
         _same(_study(executor="serial"), d)
+        # a batched device model (ball feet and a rod: floatcalc.studies.device_batch),
+        # identical seeded samples
+        m, dists = _device_study()
+        assert m.vectorised
+        a = uncertainty(m, dists, samples=300, seed=5, executor="serial")
+        b = uncertainty(m, dists, samples=300, seed=5, scheduler=cluster.scheduler_address)
+        assert b.executor == "dask"
+        _same(a, b)
         # a sweep too, through a client object
         with distributed.Client(cluster) as client:
             m = rod_model(count=3.0)
@@ -143,3 +184,24 @@ def test_progress_bar_only_when_asked():
     quiet = io.StringIO()
     Progress(4, enabled=None, stream=quiet).step()   # not a terminal: silent
     assert quiet.getvalue() == ""
+
+
+def test_side_work_runs_once_on_every_executor(monkeypatch):
+    """run_chunks(side=...) runs the caller's own work exactly once, in this process, whether
+    the tasks run here or on a pool (and the results are those of the tasks)."""
+    import os
+
+    from floatcalc.studies import executors
+
+    calls = []
+    side = lambda: calls.append(os.getpid())  # noqa: E731
+    tasks = [(k,) for k in range(8)]
+    assert [x for x, _ in run_chunks(_pid_after, tasks, executor="serial", side=side)] == list(range(8))
+    monkeypatch.setattr(executors, "PARALLEL_MIN_S", 0.0)
+    monkeypatch.setattr(executors, "TASK_MIN_S", 1e-9)
+    executors.shutdown_pool()
+    out = run_chunks(_pid_after, tasks, executor="local", workers=2, side=side)      # cold pool
+    out += run_chunks(_pid_after, tasks, executor="local", workers=2, side=side)     # warm pool
+    executors.shutdown_pool()
+    assert [x for x, _ in out] == list(range(8)) * 2
+    assert calls == [os.getpid()] * 3

@@ -88,17 +88,22 @@ class BatchSupport:
     coupling_iters: int = 3
 
     def __post_init__(self):
-        S, r, w = self.force.shape
-        m = self.x.shape[1]
         n_el = self.coupling.shape[2]
+        m = self.x.shape[1]
         counts = np.bincount(self.owner, minlength=n_el).astype(float)
         A = np.zeros((n_el, m))
         A[self.owner, np.arange(m)] = 1.0 / counts[self.owner]
         self._A = A
         self._coupled = bool(np.any(self.coupling))
+        self._setup(np.stack([self.force, self.contact]))
+
+    def _setup(self, FH):
+        """Force and contact tables together, (2, S, r, w), and the flat lookup indices."""
+        _, S, r, w = FH.shape
+        self.force, self.contact = FH[0], FH[1]
         # flat index of (sample, row, 0) for every point
         self._base = (np.arange(S)[:, None] * r + self.row[None, :]) * w
-        self._FH = np.stack([self.force.reshape(-1), self.contact.reshape(-1)])
+        self._FH = FH.reshape(2, -1)
         self._nf = self.n.astype(float)
 
     @property
@@ -106,12 +111,14 @@ class BatchSupport:
         return self.x.shape[0]
 
     def take(self, idx) -> "BatchSupport":
-        """The sub-batch of samples ``idx``."""
-        return BatchSupport(x=self.x[idx], y=self.y[idx], offset=self.offset[idx], d0=self.d0[idx],
-                            step=self.step[idx], n=self.n[idx], force=self.force[idx],
-                            contact=self.contact[idx], row=self.row, limit_depth=self.limit_depth[idx],
-                            limit_force=self.limit_force[idx], owner=self.owner,
-                            coupling=self.coupling[idx], coupling_iters=self.coupling_iters)
+        """The sub-batch of samples ``idx`` (tables copied once, element averaging reused)."""
+        sub = object.__new__(BatchSupport)
+        for k in ("x", "y", "offset", "d0", "step", "n", "limit_depth", "limit_force", "coupling"):
+            setattr(sub, k, getattr(self, k)[idx])
+        sub.row, sub.owner, sub.coupling_iters = self.row, self.owner, self.coupling_iters
+        sub._A, sub._coupled = self._A, self._coupled
+        sub._setup(self._FH.reshape((2,) + self.force.shape)[:, idx])
+        return sub
 
     def lookup(self, e, extend: bool = False):
         """Force F, contact depth H and their slopes dF/de, dH/de at effective depths e (S, m).

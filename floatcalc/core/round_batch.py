@@ -117,23 +117,36 @@ def _rising(depth, n):
 
 def _interp_rows(xq, X, Y, n):
     """Row-wise :func:`numpy.interp` of Y over X (first ``n`` entries of each row, increasing)
-    at xq (same rows); queries are clamped to the row's range, as numpy.interp does."""
+    at xq (same rows); queries are clamped to the row's range, as numpy.interp does. ``Y`` may
+    be a tuple of tables on the same X (one search serves them all; a tuple comes back)."""
     S, W = X.shape
     r = np.arange(S)[:, None]
     last = (n - 1)[:, None]
-    lo = np.empty(xq.shape, dtype=np.intp)
-    for i in range(S):  # last node <= xq (np.searchsorted per row: exact, and cheap)
-        lo[i] = np.searchsorted(X[i, :n[i]], xq[i], side="right") - 1
+    if xq.shape[1] == 1:
+        # one query a row: the count of nodes <= xq is np.searchsorted(side="right"), exactly
+        valid = np.arange(W)[None, :] < n[:, None]
+        lo = np.sum(valid & (X <= xq), axis=1, keepdims=True) - 1
+        lo = np.where(np.isnan(xq), last, lo)
+    else:
+        lo = np.empty(xq.shape, dtype=np.intp)
+        for i in range(S):  # last node <= xq (np.searchsorted per row: exact, and cheap)
+            lo[i] = np.searchsorted(X[i, :n[i]], xq[i], side="right") - 1
     j = np.clip(lo, 0, np.maximum(last - 1, 0))
-    x0, x1 = X[r, j], X[r, np.minimum(j + 1, last)]
-    y0, y1 = Y[r, j], Y[r, np.minimum(j + 1, last)]
-    with np.errstate(divide="ignore", invalid="ignore"):
-        slope = (y1 - y0) / (x1 - x0)
-        out = slope * (xq - x0) + y0
-    out = np.where(xq <= X[:, :1], Y[:, :1], out)
-    xl, yl = X[np.arange(S), n - 1][:, None], Y[np.arange(S), n - 1][:, None]
-    out = np.where(xq >= xl, yl, out)
-    return np.where(np.isfinite(out), out, y0)
+    j1 = np.minimum(j + 1, last)
+    x0, x1 = X[r, j], X[r, j1]
+    below = xq <= X[:, :1]
+    xl = X[np.arange(S), n - 1][:, None]
+    above = xq >= xl
+    out = []
+    for T in (Y if isinstance(Y, tuple) else (Y,)):
+        y0, y1 = T[r, j], T[r, j1]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            slope = (y1 - y0) / (x1 - x0)
+            o = slope * (xq - x0) + y0
+        o = np.where(below, T[:, :1], o)
+        o = np.where(above, T[np.arange(S), n - 1][:, None], o)
+        out.append(np.where(np.isfinite(o), o, y0))
+    return tuple(out) if isinstance(Y, tuple) else out[0]
 
 
 def fminbound_many(func, lo, hi, xatol: float = 1e-10, maxfun: int = 500):
@@ -240,8 +253,7 @@ def device_table(D, F, Fst, n, d_lim, rc, points: int = TABLE_POINTS, min_contac
     col = np.arange(W)[None, :]
     d_lim = np.asarray(d_lim, dtype=float)[:, None]
     valid = col < n[:, None]
-    f_lim = _interp_rows(d_lim, D, F, n)
-    s_lim = _interp_rows(d_lim, D, Fst, n)
+    f_lim, s_lim = _interp_rows(d_lim, D, (F, Fst), n)
     keep = valid & (D < d_lim)
     D2 = np.concatenate([D, np.broadcast_to(d_lim, (S, 1))], axis=1)
     F2 = np.concatenate([F, f_lim], axis=1)
@@ -253,8 +265,7 @@ def device_table(D, F, Fst, n, d_lim, rc, points: int = TABLE_POINTS, min_contac
     lastd = D2[np.arange(S), n2 - 1]
     cut = (first < 0.0) & (lastd > 0.0)
     zero = np.zeros((S, 1))
-    f0 = _interp_rows(zero, D2, F2, n2)
-    s0 = _interp_rows(zero, D2, S2, n2)
+    f0, s0 = _interp_rows(zero, D2, (F2, S2), n2)
     colw = np.arange(D2.shape[1])[None, :]
     m3 = np.concatenate([cut[:, None], np.where(cut[:, None], D2 > 0.0, True) & (colw < n2[:, None])], axis=1)
     D3 = np.concatenate([zero, D2], axis=1)
@@ -263,8 +274,7 @@ def device_table(D, F, Fst, n, d_lim, rc, points: int = TABLE_POINTS, min_contac
     n3, D3, F3, S3 = _compact(m3, D3, F3, S3)
     d0, d1 = D3[:, :1], D3[np.arange(S), n3 - 1][:, None]
     grid = _linspace(d0[:, 0], d1[:, 0], points)  # np.linspace per row, as the adapter
-    Fg = _interp_rows(grid, D3, F3, n3)
-    Sg = _interp_rows(grid, D3, S3, n3)
+    Fg, Sg = _interp_rows(grid, D3, (F3, S3), n3)
     r = np.maximum(np.asarray(rc, dtype=float), min_contact_radius)[:, None]
     h0 = Sg / (2.0 * PI * r * k1e(r) / k0e(r))
     return {"depth": grid, "force": Fg, "surface_tension": Sg, "contact": h0}

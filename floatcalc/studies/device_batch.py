@@ -1,35 +1,55 @@
-"""Batched study function of a device whose elements are all straight rods (kind ``rod``).
+"""Batched study function of a device whose elements are rods, rod rows, ball feet, pads, pins or rings.
 
 The scalar device model (:mod:`floatcalc.studies.device_model`) rebuilds the device for every
-sample (:meth:`floatcalc.device.solve.Device.from_design`, element tables from
-:mod:`floatcalc.core.rod2d` and :mod:`floatcalc.core.finite_rod`) and then calls
-:func:`floatcalc.core.equilibrium.capacity`. Here the same steps run on arrays over all
-samples of a block:
+sample (:meth:`floatcalc.device.solve.Device.from_design`, each element's force–depth table
+from its kind's adapter) and then calls :func:`floatcalc.core.equilibrium.capacity`. Here the
+same steps run on arrays over all samples of a block:
 
-* the element laws of :class:`floatcalc.device.elements.RodKind` – the finite-rod limit
+* rods (kind ``rod``, the adapter of :mod:`floatcalc.elements.rod`): the finite-rod limit
   (:func:`floatcalc.core.finite_rod.limit_many`, the same grid and parabola), the 241-point
-  table from first contact to the limit, the end caps on the end segments, the cut at depth 0
-  (:func:`~floatcalc.device.elements.from_first_contact`) and the resampling on a uniform
-  depth grid of :class:`~floatcalc.core.equilibrium.Support`;
-* the plan positions, offsets and the coupling matrix of the linearised outer fields (all
-  lengths scale with 1/l_c, which varies with the sampled surface tension);
+  table from first contact to the limit, the end caps on the end segments and the cut at
+  depth 0 (:func:`~floatcalc.elements._registry.from_first_contact`);
+* rod rows (kind ``rod_row``, the adapter of :mod:`floatcalc.elements.rod_row`): the shared
+  2D menisci of :mod:`floatcalc.core.parallel2d` on the same grids, batched by
+  :mod:`floatcalc.core.parallel2d_batch` (a faster root finder for the turning depth, the same
+  root to about 1e-14), one table for the outer and one for the inner rods;
+* ball feet, pads, pins and rings (the round adapter of :mod:`floatcalc.elements._round`):
+  :func:`floatcalc.round.element_tables` called once per element type with arrays over the
+  samples (the very function the adapter calls with one row), the last force raised to the
+  refined limit force as the adapter does, and the outer contact radius of each sample for
+  the K₀ field;
+* every table resampled on a uniform depth grid with as many points as the longest table of
+  the sample (what :func:`floatcalc.device.solve._common_tables` and
+  :class:`~floatcalc.core.equilibrium.Support` do together), the neighbours' shielding
+  factors of the nominal layout applied (studies reuse them, as the scalar model does);
+* the plan positions, offsets and the coupling matrix of the linearised outer fields (rod:
+  e^(−(b − w)) beside it, K₀ beyond its ends; round: K₀(r)/K₀(r_c); all lengths scale with
+  1/l_c, which varies with the sampled surface tension);
 * the capacity at the centre of mass by :func:`floatcalc.core.equilibrium_batch.capacity_at_centre`.
 
 Inputs and outputs are those of the scalar model (``contact_angle_shift``, ``surface_tension``,
 ``radius_factor``, ``length_factor``, ``body_mass``, ``payload_mass`` → ``max_payload``,
-``payload_mass``, ``spare_payload``, ``weight``), and so are the numbers (tests/test_device_batch.py
-compares the two on random perturbations).
+``payload_mass``, ``spare_payload``, ``weight``), and so are the numbers
+(tests/test_device_batch.py and tests/test_device_batch_mixed.py compare the two on seeded
+random perturbations). As in the scalar model, ``radius_factor`` multiplies every ``radius``
+field (rod, ball, pad and pin radius; not a ring's radii or a pad's thickness) and
+``length_factor`` every ``length`` field (rod length, pin protrusion).
 
 Samples for which the batch cannot vouch for the scalar answer are handed to the scalar
 model unchanged: footprints that come within rounding of overlapping, a centre of mass not
 clearly inside the support polygon (the scalar model then gives its one-line InputError),
-capacities that did not converge or devices that carry next to nothing, and samples whose rod
-types get tables of different lengths (the scalar path stacks the tables of all elements, so it
-needs equal lengths; it is left to decide what happens there).
+capacities that did not converge or devices that carry next to nothing; and a whole block
+whose element tables refuse an input (an element outside the range of its law), so that the
+scalar model raises its own error for the first such sample.
+
+Kinds that stay on the scalar path (:data:`SCALAR_KINDS`, with the reason): ``flexible_leg``,
+whose elastica (:mod:`floatcalc.core.beam`) is solved per sample (about 40 ms) and has no
+vectorised or tabulated form that reproduces it to 1e-8.
 """
 
 from __future__ import annotations
 
+import json
 import math
 from dataclasses import dataclass
 from typing import Any
@@ -37,10 +57,20 @@ from typing import Any
 import numpy as np
 
 #: Element kinds the batch builds itself.
-BATCH_KINDS = frozenset({"rod"})
+BATCH_KINDS = frozenset({"rod", "rod_row", "ball", "pad", "pin", "ring"})
+#: Round kinds (one force point, tables from floatcalc.round.element_tables).
+ROUND_KINDS = ("ball", "pad", "pin", "ring")
+#: Kinds left to the scalar model, and why.
+SCALAR_KINDS = {
+    "flexible_leg": "its elastica (core.beam) is solved per sample and has no batched form equal to it to 1e-8",
+}
 #: Samples per block (bounds the memory of the coupling arrays).
 BLOCK = 500
 INPUTS = ("contact_angle_shift", "surface_tension", "radius_factor", "length_factor", "body_mass", "payload_mass")
+#: Points of every table (as floatcalc.elements._registry.TABLE_POINTS).
+POINTS = 241
+#: Vertices of a round footprint (as floatcalc.elements._registry.circle).
+_K = 24
 
 
 def batchable(design) -> bool:
@@ -76,7 +106,8 @@ def _rows_interp(xq, X, tables, n_valid):
 
 
 def _rod_tables(R, th, L, nseg, points):
-    """Resampled tables of one rod type for S samples: dict of (S, points) arrays and n (S,)."""
+    """Tables of one rod type for S samples, from first contact to the limit, before resampling:
+    dict of depth, mid, end, contact (S, points) [l_c, σ l_c] valid over their first n (S,) entries."""
     from ..core import finite_rod, rod2d
 
     S = R.size
@@ -95,7 +126,7 @@ def _rod_tables(R, th, L, nseg, points):
     i0 = np.where(cut, np.argmax(D > 0.0, axis=1), 0)
     src = np.clip(np.where(cut, i0 - 1, 0)[:, None] + np.arange(points), 0, points - 1)
     n_tab = np.where(cut, points + 1 - i0, points)
-    tabs = {}
+    tabs = {"n": n_tab}
     jl = np.maximum(i0 - 1, 0)
     for name, T in (("depth", D), ("mid", F_mid), ("end", F_end), ("contact", hd)):
         Tt = T[rows[:, None], src]
@@ -108,20 +139,75 @@ def _rod_tables(R, th, L, nseg, points):
                 at0 = np.where(x1 > x0, (y1 - y0) / np.where(x1 > x0, x1 - x0, 1.0) * (0.0 - x0) + y0, y0)
         Tt[:, 0] = np.where(cut, at0, Tt[:, 0])
         tabs[name] = Tt
-    # resample on a uniform depth grid of the same number of points (as Support does)
-    Dt = tabs["depth"]
-    d0 = Dt[:, 0]
-    d_last = Dt[rows, n_tab - 1]
-    step = (d_last - d0) / (n_tab - 1)
-    grid = d0[:, None] + step[:, None] * np.arange(points)
-    grid = np.minimum(grid, d_last[:, None])
-    mid, end, contact = _rows_interp(grid, Dt, (tabs["mid"], tabs["end"], tabs["contact"]), n_tab)
-    return {"d0": d0, "step": step, "n": n_tab, "limit_depth": d_last, "mid": mid, "end": end,
-            "contact": contact, "limit_mid": tabs["mid"][rows, n_tab - 1], "limit_end": tabs["end"][rows, n_tab - 1]}
+    return tabs
+
+
+def _unique(*cols):
+    """Samples with equal element-law inputs (a sweep that varies the body mass, say) share one
+    table: indices of the distinct rows and, if there are repeats, each sample's row in them
+    (else None). Equal inputs give equal tables, so this changes no number."""
+    A = np.stack(np.broadcast_arrays(*cols), axis=1)
+    _, first, inv = np.unique(A, axis=0, return_index=True, return_inverse=True)
+    if first.size == A.shape[0]:
+        return slice(None), None
+    return first, inv.ravel()
+
+
+def _round_tables(kind, geo, th, sigma, liquid, density):
+    """Tables of one round type for S samples, as the round adapter builds them from
+    :func:`floatcalc.round.element_tables`, in SI: depth, force, contact (S, points), outer
+    contact radius of the K₀ field and own weight (S,)."""
+    from ..round import element_tables
+
+    t = element_tables(kind, contact_angle=th, liquid=liquid, surface_tension=sigma, material_density=density,
+                       points=POINTS, **geo)
+    F = t.force_N.copy()
+    F[:, -1] = np.maximum(t.max_force_N, F[:, -1])   # end at the refined limit force
+    if kind == "ring":
+        rc = np.broadcast_to(geo["ring_radius"] + geo["wire_radius"], sigma.shape).astype(float)
+    else:
+        rc = np.maximum(t.contact_radius_m, 1e-9)
+    return t.depth_m, F, t.contact_depth_m, rc, t.own_weight_N
+
+
+def _resample(groups, S):
+    """Every table row on a uniform depth grid of its own with as many points as the longest
+    table of its sample (as ``_common_tables`` and ``Support`` do together).
+
+    ``groups``: list of (depth, forces, contact, n): (S, w) depth and contact tables and a
+    tuple of force tables on that depth, valid over their first n (S,) entries, or n None for
+    tables already on POINTS even depths (round elements: no resampling needed, N is then
+    POINTS). Returns d0, step (S, r), N (S,), force, contact (S, r, POINTS), limit depth and
+    force (S, r), with one row per force table.
+    """
+    N = np.full(S, 2, dtype=np.int64)
+    for _, _, _, n in groups:
+        N = np.maximum(N, POINTS if n is None else n)
+    cols = np.arange(POINTS)
+    Nc = (N - 1)[:, None]
+    r = np.arange(S)
+    d0s, steps, Fs, Hs, lds, lfs = [], [], [], [], [], []
+    for D, forces, H, n in groups:
+        d0 = D[:, 0]
+        if n is None:       # already even (np.linspace per row): the grid is the table's own
+            d_last = D[:, -1]
+            step = (d_last - d0) / (POINTS - 1)
+            Fr, Hr, last = list(forces), H, [F[:, -1] for F in forces]
+        else:
+            n = n.astype(np.int64)
+            d_last = D[r, n - 1]
+            step = (d_last - d0) / (N - 1)
+            grid = np.minimum(d0[:, None] + step[:, None] * np.minimum(cols, Nc), d_last[:, None])
+            *Fr, Hr = _rows_interp(grid, D, (*forces, H), n)
+            last = [F[r, n - 1] for F in forces]
+        for F, lf in zip(Fr, last):
+            d0s.append(d0), steps.append(step), Fs.append(F), Hs.append(Hr), lds.append(d_last), lfs.append(lf)
+    st = lambda a: np.stack(a, axis=1)  # noqa: E731
+    return st(d0s), st(steps), N, st(Fs), st(Hs), st(lds), st(lfs)
 
 
 def _field(X, Y, cx, cy, ux, uy, half, w):
-    """Linearised outer field of a rod (as :func:`floatcalc.device.elements._rod_field`), arrays."""
+    """Linearised outer field of a rod (as :func:`floatcalc.elements._registry.rod_field`), arrays."""
     from scipy.special import k0e
 
     a = (X - cx) * ux + (Y - cy) * uy
@@ -137,12 +223,36 @@ def _field(X, Y, cx, cy, ux, uy, half, w):
     return out
 
 
+def _round_field(X, Y, cx, cy, rc):
+    """Linearised outer field K₀(r)/K₀(r_c) of a round element (as
+    :func:`floatcalc.elements._registry.axisym_field`), arrays [l_c]."""
+    from scipy.special import k0e
+
+    r = np.maximum(np.hypot(X - cx, Y - cy), rc)
+    return k0e(r) * np.exp(rc - r) / k0e(rc)
+
+
+@dataclass(frozen=True)
+class _Type:
+    """Elements that share one table (picklable)."""
+
+    kind: str
+    geo: tuple            # ((field, SI value), ...) of the kind's geometry
+    advancing: float
+    coating: dict
+    density: float
+    shield: float
+    nseg: int = 1
+
+
 @dataclass(frozen=True)
 class _Layout:
     """What the batch needs of a design, computed once (picklable)."""
 
-    types: tuple          # (radius, length, advancing, coating, segments) per rod type
+    types: tuple          # _Type per element type
+    first_row: tuple      # first table row of each type (rods: 2 rows, middle and end segments)
     elem_type: np.ndarray  # (E,)
+    is_rod: np.ndarray     # (E,) bool
     cx: np.ndarray
     cy: np.ndarray
     ux: np.ndarray
@@ -153,59 +263,126 @@ class _Layout:
     nseg: np.ndarray
     owner: np.ndarray      # (m,)
     seg_index: np.ndarray  # (m,) segment k of each point
-    row: np.ndarray        # (m,) table row: 2 t + (0 mid, 1 end)
-    hull_corners: np.ndarray  # indices (into E*4 corners) of the nominal support polygon, ccw
+    row: np.ndarray        # (m,) table row
+    across: np.ndarray     # (m,) offset across the heading (rods of a row) [m]
+    rods: np.ndarray       # (E,) rods of the element (a row: its count; else 1)
+    # footprints: vertex = centre + P1 s1 + P2 s2 (s1, s2 the sizes of each sample)
+    P1: np.ndarray         # (E, K, 2)
+    P2: np.ndarray
+    size0: np.ndarray      # (E, 2) nominal sizes (rod: half length, radius; round: footprint radius, 0)
+    size_by: np.ndarray    # (E, 2) which factor scales each size: 0 none, 1 radius, 2 length
+    size_add: np.ndarray   # (E, 2) fixed part of each size (a row's half spread)
+    axes: np.ndarray       # (E, 12, 2) edge normals of each footprint
+    hull_corners: np.ndarray  # indices (into E*K vertices) of the nominal support polygon, ccw
+    centres_hold: bool     # the body's centre of mass lies clearly inside the hull of element centres
+    shielding: tuple       # the factors used (those of the nominal layout)
 
 
-def _corners(half_l, half_w, cx, cy, ux, uy):
-    """Footprint corners (..., E, 4, 2) as the rod adapter draws them."""
-    c0 = np.stack([-half_l, half_l, half_l, -half_l], axis=-1)
-    c1 = np.stack([-half_w, -half_w, half_w, half_w], axis=-1)
-    fx = cx[..., None] + c0 * ux[..., None] - c1 * uy[..., None]
-    fy = cy[..., None] + c0 * uy[..., None] + c1 * ux[..., None]
-    return np.stack([fx, fy], axis=-1)
+def _footprint(kind, p, ux, uy):
+    """Unit vertex offsets P1, P2 (K, 2), sizes, size factors and edge normals (12, 2)."""
+    if kind in ("rod", "rod_row"):
+        a = np.array([-1.0, 1.0, 1.0, -1.0])
+        b = np.array([-1.0, -1.0, 1.0, 1.0])
+        P1 = np.column_stack([a * ux, a * uy])
+        P2 = np.column_stack([-b * uy, b * ux])
+        idx = np.minimum(np.arange(_K), 3)           # padded with the last corner
+        axes = np.array([[ux, uy], [-uy, ux]])[np.arange(12) % 2]
+        return P1[idx], P2[idx], (0.5 * p["length"], p["radius"]), (2, 1), axes
+    from ..elements import get_kind
+
+    t = np.linspace(0.0, 2.0 * np.pi, _K, endpoint=False)
+    P1 = np.column_stack([np.cos(t), np.sin(t)])
+    e = np.roll(P1, -1, axis=0) - P1
+    axes = np.column_stack([-e[:, 1], e[:, 0]])[:12]
+    axes = axes / np.hypot(axes[:, 0], axes[:, 1])[:, None]
+    r = get_kind(kind).footprint_radius(p)
+    return P1, np.zeros_like(P1), (r, 0.0), (0 if kind == "ring" else 1, 0), axes
 
 
 def layout(design, shielding=None) -> _Layout:
-    """Element types, geometry and point layout of an all-rod design.
+    """Element types, geometry and point layout of a design of :data:`BATCH_KINDS`.
 
     ``shielding``: each element's factor on its force table for neighbours that share its
     meniscus (:mod:`floatcalc.device.interact`), from the nominal design (default: solved here
     once); elements with different factors are different types.
     """
     from ..device.geometry import convex_hull
+    from ..elements import get_kind
 
     if shielding is None:
         from ..device.solve import Device
 
         shielding = Device.from_design(design).shielding
-    keys, types, et = {}, [], []
-    for p, f in zip(design.elements, shielding):
-        c = p["coating"]
-        key = (p["radius"], p["length"], c["advancing"], c.get("texture", "none"), c.get("roughness"),
-               c.get("solid_fraction"), p["segments"], float(f))
+    keys, types, et, first, nrows = {}, [], [], [], 0
+    legs = design.elements
+    for p, f in zip(legs, shielding):
+        kind, c = p["kind"], p["coating"]
+        if kind == "rod":
+            geo = (("radius", p["radius"]), ("length", p["length"]))
+            nseg, dens = p["segments"], 0.0   # a rod's own weight is computed here, not in its table
+        elif kind == "rod_row":
+            geo = (("radius", p["radius"]), ("length", p["length"]), ("rods", p["rods"]), ("spacing", p["spacing"]))
+            nseg, dens = p["segments"], 0.0
+        else:
+            geo = tuple((k, p[k]) for k in get_kind(kind).fields)
+            nseg, dens = 1, float(p["density"])
+        shield = float(f) if f < 1.0 else 1.0
+        # factors of like elements differ in their last digits (a symmetric layout solved
+        # numerically): one table serves them all, with an error of at most 1e-12 relative
+        key = (kind, geo, json.dumps(c, sort_keys=True, default=str), dens, nseg, float(f"{shield:.12e}"))
         if key not in keys:
             keys[key] = len(types)
-            types.append((p["radius"], p["length"], c["advancing"], dict(c), p["segments"], float(f)))
+            types.append(_Type(kind, geo, float(c["advancing"]), dict(c), dens, shield, nseg))
+            first.append(nrows)
+            nrows += 2 if kind in ("rod", "rod_row") else 1
         et.append(keys[key])
-    legs = design.elements
     arr = lambda f: np.array([f(p) for p in legs], dtype=float)  # noqa: E731
-    owner, seg, row = [], [], []
+    is_rod = np.array([p["kind"] in ("rod", "rod_row") for p in legs])
+    owner, seg, row, across = [], [], [], []
     for e, p in enumerate(legs):
-        n = p["segments"]
+        n = types[et[e]].nseg
+        if p["kind"] == "rod_row":   # rod k of the row, segment j; outer rods on the first table row
+            N = p["rods"]
+            for k in range(N):
+                for j in range(n):
+                    owner.append(e)
+                    seg.append(j)
+                    across.append((k - 0.5 * (N - 1)) * p["spacing"])
+                    row.append(first[et[e]] + (0 if k in (0, N - 1) else 1))
+            continue
         for k in range(n):
             owner.append(e)
             seg.append(k)
-            row.append(2 * et[e] + (1 if k in (0, n - 1) else 0))
-    ux, uy = arr(lambda p: math.cos(p["heading"])), arr(lambda p: math.sin(p["heading"]))
+            across.append(0.0)
+            row.append(first[et[e]] + (1 if is_rod[e] and k in (0, n - 1) else 0))
+    ux = arr(lambda p: math.cos(p["heading"]) if p["kind"] in ("rod", "rod_row") else 1.0)
+    uy = arr(lambda p: math.sin(p["heading"]) if p["kind"] in ("rod", "rod_row") else 0.0)
     cx, cy = arr(lambda p: p["position"][0]), arr(lambda p: p["position"][1])
-    corners = _corners(0.5 * arr(lambda p: p["length"]), arr(lambda p: p["radius"]), cx, cy, ux, uy).reshape(-1, 2)
-    hull = convex_hull(corners)
-    idx = np.array([int(np.argmin(np.hypot(*(corners - h).T))) for h in hull])
-    return _Layout(types=tuple(types), elem_type=np.array(et), cx=cx, cy=cy, ux=ux, uy=uy,
-                   tan_tilt=arr(lambda p: math.tan(p["tilt"])), mount=arr(lambda p: p["mount"]),
-                   density=arr(lambda p: p["density"]), nseg=arr(lambda p: p["segments"]).astype(int),
-                   owner=np.array(owner), seg_index=np.array(seg), row=np.array(row), hull_corners=idx)
+    fp = [_footprint(p["kind"], p, u, v) for p, u, v in zip(legs, ux, uy)]
+    P1 = np.stack([f[0] for f in fp])
+    P2 = np.stack([f[1] for f in fp])
+    size0 = np.array([f[2] for f in fp], dtype=float)
+    size_by = np.array([f[3] for f in fp], dtype=np.int64)
+    axes = np.stack([f[4] for f in fp])
+    # a row's half width: half the spread of its rods (fixed) plus the rod radius (scaled)
+    add = arr(lambda p: 0.5 * (p["rods"] - 1) * p["spacing"] if p["kind"] == "rod_row" else 0.0)
+    size_add = np.column_stack([np.zeros_like(add), add])
+    C = np.stack([cx, cy], axis=-1)[:, None, :]
+    sz = size0 + size_add
+    V = (C + P1 * sz[:, 0, None, None] + P2 * sz[:, 1, None, None]).reshape(-1, 2)
+    hull = convex_hull(V)
+    idx = np.array([int(np.argmin(np.hypot(*(V - h).T))) for h in hull])
+    xb, yb = design.body["centre_of_mass"]
+    ch = convex_hull(np.column_stack([cx, cy]))
+    centres_hold = bool(len(ch) >= 3 and _polygon_contains(ch[None], np.array([[xb, yb]]))[0])
+    return _Layout(types=tuple(types), first_row=tuple(first), elem_type=np.array(et), is_rod=is_rod,
+                   cx=cx, cy=cy, ux=ux, uy=uy,
+                   tan_tilt=arr(lambda p: math.tan(p["tilt"]) if p["kind"] == "rod" else 0.0),
+                   mount=arr(lambda p: p["mount"]), density=arr(lambda p: p["density"]), nseg=np.array([types[t].nseg for t in et], dtype=np.int64),
+                   owner=np.array(owner), seg_index=np.array(seg), row=np.array(row),
+                   across=np.array(across, dtype=float), rods=arr(lambda p: p.get("rods", 1) if p["kind"] == "rod_row" else 1),
+                   P1=P1, P2=P2, size0=size0, size_by=size_by, size_add=size_add, axes=axes, hull_corners=idx,
+                   centres_hold=centres_hold, shielding=tuple(float(f) for f in shielding))
 
 
 def _polygon_contains(poly, pt, rel: float = 1e-9):
@@ -221,27 +398,37 @@ def _polygon_contains(poly, pt, rel: float = 1e-9):
     return np.all(turn > tol, axis=1) & np.all(side > tol, axis=1)
 
 
-def _geometry_clear(lay: _Layout, half_l, half_w, xb, yb) -> np.ndarray:
+def _geometry_clear(lay: _Layout, rf, lf, xb, yb) -> np.ndarray:
     """Per sample: no two footprints come near overlapping, and the body centre of mass lies
     clearly inside the support polygon (S,) bool. False means: ask the scalar model."""
-    S, E = half_l.shape
-    C = _corners(half_l, half_w, np.broadcast_to(lay.cx, (S, E)), np.broadcast_to(lay.cy, (S, E)),
-                 np.broadcast_to(lay.ux, (S, E)), np.broadcast_to(lay.uy, (S, E)))   # (S, E, 4, 2)
+    S = rf.size
+    E = lay.cx.size
+    factor = np.stack([np.ones(S), rf, lf], axis=1)                     # (S, 3)
+    size = lay.size0[None] * factor[:, lay.size_by] + lay.size_add[None]   # (S, E, 2)
     ok = np.ones(S, dtype=bool)
+    scale = max(float(np.max(np.abs(np.concatenate([lay.cx, lay.cy])))), 1e-300) + np.max(size, axis=(1, 2))
     if E > 1:
         i, j = np.triu_indices(E, 1)
-        # separating axes of rectangles: each one's two edge directions (2E axes in all)
-        axes = np.stack([lay.ux, lay.uy, -lay.uy, lay.ux], -1).reshape(2 * E, 2)
-        proj = np.matmul(C, axes.T)                                   # (S, E, 4 corners, 2E axes)
-        lo, hi = proj.min(axis=2), proj.max(axis=2)                   # (S, E, 2E)
-        a = np.concatenate([2 * i[:, None] + [0, 1], 2 * j[:, None] + [0, 1]], axis=1)   # (P, 4)
-        gap = np.maximum(lo[:, j[:, None], a] - hi[:, i[:, None], a], lo[:, i[:, None], a] - hi[:, j[:, None], a])
-        scale = np.max(np.abs(C), axis=(1, 2, 3))
-        ok &= np.all(np.max(gap, axis=-1) > 1e-9 * scale[:, None], axis=1)
-    # the polygon of the nominal hull's corners lies inside this sample's hull: containing
-    # the centre of mass clearly is enough (otherwise the scalar model decides)
-    poly = C.reshape(S, -1, 2)[:, lay.hull_corners]
-    ok &= _polygon_contains(poly, np.broadcast_to(np.array([xb, yb]), (S, 2)))
+        dist = np.hypot(lay.cx[j] - lay.cx[i], lay.cy[j] - lay.cy[i])
+        circ = np.hypot(size[..., 0] * np.hypot(*lay.P1[:, 0].T), size[..., 1] * np.hypot(*lay.P2[:, 0].T))
+        far = dist[None] > (circ[:, i] + circ[:, j]) * (1.0 + 1e-9)    # circumcircles apart
+        near = ~np.all(far, axis=0)
+        if near.any():
+            i, j = i[near], j[near]
+            A = np.concatenate([lay.axes[i], lay.axes[j]], axis=1)      # (P, 24, 2) axes of both
+            def ext(e):  # half-extent of footprint e on each axis: s1 max(P1·a) + s2 max(P2·a)
+                g1 = np.max(np.einsum("pkc,pac->pka", lay.P1[e], A), axis=1)
+                g2 = np.max(np.einsum("pkc,pac->pka", lay.P2[e], A), axis=1)
+                return size[:, e, 0, None] * g1[None] + size[:, e, 1, None] * g2[None]   # (S, P, 24)
+            dc = np.abs(np.einsum("pc,pac->pa", np.stack([lay.cx[j] - lay.cx[i], lay.cy[j] - lay.cy[i]], -1), A))
+            gap = dc[None] - ext(i) - ext(j)
+            ok &= np.all(np.max(gap, axis=-1) > 1e-9 * scale[:, None], axis=1)
+    if not lay.centres_hold:
+        # the polygon of the nominal hull's corners lies inside this sample's hull: containing
+        # the centre of mass clearly is enough (otherwise the scalar model decides)
+        V = (np.stack([lay.cx, lay.cy], -1)[None, :, None, :] + lay.P1[None] * size[..., 0, None, None]
+             + lay.P2[None] * size[..., 1, None, None]).reshape(S, -1, 2)
+        ok &= _polygon_contains(V[:, lay.hull_corners], np.broadcast_to(np.array([xb, yb]), (S, 2)))
     return ok
 
 
@@ -262,55 +449,96 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
 
     liq = design.liquid
     g = liq.g
-    S = x["surface_tension"].size
     sigma = x["surface_tension"]
+    S = sigma.size
     lc = np.sqrt(sigma / (liq.rho * g))
     fs = sigma * lc
     rf, lf = x["radius_factor"], x["length_factor"]
-    E = len(design.elements)
-    tab_rows = []  # one per rod type; each gives two table rows (middle and end segments)
-    for t, (R0, L0, adv, coat, nseg, shield) in enumerate(lay.types):
-        th = _effective_angle(np.minimum(np.maximum(adv + x["contact_angle_shift"], 0.0), math.pi), coat)
-        tb = _rod_tables(R0 * rf / lc, th, L0 * lf / lc, nseg, 241)
-        if shield != 1.0:  # neighbours' shared meniscus (nominal layout), as Device.from_design
-            for k in ("mid", "end", "limit_mid", "limit_end"):
-                tb[k] = tb[k] * shield
-        tab_rows.append(tb)
-    F = np.stack([tb[k] for tb in tab_rows for k in ("mid", "end")], axis=1)          # (S, 2T, w)
-    H = np.stack([tb["contact"] for tb in tab_rows for _ in (0, 1)], axis=1)
-    per_row = lambda k: np.stack([tb[k] for tb in tab_rows for _ in (0, 1)], axis=1)  # noqa: E731
+    E = lay.cx.size
+    rows = []
+    rc = np.zeros((S, E))            # outer contact radius of round elements [m]
+    own = np.zeros((S, E))           # own weight [N]
+    lcc, fsc = lc[:, None], fs[:, None]
+    for t, ty in enumerate(lay.types):
+        th = _effective_angle(np.minimum(np.maximum(ty.advancing + x["contact_angle_shift"], 0.0), math.pi),
+                              ty.coating)
+        members = lay.elem_type == t
+        if ty.kind == "rod":
+            geo = dict(ty.geo)
+            Rs, Ls = geo["radius"] * rf / lc, geo["length"] * lf / lc
+            u, inv = _unique(Rs, th, Ls)
+            tb = _rod_tables(Rs[u], th[u], Ls[u], ty.nseg, POINTS)
+            if inv is not None:
+                tb = {k: v[inv] for k, v in tb.items()}
+            mid, end = tb["mid"], tb["end"]
+            if ty.shield < 1.0:  # neighbours' shared meniscus (nominal layout), as Device.from_design
+                mid, end = mid * ty.shield, end * ty.shield
+            rows.append((tb["depth"], (mid, end), tb["contact"], tb["n"]))
+        elif ty.kind == "rod_row":
+            from ..core.parallel2d_batch import row_tables
+
+            geo = dict(ty.geo)
+            Rs, Ls = geo["radius"] * rf / lc, geo["length"] * lf / lc
+            Sp = geo["spacing"] / lc
+            u, inv = _unique(Rs, th, Ls, Sp)
+            tb = row_tables(Rs[u], th[u], Sp[u], int(geo["rods"]), Ls[u], ty.nseg, POINTS)
+            if inv is not None:
+                tb = {k: v[inv] for k, v in tb.items()}
+            outer, inner = tb["outer"], tb["inner"]
+            if ty.shield < 1.0:
+                outer, inner = outer * ty.shield, inner * ty.shield
+            rows.append((tb["depth"], (outer, inner), tb["contact"], tb["n"]))
+        else:
+            geo = {k: np.broadcast_to(v * (rf if k == "radius" else lf if k == "length" else 1.0), (S,))
+                   for k, v in ty.geo}
+            u, inv = _unique(th, sigma, *geo.values())
+            out = _round_tables(ty.kind, {k: v[u] for k, v in geo.items()}, th[u], sigma[u], liq, ty.density)
+            D, F, H, r_c, w = out if inv is None else (v[inv] for v in out)
+            if ty.shield < 1.0:
+                F = F * ty.shield
+            rows.append((D / lcc, (F / fsc,), H / lcc, None))
+            rc[:, members] = r_c[:, None]
+            own[:, members] = w[:, None]
+    d0r, stepr, N, F, H, ldr, lfr = _resample(rows, S)
     row = lay.row
-    d0, step, n, lim_d = (per_row(k)[:, row] for k in ("d0", "step", "n", "limit_depth"))
-    lim_f = np.stack([tb[k] for tb in tab_rows for k in ("limit_mid", "limit_end")], axis=1)[:, row]
-    # geometry (SI, per sample), as the rod adapter and Device.support
-    radius = np.stack([lay.types[t][0] * rf for t in lay.elem_type], axis=1)        # (S, E)
-    length = np.stack([lay.types[t][1] * lf for t in lay.elem_type], axis=1)
+    d0, step, lim_d, lim_f = d0r[:, row], stepr[:, row], ldr[:, row], lfr[:, row]
+    n = np.broadcast_to(N[:, None], d0.shape).astype(np.int64)
+    # geometry (SI, per sample), as the adapters and Device.support
+    R0 = np.array([dict(lay.types[t].geo).get("radius", 0.0) for t in lay.elem_type])
+    L0 = np.array([dict(lay.types[t].geo)["length"] if lay.is_rod[e] else 0.0 for e, t in enumerate(lay.elem_type)])
+    radius = R0[None, :] * rf[:, None]                    # rods only are used below
+    length = L0[None, :] * lf[:, None]                    # zero for round elements (one central point)
     o = lay.owner
     nseg = lay.nseg[o]
     along = (lay.seg_index + 0.5)[None, :] / nseg[None, :] * length[:, o] - 0.5 * length[:, o]   # (S, m)
-    px = lay.cx[o] + along * lay.ux[o]
-    py = lay.cy[o] + along * lay.uy[o]
+    px = lay.cx[o] + along * lay.ux[o] + lay.across * -lay.uy[o]
+    py = lay.cy[o] + along * lay.uy[o] + lay.across * lay.ux[o]
     offs = along * lay.tan_tilt[o] - lay.mount[o]
-    X, Y = px / lc[:, None], py / lc[:, None]
-    Rl, Ll = radius / lc[:, None], length / lc[:, None]
-    Cpl = _field(X[:, :, None], Y[:, :, None], (lay.cx / lc[:, None])[:, None, :], (lay.cy / lc[:, None])[:, None, :],
-                 lay.ux, lay.uy, 0.5 * Ll[:, None, :], Rl[:, None, :])
+    X, Y = px / lcc, py / lcc
+    Cpl = np.zeros((S, o.size, E))
+    rods = np.flatnonzero(lay.is_rod)
+    if rods.size:
+        half_w = radius[:, rods] + lay.size_add[rods, 1][None, :]      # a row: its half width
+        Rl, Ll = half_w / lcc, length[:, rods] / lcc
+        Cpl[:, :, rods] = _field(X[:, :, None], Y[:, :, None], (lay.cx[rods] / lcc)[:, None, :],
+                                 (lay.cy[rods] / lcc)[:, None, :], lay.ux[rods], lay.uy[rods],
+                                 0.5 * Ll[:, None, :], Rl[:, None, :])
+        own[:, rods] = (lay.rods[rods] * lay.density[rods])[None, :] * math.pi * radius[:, rods] ** 2 * length[:, rods] * g
+    rnd = np.flatnonzero(~lay.is_rod)
+    if rnd.size:
+        Cpl[:, :, rnd] = _round_field(X[:, :, None], Y[:, :, None], (lay.cx[rnd] / lcc)[:, None, :],
+                                      (lay.cy[rnd] / lcc)[:, None, :], (rc[:, rnd] / lcc)[:, None, :])
     Cpl = np.where(o[:, None] == np.arange(E)[None, :], 0.0, Cpl)
-    bs = BatchSupport(x=X, y=Y, offset=offs / lc[:, None], d0=d0, step=step, n=n.astype(np.int64),
+    bs = BatchSupport(x=X, y=Y, offset=offs / lcc, d0=d0, step=step, n=n,
                       force=F, contact=H, row=row, limit_depth=lim_d, limit_force=lim_f, owner=o, coupling=Cpl)
-    own = lay.density[None, :] * math.pi * radius**2 * length * g                   # (S, E)
-    weight = x["body_mass"] * g + own.sum(axis=1)
     wb = x["body_mass"] * g
+    weight = wb + own.sum(axis=1)
     xb, yb = design.body["centre_of_mass"]
     A = _avg(o, E)
     cxm, cym = px @ A.T, py @ A.T   # (S, E) mean of each element's points
-    wt = wb + own.sum(axis=1)
-    xgs = (wb * xb + (own * cxm).sum(axis=1)) / wt
-    ygs = (wb * yb + (own * cym).sum(axis=1)) / wt
-    clear = _geometry_clear(lay, 0.5 * length, radius, xb, yb)
-    # Device.support stacks the element tables, so the scalar model needs tables of one length;
-    # samples whose rods differ go to it as they are (it decides what happens).
-    clear &= np.all(n == n[:, :1], axis=1)
+    xgs = (wb * xb + (own * cxm).sum(axis=1)) / weight
+    ygs = (wb * yb + (own * cym).sum(axis=1)) / weight
+    clear = _geometry_clear(lay, rf, lf, xb, yb)
     return bs, weight / fs, xgs / lc, ygs / lc, weight, fs, clear
 
 
@@ -323,7 +551,7 @@ def _avg(owner, E):
 
 @dataclass(frozen=True)
 class DeviceBatchFunc:
-    """Vectorised study callable of an all-rod design (see module docstring); picklable.
+    """Vectorised study callable of a design of :data:`BATCH_KINDS` (see module docstring); picklable.
 
     Takes the inputs of :data:`INPUTS` as broadcastable SI arrays and returns arrays of the
     broadcast shape.
@@ -355,21 +583,33 @@ class DeviceBatchFunc:
                 out[k][a:a + self.block] = res[k]
         return {k: v.reshape(shape) for k, v in out.items()}
 
+    def _scalar(self, lay, x, idx, res):
+        from .device_model import _DeviceFunc
+
+        scalar = _DeviceFunc(self.design, shielding=lay.shielding)
+        for i in idx:
+            r = scalar({k: float(v[i]) for k, v in x.items()})
+            for k in res:
+                res[k][i] = r[k]
+        return res
+
     def _block(self, lay, x):
         from ..core.equilibrium_batch import capacity_at_centre
+        from ..errors import InputError
 
         g = self.design.liquid.g
-        bs, W, xg, yg, weight, fs, clear = build(self.design, lay, x)
+        S = x[INPUTS[0]].size
+        try:
+            bs, W, xg, yg, weight, fs, clear = build(self.design, lay, x)
+        except InputError:
+            # an element law refused some sample: the scalar model raises its own error for it
+            res = {k: np.empty(S) for k in ("max_payload", "payload_mass", "spare_payload", "weight")}
+            return self._scalar(lay, x, range(S), res)
         P, _, ok = capacity_at_centre(bs, W, xg, yg)
         ok &= clear
         Pn = P * fs
         res = {"max_payload": Pn, "payload_mass": Pn / g, "spare_payload": Pn - x["payload_mass"] * g, "weight": weight}
         if not ok.all():
-            from .device_model import _DeviceFunc
-
-            scalar = _DeviceFunc(self.design)
-            for i in np.flatnonzero(~ok):
-                r = scalar({k: float(v[i]) for k, v in x.items()})
-                for k in res:
-                    res[k][i] = r[k]
+            self._scalar(lay, x, np.flatnonzero(~ok), res)
         return res
+

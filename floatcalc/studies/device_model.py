@@ -15,12 +15,14 @@ because a study needs only the capacity). Inputs, applied to every element at on
 Outputs: ``max_payload`` [N], its mass ``payload_mass`` [kg], ``spare_payload`` = max_payload −
 payload weight [N] (negative: sinks), and total ``weight`` [N] of body and legs.
 
-For designs whose elements are all straight rods the model is vectorised
-(``vectorised=True``): :class:`floatcalc.studies.device_batch.DeviceBatchFunc` builds the
-element laws and solves the capacity for whole arrays of points at once, with the same
-numbers as the scalar path (to 1e-6 relative, tests/test_device_batch.py). Other designs keep
-the scalar model (``vectorised=False``): the study layer loops over points, in chunks that
-run on any executor. Validity: that of :func:`floatcalc.device.solve_device`.
+For designs whose elements are of the kinds in
+:data:`floatcalc.studies.device_batch.BATCH_KINDS` (rods, rod rows, ball feet, pads, pins,
+rings) the model is vectorised (``vectorised=True``):
+:class:`floatcalc.studies.device_batch.DeviceBatchFunc` builds the element laws and solves the
+capacity for whole arrays of points at once, with the same numbers as the scalar path (to
+1e-8 relative, tests/test_device_batch_mixed.py). Designs with a flexible leg keep the scalar
+model (``vectorised=False``): the study layer loops over points, in chunks that run on any
+executor. Validity: that of :func:`floatcalc.device.solve_device`.
 """
 
 from __future__ import annotations

@@ -8,8 +8,9 @@ chunk order.
 * ``"serial"`` – in this process;
 * ``"local"`` – a persistent :class:`concurrent.futures.ProcessPoolExecutor` on the local
   cores, started once per process (``fork`` on Linux when no other thread runs, else
-  ``forkserver``), fed with groups of chunks that each run for ≥ ~0.2 s; a run too small to
-  gain from processes finishes in the calling process (see :func:`_run_local`);
+  ``forkserver``), fed with groups of chunks that each run for ≥ ~0.2 s; once it runs, its
+  workers start at once while the calling process times the first chunk; a run too small to
+  gain from processes otherwise finishes in the calling process (see :func:`_run_local`);
 * ``"dask"`` – an existing ``dask.distributed`` scheduler given by its address
   (``tcp://host:8786``), or a ``Client`` object. Dask is an optional dependency (the
   ``cluster`` extra), imported only here and only when asked for;
@@ -105,7 +106,8 @@ def chunk_size(total: int, largest: int, smallest: int, parts: int = 16) -> int:
 
 def run_chunks(fn: Callable[..., Any], tasks: Sequence[tuple], *, executor: str | None = "auto",
                scheduler: Any = None, workers: int | None = None, large: bool = False,
-               progress: bool | None = None, label: str = "study") -> list[Any]:
+               progress: bool | None = None, label: str = "study",
+               side: Callable[[], Any] | None = None) -> list[Any]:
     """Call ``fn(*task)`` for every task and return the results in task order.
 
     Parameters
@@ -123,20 +125,41 @@ def run_chunks(fn: Callable[..., Any], tasks: Sequence[tuple], *, executor: str 
         Hint for ``"auto"``: the run is big enough to be worth starting processes.
     progress : bool, optional
         Show the stderr bar; default only when stderr is a terminal.
+    side : callable, optional
+        Other work of the caller (no arguments; its result is dropped), called once in this
+        process: while worker processes or a cluster run the tasks, else after them, so that
+        the caller's own share of a study (its validity warnings, say) does not wait for them.
     """
     tasks = list(tasks)
     workers = check_workers(workers)
     kind = resolve(executor, scheduler, large=large, n_chunks=len(tasks), workers=workers)
     bar = Progress(len(tasks), label=label, enabled=progress)
+    once = _Once(side)
     if kind == "serial" or not tasks:
         out = []
         for t in tasks:
             out.append(fn(*t))
             bar.step()
+        once()
         return out
     if kind == "local":
-        return _run_local(fn, tasks, workers, bar)
-    return _run_dask(fn, tasks, scheduler, bar)
+        out = _run_local(fn, tasks, workers, bar, once)
+    else:
+        out = _run_dask(fn, tasks, scheduler, bar, once)
+    once()
+    return out
+
+
+class _Once:
+    """Call ``side`` at most once (see :func:`run_chunks`)."""
+
+    def __init__(self, side):
+        self.side = side
+
+    def __call__(self):
+        side, self.side = self.side, None
+        if side is not None:
+            side()
 
 
 #: A local run whose estimated remaining work (first task's time × tasks left) is below this
@@ -199,47 +222,73 @@ def _run_group(fn, group):
     return [fn(*t) for t in group]
 
 
-def _run_local(fn, tasks, workers, bar) -> list[Any]:
+def _warm_pool(n: int):
+    """The persistent pool if it already runs with ``n`` workers (else None: none is started)."""
+    pool = _POOL["pool"]
+    if pool is None or _POOL["key"] != n or getattr(pool, "_broken", False):
+        return None
+    return pool
+
+
+def _run_local(fn, tasks, workers, bar, side=lambda: None) -> list[Any]:
     """Tasks on the persistent pool, in groups of about :data:`TASK_MIN_S` seconds each.
 
-    The first task runs here and is timed: if the rest would take less than
+    The first task runs here and is timed. If the pool already runs, each worker starts at
+    once on one of the next tasks meanwhile (so that nothing waits for the timing; their
+    results are used whatever the timing says). If the rest would then take less than
     :data:`PARALLEL_MIN_S` seconds it also runs here (starting and feeding processes would
-    cost more). Otherwise the rest is cut into consecutive groups, each at least
-    :data:`TASK_MIN_S` long by that estimate and at least two per worker while there are
-    enough tasks, so that transfer costs are paid once per group, not per task. One group is
-    in flight per worker; while they run, this process takes groups from the back of the
-    queue itself. Grouping never changes a result: each task keeps its own arguments (and
-    seed), and results come back in task order. If the pool breaks (a worker killed), the
-    groups not yet done run here.
+    cost more; a cold pool is then not started). Otherwise the rest is cut into consecutive
+    groups, each at least :data:`TASK_MIN_S` long by that estimate and at least two per worker
+    while there are enough tasks, so that transfer costs are paid once per group, not per
+    task. One group is in flight per worker; while they run, this process does the caller's
+    ``side`` work (:func:`run_chunks`) and then takes groups from the back of the queue
+    itself. Grouping never changes a result: each task keeps its own
+    arguments (and seed), and results come back in task order. If the pool breaks (a worker
+    killed), the groups not yet done run here.
     """
     from collections import deque
     from concurrent.futures import FIRST_COMPLETED, wait
     from concurrent.futures.process import BrokenProcessPool
 
     n = min(workers or os.cpu_count() or 1, len(tasks))
+    warm = _warm_pool(n) if n > 1 and len(tasks) > 1 else None
+    early: list[list[tuple]] = []
+    inflight: dict[Any, int] = {}
+    if warm is not None:
+        try:
+            for i in range(1, min(n, len(tasks) - 1) + 1):
+                inflight[warm.submit(_run_group, fn, [tasks[i]])] = len(early)
+                early.append([tasks[i]])
+        except (BrokenProcessPool, RuntimeError):
+            shutdown_pool()
+            inflight.clear()
+            early = []
     t = time.perf_counter()
     first = fn(*tasks[0])
     t_first = time.perf_counter() - t
     bar.step()
-    rest = tasks[1:]
+    rest = tasks[1 + len(early):]
     if n <= 1 or not rest or t_first * len(rest) < PARALLEL_MIN_S:
-        out = [first]
-        for task in rest:
-            out.append(fn(*task))
-            bar.step()
-        return out
-    per = max(1, math.ceil(TASK_MIN_S / max(t_first, 1e-9)))
-    per = min(per, max(1, len(rest) // (2 * n)))  # keep every worker busy to the end
-    groups = [rest[i:i + per] for i in range(0, len(rest), per)]
+        groups = early + [[task] for task in rest]
+        pending = deque()
+        local_only = range(len(early), len(groups))
+    else:
+        per = max(1, math.ceil(TASK_MIN_S / max(t_first, 1e-9)))
+        per = min(per, max(1, len(rest) // (2 * n)))  # keep every worker busy to the end
+        groups = early + [rest[i:i + per] for i in range(0, len(rest), per)]
+        pending = deque(range(len(early), len(groups)))
+        local_only = range(0)
     done: list[Any] = [None] * len(groups)
-    pending = deque(range(len(groups)))
-    inflight: dict[Any, int] = {}
     try:
-        pool = local_pool(n)
+        for i in local_only:
+            done[i] = _run_group(fn, groups[i])
+            bar.step(len(groups[i]))
+        pool = local_pool(n) if pending else None
         while pending or inflight:
             while pending and len(inflight) < n:
                 i = pending.popleft()
                 inflight[pool.submit(_run_group, fn, groups[i])] = i
+            side()   # the caller's own work while the workers run (once)
             if pending:  # help: run the last waiting group here
                 i = pending.pop()
                 done[i] = _run_group(fn, groups[i])
@@ -260,7 +309,7 @@ def _run_local(fn, tasks, workers, bar) -> list[Any]:
     return [first] + [r for grp in done for r in grp]
 
 
-def _run_dask(fn, tasks, scheduler, bar) -> list[Any]:
+def _run_dask(fn, tasks, scheduler, bar, side=lambda: None) -> list[Any]:
     try:
         from dask.distributed import Client
     except ImportError:
@@ -278,6 +327,7 @@ def _run_dask(fn, tasks, scheduler, bar) -> list[Any]:
         client = scheduler
     try:
         futs = [client.submit(fn, *t, pure=False) for t in tasks]
+        side()   # the caller's own work while the cluster runs (once)
         results: list[Any] = []
         for f in futs:  # in chunk order (each future knows its client; no default client needed)
             results.append(f.result())

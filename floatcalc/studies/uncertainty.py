@@ -276,8 +276,14 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     from .executors import resolve
 
     kind = resolve(executor, scheduler, large=large, n_chunks=n_chunks, workers=workers)
+    own: dict[str, Any] = {}
+
+    def side():  # this process's share (validity of the base design, nominal capacity), done while workers run
+        own["warnings"] = list(model.warnings(fixed_all))
+        own["nominal"] = float(model.evaluate(dict(values or {}))[capacity_output])
+
     parts = run_chunks(_chunk, tasks, executor=kind if kind != "dask" else "auto", scheduler=scheduler,
-                       workers=workers, large=large, progress=progress, label="uncertainty")
+                       workers=workers, large=large, progress=progress, label="uncertainty", side=side)
     cap = np.concatenate([p[0] for p in parts])
     spare = np.concatenate([p[1] for p in parts])
     clipped = sum(p[2] for p in parts)
@@ -294,12 +300,12 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     batches = np.array_split(cap, nb)
     qb = np.array([np.percentile(b, pct) for b in batches])
     qse = qb.std(axis=0, ddof=1) / math.sqrt(nb)
-    warnings = list(model.warnings(fixed_all))
+    warnings = own["warnings"]
     if clipped:
         warnings.append(f"{clipped} sampled input value(s) fell outside their allowed range and were clipped to it")
     if k and k < 30:
         warnings.append(f"only {k} of {N} samples sink: the probability is rough; use more samples")
-    nominal = float(model.evaluate(dict(values or {}))[capacity_output])
+    nominal = own["nominal"]
     from ..units import Q_
 
     desc = [f"{name}: {d.describe(model.inputs[name].kind, model.inputs[name].unit)}" for name, d in dists]
