@@ -65,6 +65,16 @@ class Support:
         self._rows = np.arange(m)
         self._n = n
         self._FH = np.stack([self._F, self._H])
+        # flat tables for the lookup: value at the segment start and its increment, indexed by
+        # row * n + k (one gather per quantity instead of fancy indexing over two axes)
+        self._base = self._rows * n
+        dF = np.zeros_like(self._F)
+        dH = np.zeros_like(self._H)
+        dF[:, :-1] = self._F[:, 1:] - self._F[:, :-1]
+        dH[:, :-1] = self._H[:, 1:] - self._H[:, :-1]
+        self._Ff, self._dFf = self._F.ravel(), dF.ravel()
+        self._Hf, self._dHf = self._H.ravel(), dH.ravel()
+        self._inv_step = 1.0 / self._step
         # coupling C (m × E) times the averaging over each element's points (E × m)
         n_el = self.coupling.shape[1]
         counts = np.bincount(self.owner, minlength=n_el).astype(float)
@@ -73,21 +83,31 @@ class Support:
         self._CA = self.coupling @ A
         self._coupled = bool(np.any(self.coupling))
 
+    def _where(self, e):
+        """Flat table index, fraction within the segment and the touching mask at depths e."""
+        u = (e - self._d0) / self._step
+        u = np.where(u > -1.0, u, -1.0)            # NaN -> not touching
+        np.minimum(u, float(self._n), out=u)
+        k = np.maximum(np.minimum(u.astype(np.intp), self._n - 2), 0)
+        t = np.minimum(np.maximum(u - k, 0.0), 1.0)
+        return self._base + k, t, u
+
     def lookup(self, e, slopes: bool = False):
         """Force and contact depth of every point at effective depths e (linear, clamped at the
         limit, zero before first contact); with ``slopes`` also dF/de."""
-        u = (e - self._d0) / self._step
-        u = np.minimum(np.maximum(np.where(u == u, u, -1.0), -1.0), float(self._n))  # NaN -> not touching
-        k = np.minimum(np.maximum(u.astype(int), 0), self._n - 2)
-        t = np.minimum(np.maximum(u - k, 0.0), 1.0)
-        T0 = self._FH[:, self._rows, k]
-        T1 = self._FH[:, self._rows, k + 1]
+        i, t, u = self._where(e)
         on = u >= 0.0
-        F, H = (T0 + t * (T1 - T0)) * on
+        F = (self._Ff[i] + t * self._dFf[i]) * on
+        H = (self._Hf[i] + t * self._dHf[i]) * on
         if slopes:
             inside = on & (u < self._n - 1)
-            return F, H, (T1[0] - T0[0]) / self._step * inside
+            return F, H, self._dFf[i] / self._step * inside
         return F, H
+
+    def lookup_contact(self, e):
+        """Contact depth only (as :meth:`lookup`), for the coupling iterations."""
+        i, t, u = self._where(e)
+        return (self._Hf[i] + t * self._dHf[i]) * (u >= 0.0)
 
     @property
     def limit_depth(self) -> np.ndarray:
@@ -120,8 +140,7 @@ def point_state(sup: Support, z: float, p: float, q: float):
     # contraction with factor about max_j Σ_e C_je ≲ 0.3 for elements a capillary length apart).
     s = np.zeros_like(d)
     for _ in range(sup.coupling_iters):
-        _, h = sup.lookup(d - s)
-        s = sup._CA @ h
+        s = sup._CA @ sup.lookup_contact(d - s)
     e = d - s
     F, h = sup.lookup(e)
     return d, e, F, h

@@ -60,8 +60,12 @@ class Device:
     names: tuple
     #: device-level warnings of the model (shared menisci of close elements)
     notes: tuple = ()
-    #: shielding factor of each element (its limit with neighbours over its limit alone)
+    #: shielding factor of each element (its limit with neighbours over its table's limit)
     shielding: tuple = ()
+    #: clusters solved together by the interaction model (element indices): a rod takes no
+    #: superposition coupling from a member within reach (device.interact: the solved meniscus
+    #: has it)
+    groups: tuple = ()
 
     @property
     def liquid(self):
@@ -92,13 +96,16 @@ class Device:
                                       "footprints overlap; move or turn one of them, or set a larger "
                                       "layout_radius or spacing", f"'{names[i]}' and '{names[j]}'")
         from .interact import shielding as _shield
+        from .interact import solved_groups
 
         shielding_given, shielding = shielding, _shield
         kinds = [p["kind"] for p in design.elements]
+        groups: list = []
         if shielding_given is None:
-            factors, notes = shielding(models, kinds, liq, names)
+            factors, notes = shielding(models, kinds, liq, names, groups_out=groups)
         else:
             factors, notes = np.asarray(shielding_given, dtype=float), []
+            groups = solved_groups(models, kinds, liq.lc)
         for m, f in zip(models, factors):
             if f < 1.0:
                 m.force = m.force * f
@@ -108,7 +115,7 @@ class Device:
             raise input_error("body.centre_of_mass", "must lie inside the support polygon (the convex "
                               "outline of all elements)", f"[{xg * 1e3:.4g} mm, {yg * 1e3:.4g} mm]")
         return cls(design=design, models=tuple(models), names=tuple(names), notes=tuple(notes),
-                   shielding=tuple(float(f) for f in factors))
+                   shielding=tuple(float(f) for f in factors), groups=tuple(tuple(g) for g in groups))
 
     # -- numeric core input -------------------------------------------------------------
     def support(self):
@@ -123,6 +130,19 @@ class Device:
             f = m.field(pts[:, 0] * lc, pts[:, 1] * lc)
             f = np.where(owner == e, 0.0, f)
             C[:, e] = f
+        if self.groups:  # the solved meniscus replaces superposition between close cluster members
+            from .geometry import polygon_distance
+            from .interact import REACH_LC
+
+            kinds = [p["kind"] for p in self.design.elements]
+            for g in self.groups:
+                for i in g:
+                    if kinds[i] != "rod":
+                        continue
+                    for e in g:
+                        if e != i and polygon_distance(self.models[i].footprint,
+                                                       self.models[e].footprint) < REACH_LC * lc:
+                            C[owner == i, e] = 0.0
         depth, force, contact = _common_tables(self.models)
         return Support(
             x=pts[:, 0], y=pts[:, 1],

@@ -2,9 +2,11 @@
 shared-meniscus solution says (Vella, Lee & Kim, Langmuir 22, 5979, 2006; core.parallel2d,
 turning-point first integral), not what far-apart rods carry.
 
-Tolerance 2 %: the rods are 100 mm ≈ 37 l_c long, so their ends (bounded end term of
-core.finite_rod against the 3D ends of the solved model) move the total by about 1 %; the
-shielding factor is solved with the 3D interaction model (core.interactions).
+Tolerance 2 %: the rods are 100 mm ≈ 37 l_c long, so their ends move the total: the device
+carries what the solved 3D meniscus of the cluster gives (core.interactions), and near the ends
+a shared meniscus is relieved (measured: 1.2 % above 2D × L for two rods at a 0.55 l_c gap,
+1.7 % for three at 0.5 l_c, half that for rods twice as long; panels 1, 2 and 4 per l_c agree
+within 0.06 %).
 """
 
 from __future__ import annotations
@@ -28,7 +30,8 @@ def row(n: int, gap_lc: float):
          "length": "100 mm", "material": "steel", "coating": {"advancing": f"{THETA} deg"}}]})
 
 
-@pytest.mark.parametrize("n,gap_lc", [(2, 0.55), (2, 1.0), (2, 1.65), (2, 3.0), (2, 6.0), (3, 1.5)])
+@pytest.mark.parametrize("n,gap_lc", [(2, 0.55), (2, 1.0), (2, 1.65), (2, 3.0), (2, 6.0), (3, 0.5), (3, 1.5),
+                                      (3, 4.0)])
 def test_parallel_rods_in_a_device_match_the_exact_shared_meniscus(n, gap_lc):
     S, d = row(n, gap_lc)
     cap = fc.solve_device(d).capacity.to("N").magnitude
@@ -36,14 +39,18 @@ def test_parallel_rods_in_a_device_match_the_exact_shared_meniscus(n, gap_lc):
     assert cap == pytest.approx(exact, rel=0.02)
 
 
-def test_three_close_rods_on_the_safe_side():
-    # Known shortfall, reported: three rods at a 0.5 l_c gap come out 3.7 % BELOW the exact 2D
-    # row (the 3D cluster limit of core.interactions is 4.7 % under 2D × L there), outside the
-    # 2 % aimed at but on the safe side; asserted as such so that a change is noticed.
+def test_close_rods_are_not_counted_twice():
+    # Inside a solved cluster the solved meniscus replaces the superposed linear menisci: the
+    # rods take no superposition coupling from each other, so the middle rod of three reaches
+    # its (shielded) limit together with the outer ones instead of lagging behind their
+    # superposed depression (which put the device 3.7 % below the exact row before).
     S, d = row(3, 0.5)
-    cap = fc.solve_device(d).capacity.to("N").magnitude
-    exact = parallel2d.row_limit(R / W.lc, math.radians(THETA), S / W.lc, 3)["force"] * W.sigma * L
-    assert 0.95 * exact <= cap <= exact
+    r = fc.solve_device(d)
+    sup = r.device.support()
+    assert r.device.groups == ((0, 1, 2),)
+    assert not sup.coupling.any()
+    u = [e.utilisation for e in r.elements]
+    assert max(u) - min(u) < 1e-9
 
 
 def test_capacity_falls_as_rods_come_closer():
