@@ -130,19 +130,9 @@ class Device:
             f = m.field(pts[:, 0] * lc, pts[:, 1] * lc)
             f = np.where(owner == e, 0.0, f)
             C[:, e] = f
-        if self.groups:  # the solved meniscus replaces superposition between close cluster members
-            from .geometry import polygon_distance
-            from .interact import REACH_LC
-
-            kinds = [p["kind"] for p in self.design.elements]
-            for g in self.groups:
-                for i in g:
-                    if kinds[i] != "rod":
-                        continue
-                    for e in g:
-                        if e != i and polygon_distance(self.models[i].footprint,
-                                                       self.models[e].footprint) < REACH_LC * lc:
-                            C[owner == i, e] = 0.0
+        pairs = self.solved_pairs()
+        if pairs.any():  # the solved meniscus replaces superposition between close cluster members
+            C[pairs[owner]] = 0.0
         depth, force, contact = _common_tables(self.models)
         return Support(
             x=pts[:, 0], y=pts[:, 1],
@@ -152,6 +142,26 @@ class Device:
             contact=contact / lc,
             owner=owner, coupling=C,
         )
+
+    def solved_pairs(self) -> np.ndarray:
+        """(E, E) bool: rod i takes no superposition coupling from element e (both in one
+        cluster solved by the interaction model, footprints within its reach)."""
+        n = len(self.models)
+        out = np.zeros((n, n), dtype=bool)
+        if not self.groups:
+            return out
+        from .geometry import polygon_distance
+        from .interact import REACH_LC
+
+        reach = REACH_LC * self.liquid.lc
+        for g in self.groups:
+            for i in g:
+                if self.design.elements[i]["kind"] != "rod":
+                    continue
+                for e in g:
+                    if e != i and polygon_distance(self.models[i].footprint, self.models[e].footprint) < reach:
+                        out[i, e] = True
+        return out
 
     @property
     def weight(self) -> float:

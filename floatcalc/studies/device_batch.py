@@ -155,6 +155,7 @@ class _Layout:
     seg_index: np.ndarray  # (m,) segment k of each point
     row: np.ndarray        # (m,) table row: 2 t + (0 mid, 1 end)
     hull_corners: np.ndarray  # indices (into E*4 corners) of the nominal support polygon, ccw
+    solved_pairs: np.ndarray = None  # (E, E) no superposition coupling (Device.solved_pairs, nominal)
 
 
 def _corners(half_l, half_w, cx, cy, ux, uy):
@@ -175,10 +176,10 @@ def layout(design, shielding=None) -> _Layout:
     """
     from ..device.geometry import convex_hull
 
-    if shielding is None:
-        from ..device.solve import Device
+    from ..device.solve import Device
 
-        shielding = Device.from_design(design).shielding
+    dev = Device.from_design(design) if shielding is None else Device.from_design(design, shielding=shielding)
+    shielding = dev.shielding
     keys, types, et = {}, [], []
     for p, f in zip(design.elements, shielding):
         c = p["coating"]
@@ -205,7 +206,8 @@ def layout(design, shielding=None) -> _Layout:
     return _Layout(types=tuple(types), elem_type=np.array(et), cx=cx, cy=cy, ux=ux, uy=uy,
                    tan_tilt=arr(lambda p: math.tan(p["tilt"])), mount=arr(lambda p: p["mount"]),
                    density=arr(lambda p: p["density"]), nseg=arr(lambda p: p["segments"]).astype(int),
-                   owner=np.array(owner), seg_index=np.array(seg), row=np.array(row), hull_corners=idx)
+                   owner=np.array(owner), seg_index=np.array(seg), row=np.array(row), hull_corners=idx,
+                   solved_pairs=dev.solved_pairs())
 
 
 def _polygon_contains(poly, pt, rel: float = 1e-9):
@@ -296,6 +298,8 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
     Cpl = _field(X[:, :, None], Y[:, :, None], (lay.cx / lc[:, None])[:, None, :], (lay.cy / lc[:, None])[:, None, :],
                  lay.ux, lay.uy, 0.5 * Ll[:, None, :], Rl[:, None, :])
     Cpl = np.where(o[:, None] == np.arange(E)[None, :], 0.0, Cpl)
+    if lay.solved_pairs is not None and lay.solved_pairs.any():  # as Device.support
+        Cpl = np.where(lay.solved_pairs[o], 0.0, Cpl)
     bs = BatchSupport(x=X, y=Y, offset=offs / lc[:, None], d0=d0, step=step, n=n.astype(np.int64),
                       force=F, contact=H, row=row, limit_depth=lim_d, limit_force=lim_f, owner=o, coupling=Cpl)
     own = lay.density[None, :] * math.pi * radius**2 * length * g                   # (S, E)
