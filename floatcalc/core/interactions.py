@@ -125,6 +125,7 @@ _FD_FINE = 1e-7     # ... once the residual is small
 _HMIN = 2.0         # smallest side panel near a rod end, in rod radii
 _CHORD_RATE = 0.3   # refresh the factorised Jacobian when a chord step contracts less
 _GROWTH = 2.0       # growth of the side panels away from a rod end
+_END_FACE = 1       # panels across a rod's end face (at least)
 
 
 @dataclass(frozen=True)
@@ -265,7 +266,8 @@ def _graded_nodes(L, h_min, h_max, growth=1.5):
     return -0.5 * L + np.concatenate([[0.0], np.cumsum(allsz)])
 
 
-def _rod_panels(rod: RodBody, ppl: float, end_panel: float = None, growth: float = None):
+def _rod_panels(rod: RodBody, ppl: float, end_panel: float = None, growth: float = None,
+                end_face: int = None):
     """Panels of one rod: side panels on both long sides, then end-face panels."""
     R, L = rod.radius, rod.length
     h_max = 1.0 / ppl
@@ -285,7 +287,7 @@ def _rod_panels(rod: RodBody, ppl: float, end_panel: float = None, growth: float
         out["s"].append(0.5 * (a + b))
         out["kind"].append(np.zeros(a.size, dtype=int))
         out["w"].append(np.ones(a.size))
-    n_end = max(1, int(math.ceil(2 * R / h_max - 1e-9)))
+    n_end = max(end_face or _END_FACE, int(math.ceil(2 * R / h_max - 1e-9)))
     y = np.linspace(-R, R, n_end + 1)
     for end in (1.0, -1.0):
         e = 0.5 * L * end
@@ -388,8 +390,9 @@ class Layout:
     """
 
     def __init__(self, bodies: Sequence[RodBody | RoundBody], panels_per_lc: float = 1.0, *,
-                 end_panel: float | None = None, growth: float | None = None, _two_d=None):
-        self._mesh = (end_panel, growth)
+                 end_panel: float | None = None, growth: float | None = None, end_face: int | None = None,
+                 _two_d=None):
+        self._mesh = (end_panel, growth, end_face)
         self.bodies = list(bodies)
         self.n_bodies = len(self.bodies)
         self.two_d = _two_d is not None
