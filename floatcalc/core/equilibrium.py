@@ -104,6 +104,12 @@ class Support:
             return F, H, self._dFf[i] / self._step * inside
         return F, H
 
+    def contact_and_slope(self, e):
+        """Contact depth (as :meth:`lookup_contact`) and its slope dh/de (zero outside)."""
+        i, t, u = self._where(e)
+        on = u >= 0.0
+        return (self._Hf[i] + t * self._dHf[i]) * on, self._dHf[i] / self._step * (on & (u < self._n - 1))
+
     def lookup_contact(self, e):
         """Contact depth only (as :meth:`lookup`), for the coupling iterations."""
         i, t, u = self._where(e)
@@ -151,12 +157,34 @@ def _residual(sup, u, W, xg, yg):
     return np.array([F.sum() - W, F @ sup.x - W * xg, F @ sup.y - W * yg]) / W, e
 
 
+def _depth_sensitivity(sup: Support, u, X):
+    """de/du · (columns of Xᵀ): how the effective depths move with heave, pitch and roll,
+    through the same truncated coupling iteration as :func:`point_state` (s₀ = 0,
+    s_{k+1} = C·A·h(d − s_k), so ∂s_{k+1} = C·A·diag(h′(d − s_k))·(∂d − ∂s_k))."""
+    Xt = X.T
+    if not sup._coupled:
+        return Xt
+    d = u[0] + u[1] * sup.x + u[2] * sup.y + sup.offset
+    s = np.zeros_like(d)
+    V = np.zeros_like(Xt)
+    for _ in range(sup.coupling_iters):
+        h, hp = sup.contact_and_slope(d - s)
+        V = sup._CA @ (hp[:, None] * (Xt - V))
+        s = sup._CA @ h
+    return Xt - V
+
+
 def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, max_iter: int = 80,
           start=None):
     """Heave, pitch and roll slopes (z, p, q) that carry weight W [σ l_c] at (x_G, y_G) [l_c].
 
     Points past their own limit are held at their limit force, so the solve still converges;
     the caller decides from the returned effective depths whether an element has given way.
+
+    Method: a level start (heave alone, Illinois regula falsi on the total force, which rises
+    with heave), then Newton's method on (z, p, q) with the Jacobian of the force and moment
+    balance through the coupling iteration (:func:`_depth_sensitivity`; the tables are linear
+    between their points, so Newton is exact within a table segment) and step halving.
 
     Returns
     -------
@@ -181,28 +209,20 @@ def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, m
     if W >= float(sup.limit_force.sum()):
         raise ConvergenceError("the load exceeds the sum of all element limits")
     if start is None:
-        # level start: bisection on heave until the level device carries W
-        lo, hi = float(np.min(sup.depth[:, 0] - sup.offset)) - 1.0, float(np.max(sup.limit_depth - sup.offset)) + 1.0
-        for _ in range(48):
-            mid = 0.5 * (lo + hi)
-            _, _, F, _ = point_state(sup, mid, 0.0, 0.0)
-            lo, hi = (mid, hi) if F.sum() < W else (lo, mid)
-        u = np.array([0.5 * (lo + hi), 0.0, 0.0])
+        u = np.array([_level_heave(sup, W), 0.0, 0.0])
     else:
         u = np.asarray(start, dtype=float).copy()
+    X = np.stack([np.ones_like(sup.x), sup.x, sup.y])
     r, e = _residual(sup, u, W, xg, yg)
     for _ in range(max_iter):
         nr = np.linalg.norm(r)
         if nr < tol:
             return u, e
-        # Jacobian of the uncoupled balance from the table slopes (the weak coupling only
-        # slows Newton's convergence to linear, it does not move the solution).
         k = sup.lookup(e, slopes=True)[2]
         # points past their limit or not yet touching have zero slope; a small floor keeps
         # the Jacobian regular (it only steers the iteration)
         k = np.maximum(k, 1e-3 * max(float(np.mean(np.abs(k))), 1e-12))
-        X = np.stack([np.ones_like(sup.x), sup.x, sup.y])
-        J = (X * k) @ X.T / W
+        J = (X * k) @ _depth_sensitivity(sup, u, X) / W
         try:
             step = np.linalg.solve(J, -r)
         except np.linalg.LinAlgError:
@@ -224,6 +244,40 @@ def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, m
     raise ConvergenceError(
         f"device equilibrium did not converge (force/moment residual {np.linalg.norm(r):.2g} of the weight)"
     )
+
+
+def _level_heave(sup: Support, W: float) -> float:
+    """Heave at which the level device carries W: Illinois regula falsi on the total force
+    (non-decreasing in heave) over the whole table range, to 1e-13 of that range."""
+    lo = float(np.min(sup.depth[:, 0] - sup.offset)) - 1.0
+    hi = float(np.max(sup.limit_depth - sup.offset)) + 1.0
+
+    def f(z):
+        return float(point_state(sup, z, 0.0, 0.0)[2].sum()) - W
+
+    flo, fhi = f(lo), f(hi)
+    if not (flo < 0.0 <= fhi):
+        return 0.5 * (lo + hi)
+    span = hi - lo
+    side = 0
+    for _ in range(100):
+        z = hi - fhi * (hi - lo) / (fhi - flo) if fhi != flo else 0.5 * (lo + hi)
+        if not (lo < z < hi):
+            z = 0.5 * (lo + hi)
+        fz = f(z)
+        if fz < 0.0:
+            lo, flo = z, fz
+            if side == -1:
+                fhi *= 0.5
+            side = -1
+        else:
+            hi, fhi = z, fz
+            if side == 1:
+                flo *= 0.5
+            side = 1
+        if hi - lo < 1e-13 * span or abs(fz) < 1e-14 * max(W, 1e-300):
+            break
+    return 0.5 * (lo + hi) if hi - lo < 1e-13 * span else z
 
 
 def utilisation(sup: Support, e) -> np.ndarray:

@@ -150,18 +150,25 @@ class Device:
         out = np.zeros((n, n), dtype=bool)
         if not self.groups:
             return out
-        from .geometry import polygon_distance
+        cached = self.__dict__.get("_pairs")
+        if cached is not None:
+            return cached.copy()
+        from .geometry import near_pairs, polygon_distance
         from .interact import REACH_LC
 
         reach = REACH_LC * self.liquid.lc
-        for g in self.groups:
-            for i in g:
-                if self.design.elements[i]["kind"] != "rod":
-                    continue
-                for e in g:
-                    if e != i and polygon_distance(self.models[i].footprint, self.models[e].footprint) < reach:
-                        out[i, e] = True
-        return out
+        member = np.full(n, -1)
+        for k, g in enumerate(self.groups):
+            member[list(g)] = k
+        rod = np.array([p["kind"] == "rod" for p in self.design.elements])
+        for i, j in near_pairs([m.footprint for m in self.models], reach):
+            if member[i] < 0 or member[i] != member[j] or not (rod[i] or rod[j]):
+                continue
+            if polygon_distance(self.models[i].footprint, self.models[j].footprint) < reach:
+                out[i, j] = rod[i]
+                out[j, i] = rod[j]
+        object.__setattr__(self, "_pairs", out)   # geometry only: computed once per device
+        return out.copy()
 
     @property
     def weight(self) -> float:
