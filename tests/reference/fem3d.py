@@ -96,6 +96,7 @@ __all__ = [
     "stadium", "rectangle", "disc", "annulus", "Body", "dirichlet_body", "rod_body",
     "build_mesh", "solve", "reference", "disc_linear_force", "Solution", "finite_strip_force",
     "parallel_strips", "two_strips", "crossing_strips", "strip_beside_disc", "parallel_rods",
+    "ball_body",
 ]
 
 MAX_ARC_ANGLE = 0.05  # [rad] largest chord angle on arcs at level 0 (curved P2 geometry)
@@ -263,6 +264,15 @@ def rod_body(center, heading: float, length: float, R: float, D: float, theta: f
     shape = (stadium if ends == "stadium" else rectangle)(center[0], center[1], heading, length, half)
     return Body((shape,), "rod", 0.0, (float(R), float(D), float(theta)), name,
                 ends if ends in ("flat", "wall") else "round", wall_slope, half - w0)
+
+
+def ball_body(center, a: float, D: float, theta: float, r_c: float, *, name: str = "") -> Body:
+    """Sphere of radius a (lowest point at depth D, contact angle θ [rad]) on a disc footprint
+    of radius r_c, held fixed (the contact line's plan radius a sin φ moves with φ; neglected,
+    as for rods): the sphere's section through its axis is the rod's circle, so its contact
+    condition is the rod's flux law sin ψ = g(h) with R → a (module docstring). Nonlinear
+    problem only (the linear initial guess uses the rod's Robin form with w₀ = a sin(π − θ))."""
+    return Body((disc(center[0], center[1], r_c),), "rod", 0.0, (float(a), float(D), float(theta)), name)
 
 
 def _end_facets(md, body, facets):

@@ -58,3 +58,21 @@ def test_capacity_falls_as_rods_come_closer():
     assert caps == sorted(caps) and caps[0] < 0.8 * caps[-1]
     r = fc.solve_device(row(2, 0.55)[1])
     assert any("lower its limit" in w for w in r.warnings)
+
+
+def test_crossing_rods_are_refused_not_guessed():
+    # The interaction model solves rods that do not cross; crossing rods (one footprint over
+    # the other) would need the contact lines' junction, which neither it nor superposition
+    # has: the device refuses them with a one-line input error (safe side: no number).
+    from floatcalc.core import interactions as ia
+    from floatcalc.errors import InputError
+
+    d = design_from_data({"schema_version": 2, "body": {"mass": "0 g"}, "elements": [
+        {"kind": "rod", "name": "a", "position": ["0 mm", "0 mm"], "heading": "0 deg", "radius": "0.2 mm",
+         "length": "20 mm", "material": "steel", "coating": {"advancing": "115 deg"}},
+        {"kind": "rod", "name": "b", "position": ["0 mm", "0 mm"], "heading": "90 deg", "radius": "0.2 mm",
+         "length": "20 mm", "material": "steel", "coating": {"advancing": "115 deg"}}]})
+    with pytest.raises(InputError, match="overlap"):
+        fc.solve_device(d)
+    with pytest.raises(InputError, match="overlap"):
+        ia.Layout([ia.RodBody(0.0, 0.0, 0.0, 7.0, 0.07, 2.0), ia.RodBody(0.0, 0.0, 1.5, 7.0, 0.07, 2.0)])

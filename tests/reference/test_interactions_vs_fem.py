@@ -67,3 +67,51 @@ def test_short_rod_on_the_safe_side_of_a_round_ended_reference():
     for mesh in ({"panels_per_lc": 2.0}, FINE):
         total = _model_sides(2.0, **mesh)[2]
         assert 0.9 * f <= total <= f * (1 + 1e-9)
+
+
+def _ball_contact_radius(a, th, D):
+    from scipy.optimize import brentq
+
+    from floatcalc.core import round_bodies as rb
+
+    phi = brentq(lambda p: float(rb.ball_state(np.array([p]), a, th)["depth"][0]) - D, 0.3, 3.0)
+    return a * math.sin(phi)
+
+
+@pytest.mark.slow
+def test_rod_beside_a_ball_against_the_fem_reference():
+    """A 6 l_c rod (R = 0.1 l_c, θ = 120°, lowest point 0.3 l_c deep) and a ball (radius 0.4 l_c,
+    θ = 120°, 0.45 l_c deep) whose centre is 1 l_c from the rod's axis (gap about 0.5 l_c), at
+    moderate depth, nonlinear reference (fem3d.ball_body: the sphere's own contact-angle law on
+    the contact radius the model finds; alone it reproduces the axisymmetric ball to 3e-7).
+
+    Measured: the rod's force within 0.9 %; the ball's 4.4 % ABOVE the reference (2.0 % with the
+    ball 1.6 l_c from the axis, 3.8 % at 0.4/0.6 l_c depths): the mode-0 coupling of round bodies
+    takes the rod's field as a level change over the ball's contact circle and leaves out its
+    gradient across the ball (core.interactions; the device warns of this blind spot). The
+    issue's 3 % is not met for the ball; asserted at 5 % so that a change is noticed.
+    """
+    a, thb, Db = 0.4, math.radians(120), 0.45
+    R, th, L, Dr, yb = 0.1, math.radians(120), 6.0, 0.3, 1.0
+    lay = I.Layout([I.RodBody(0.0, 0.0, 0.0, L, R, th), I.RoundBody(0.0, yb, "ball", {"radius": a, "theta": thb})],
+                   **FINE)
+    st = lay.solve(np.array([Dr, Db]))
+    rc = _ball_contact_radius(a, thb, float(st.effective_depth[0]))
+    ref = fem3d.reference([fem3d.rod_body((0.0, 0.0), 0.0, L, R, Dr, th), fem3d.ball_body((0.0, yb), a, Db, thb, rc)],
+                          nonlinear=True, levels=(0, 1))
+    f, err = ref["flux"], ref["err_flux"]
+    assert np.all(err < 1e-3 * np.abs(f))
+    assert st.surface_tension[0] == pytest.approx(f[0], rel=0.015)
+    assert st.surface_tension[1] == pytest.approx(f[1], rel=0.05)
+
+
+@pytest.mark.slow
+def test_fem_ball_body_reproduces_the_axisymmetric_ball():
+    # Source: floatcalc.core.axisym shooting (through the ball's tabulated law) against the
+    # reference's ball condition on its own contact radius: the reference's check before it is
+    # used beside a rod.
+    a, thb, D = 0.4, math.radians(120), 0.6
+    st = I.Layout([I.RoundBody(0.0, 0.0, "ball", {"radius": a, "theta": thb})]).solve(np.array([D]))
+    ref = fem3d.reference([fem3d.ball_body((0.0, 0.0), a, D, thb, _ball_contact_radius(a, thb, D))],
+                          nonlinear=True, levels=(0, 1))
+    assert float(st.surface_tension[0]) == pytest.approx(float(ref["flux"][0]), rel=1e-5)
