@@ -72,9 +72,11 @@ class Device:
         return self.design.liquid
 
     @classmethod
-    def from_design(cls, design: Design | str | Path, shielding=None) -> "Device":
+    def from_design(cls, design: Design | str | Path, shielding=None, *, superposition_only: bool = False) -> "Device":
         """The device of a design; ``shielding`` reuses known shielding factors (one per
-        element, e.g. those of the nominal design in a study) instead of solving them."""
+        element, e.g. those of the nominal design in a study) instead of solving them.
+        ``superposition_only`` builds the previous model for comparison (benchmarks): no
+        shielding, superposed linear menisci between all elements."""
         if isinstance(design, Device):
             return design
         if not isinstance(design, Design):
@@ -101,7 +103,9 @@ class Device:
         shielding_given, shielding = shielding, _shield
         kinds = [p["kind"] for p in design.elements]
         groups: list = []
-        if shielding_given is None:
+        if superposition_only:
+            factors, notes = np.ones(len(models)), []
+        elif shielding_given is None:
             factors, notes = shielding(models, kinds, liq, names, groups_out=groups)
         else:
             factors, notes = np.asarray(shielding_given, dtype=float), []
