@@ -1035,7 +1035,12 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
 
     def run(d, st):
         s = layout.solve(base + d * dirn, tilt, start=st)
-        if not s.converged:
+        if not s.converged and st is not None:
+            # one cold attempt from the built-in guess, without the continuation of
+            # Layout.solve: past a fold nothing converges, and a solvable point the warm start
+            # missed is reached by the bisection's shorter warm-started steps
+            s = layout._solve(base + d * dirn, tilt, None, 1e-10, 60)
+        elif not s.converged:
             s = layout.solve(base + d * dirn, tilt)
         ok = s.converged and all(_not_flooded(layout, s, i) for i in flood_check)
         return s, ok
