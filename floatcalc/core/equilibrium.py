@@ -157,21 +157,25 @@ def _residual(sup, u, W, xg, yg):
     return np.array([F.sum() - W, F @ sup.x - W * xg, F @ sup.y - W * yg]) / W, e
 
 
-def _depth_sensitivity(sup: Support, u, X):
-    """de/du · (columns of Xᵀ): how the effective depths move with heave, pitch and roll,
-    through the same truncated coupling iteration as :func:`point_state` (s₀ = 0,
-    s_{k+1} = C·A·h(d − s_k), so ∂s_{k+1} = C·A·diag(h′(d − s_k))·(∂d − ∂s_k))."""
+def _state_and_sensitivity(sup: Support, u, X):
+    """Effective depths e, forces F, table slopes dF/de and de/du · (columns of Xᵀ) at u, in one
+    pass: the coupling iteration of :func:`point_state` (s₀ = 0, s_{k+1} = C·A·h(d − s_k);
+    the same e and F, bit for bit) carries its derivative along,
+    ∂s_{k+1} = C·A·diag(h′(d − s_k))·(∂d − ∂s_k)."""
     Xt = X.T
-    if not sup._coupled:
-        return Xt
     d = u[0] + u[1] * sup.x + u[2] * sup.y + sup.offset
+    if not sup._coupled:
+        F, _, k = sup.lookup(d, slopes=True)
+        return d, F, k, Xt
     s = np.zeros_like(d)
     V = np.zeros_like(Xt)
     for _ in range(sup.coupling_iters):
         h, hp = sup.contact_and_slope(d - s)
         V = sup._CA @ (hp[:, None] * (Xt - V))
         s = sup._CA @ h
-    return Xt - V
+    e = d - s
+    F, _, k = sup.lookup(e, slopes=True)
+    return e, F, k, Xt - V
 
 
 def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, max_iter: int = 80,
@@ -183,7 +187,7 @@ def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, m
 
     Method: a level start (heave alone, Illinois regula falsi on the total force, which rises
     with heave), then Newton's method on (z, p, q) with the Jacobian of the force and moment
-    balance through the coupling iteration (:func:`_depth_sensitivity`; the tables are linear
+    balance through the coupling iteration (:func:`_state_and_sensitivity`; the tables are linear
     between their points, so Newton is exact within a table segment) and step halving.
 
     Returns
@@ -213,16 +217,21 @@ def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, m
     else:
         u = np.asarray(start, dtype=float).copy()
     X = np.stack([np.ones_like(sup.x), sup.x, sup.y])
-    r, e = _residual(sup, u, W, xg, yg)
+    bal = np.array([W, W * xg, W * yg])
+
+    def full(uu):
+        e_, F_, k_, dE_ = _state_and_sensitivity(sup, uu, X)
+        return (X @ F_ - bal) / W, e_, k_, dE_
+
+    r, e, k, dE = full(u)
     for _ in range(max_iter):
         nr = np.linalg.norm(r)
         if nr < tol:
             return u, e
-        k = sup.lookup(e, slopes=True)[2]
         # points past their limit or not yet touching have zero slope; a small floor keeps
         # the Jacobian regular (it only steers the iteration)
-        k = np.maximum(k, 1e-3 * max(float(np.mean(np.abs(k))), 1e-12))
-        J = (X * k) @ _depth_sensitivity(sup, u, X) / W
+        kf = np.maximum(k, 1e-3 * max(float(np.mean(np.abs(k))), 1e-12))
+        J = (X * kf) @ dE / W
         try:
             step = np.linalg.solve(J, -r)
         except np.linalg.LinAlgError:
@@ -232,13 +241,14 @@ def solve(sup: Support, W: float, xg: float, yg: float, *, tol: float = 1e-10, m
         lam = min(1.0, 0.25 / move) if move > 0 else 1.0
         for _ in range(12):
             un = u + lam * step
-            rn, en = _residual(sup, un, W, xg, yg)
-            if np.linalg.norm(rn) < nr * (1.0 - 1e-4 * lam):
+            nxt = full(un)
+            if np.linalg.norm(nxt[0]) < nr * (1.0 - 1e-4 * lam):
                 break
             lam *= 0.5
         else:
             break
-        u, r, e = un, rn, en
+        u = un
+        r, e, k, dE = nxt
     if np.linalg.norm(r) < 1e-7:
         return u, e
     raise ConvergenceError(
