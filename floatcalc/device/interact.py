@@ -57,10 +57,47 @@ def _body(m, kind, lc):
     return I.RoundBody(float(c[0] / lc), float(c[1] / lc), kind, params)
 
 
+def close_pairs(footprints, dist: float) -> list[tuple[int, int]]:
+    """Index pairs (i < j) of convex footprints (vertex arrays) closer than ``dist`` [m].
+
+    The smallest distance between two disjoint polygons is reached at a vertex of one and an
+    edge of the other; all vertex–edge distances of the candidate pairs (bounding circles
+    within ``dist``, :func:`~floatcalc.device.geometry.near_pairs`) are taken at once on
+    arrays (polygons padded to a common vertex count by repeating their last vertex, which
+    adds only zero-length edges). Overlapping footprints, refused before, count as close
+    (:func:`~floatcalc.device.geometry.polygons_overlap`).
+
+    >>> sq = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], float)
+    >>> close_pairs([sq, sq + [1.5, 0.0], sq + [3.2, 0.0]], 0.6)
+    [(0, 1)]
+    """
+    from .geometry import near_pairs, polygons_overlap
+
+    cand = near_pairs(footprints, dist)
+    if not cand:
+        return []
+    k = max(len(f) for f in footprints)
+    P = np.array([np.vstack([f, np.repeat(np.asarray(f, float)[-1:], k - len(f), axis=0)]) for f in footprints])
+    i, j = np.array(cand).T
+
+    def vertex_edge(A, B):   # (c, k, 2) vertices of A against (c, k, 2) edges of B: (c,)
+        a, b = B, np.roll(B, -1, axis=1)
+        ab = (b - a)[:, None, :, :]                     # (c, 1, k, 2)
+        ap = A[:, :, None, :] - a[:, None, :, :]        # (c, k, k, 2)
+        t = np.clip(np.sum(ap * ab, -1) / np.maximum(np.sum(ab * ab, -1), 1e-300), 0.0, 1.0)
+        d = ap - t[..., None] * ab
+        return np.sqrt(np.min(np.sum(d * d, -1), axis=(1, 2)))
+
+    d = np.minimum(vertex_edge(P[i], P[j]), vertex_edge(P[j], P[i]))
+    out = []
+    for a, b, dd in zip(i.tolist(), j.tolist(), d.tolist()):
+        if dd < dist or polygons_overlap(footprints[a], footprints[b]):
+            out.append((a, b))
+    return out
+
+
 def clusters(models, lc: float, reach: float = REACH_LC) -> list[list[int]]:
     """Groups of element indices whose footprints come within ``reach`` l_c (transitively)."""
-    from .geometry import near_pairs, polygon_distance
-
     n = len(models)
     parent = list(range(n))
 
@@ -70,9 +107,8 @@ def clusters(models, lc: float, reach: float = REACH_LC) -> list[list[int]]:
             i = parent[i]
         return i
 
-    for i, j in near_pairs([m.footprint for m in models], reach * lc):
-        if polygon_distance(models[i].footprint, models[j].footprint) < reach * lc:
-            parent[root(i)] = root(j)
+    for i, j in close_pairs([m.footprint for m in models], reach * lc):
+        parent[root(i)] = root(j)
     groups: dict[int, list[int]] = {}
     for i in range(n):
         groups.setdefault(root(i), []).append(i)

@@ -157,18 +157,14 @@ class Device:
         cached = self.__dict__.get("_pairs")
         if cached is not None:
             return cached.copy()
-        from .geometry import near_pairs, polygon_distance
-        from .interact import REACH_LC
+        from .interact import REACH_LC, close_pairs
 
-        reach = REACH_LC * self.liquid.lc
         member = np.full(n, -1)
         for k, g in enumerate(self.groups):
             member[list(g)] = k
         rod = np.array([p["kind"] == "rod" for p in self.design.elements])
-        for i, j in near_pairs([m.footprint for m in self.models], reach):
-            if member[i] < 0 or member[i] != member[j] or not (rod[i] or rod[j]):
-                continue
-            if polygon_distance(self.models[i].footprint, self.models[j].footprint) < reach:
+        for i, j in close_pairs([m.footprint for m in self.models], REACH_LC * self.liquid.lc):
+            if member[i] >= 0 and member[i] == member[j]:
                 out[i, j] = rod[i]
                 out[j, i] = rod[j]
         object.__setattr__(self, "_pairs", out)   # geometry only: computed once per device

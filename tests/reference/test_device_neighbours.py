@@ -32,8 +32,8 @@ def row(n: int, gap_lc: float):
          "length": "100 mm", "material": "steel", "coating": {"advancing": f"{THETA} deg"}}]})
 
 
-@pytest.mark.parametrize("n,gap_lc", [(2, 0.55), (2, 1.0), (2, 1.65), (2, 3.0), (2, 6.0), (3, 0.5), (3, 1.5),
-                                      (3, 4.0)])
+@pytest.mark.parametrize("n,gap_lc", [(2, 0.5), (2, 0.55), (2, 1.0), (2, 1.65), (2, 3.0), (2, 6.0), (3, 0.5),
+                                      (3, 1.5), (3, 4.0), (3, 6.0)])
 def test_parallel_rods_in_a_device_match_the_exact_shared_meniscus(n, gap_lc):
     S, d = row(n, gap_lc)
     cap = fc.solve_device(d).capacity.to("N").magnitude
