@@ -22,8 +22,9 @@ the fixed point s = C h(e) is found by a few iterations (the coupling is a contr
 elements that do not overlap).
 
 Equilibrium: Σ F_j = W, Σ F_j x_j = W x_G, Σ F_j y_j = W y_G (small-angle moment arms), solved
-by Newton's method on (z, p, q) with the Jacobian of the uncoupled balance (from the table
-slopes) and step halving.
+by Newton's method on (z, p, q) from a level start (regula falsi on the heave), with the
+Jacobian of the balance through the coupling iteration (exact within a table segment) and step
+halving.
 
 Validity: rigid device, small tilts (|p|, |q| ≪ 1), static, forces vertical; each element's
 own nonlinear law near it, linear superposition between elements (approximate for elements

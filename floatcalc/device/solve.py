@@ -12,11 +12,16 @@ the element adapters of :mod:`floatcalc.device.elements`), and solves heave, pit
 
 with s_j the depression of the surface at point j by its neighbours' linearised menisci
 (superposed, ∇²h = h/l_c²). Pitch ϑ is positive when the +x side goes down, roll φ when the +y
-side goes down.
+side goes down. Elements within 2.5 l_c of each other are solved together by the interaction
+model (:mod:`floatcalc.device.interact`): their tables are scaled by its shielding factors, and
+a rod takes no superposed depression from a member of its cluster within that reach (the solved
+meniscus has it; :meth:`Device.solved_pairs`). Checked: parallel rods against the exact shared
+meniscus, and the tilted twelve-leg skimmer at its capacity against the solved meniscus of all
+its legs at the same depths (+0.3 %; tests/reference/test_device_neighbours.py).
 
 Validity: rigid device, small tilts (a warning above 10°), static loads, clean liquid; near each
-element its own nonlinear law, between elements superposition of linearised menisci
-(approximate where elements come within about one capillary length; a warning says so).
+element its own nonlinear law, between elements farther apart than 2.5 l_c superposition of
+linearised menisci; close round elements keep superposition (a warning gives its error).
 
 References
 ----------
