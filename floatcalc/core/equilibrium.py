@@ -87,10 +87,10 @@ class Support:
     def _where(self, e):
         """Flat table index, fraction within the segment and the touching mask at depths e."""
         u = (e - self._d0) / self._step
-        u = np.where(u > -1.0, u, -1.0)            # NaN -> not touching
+        u = np.where(u > -0.5, u, -0.5)            # before first contact, or NaN: not touching
         np.minimum(u, float(self._n), out=u)
-        k = np.maximum(np.minimum(u.astype(np.intp), self._n - 2), 0)
-        t = np.minimum(np.maximum(u - k, 0.0), 1.0)
+        k = np.minimum(u.astype(np.intp), self._n - 2)   # u >= −0.5 truncates to k >= 0
+        t = np.minimum(u - k, 1.0)                 # t < 0 only where u < 0 (masked by the caller)
         return self._base + k, t, u
 
     def lookup(self, e, slopes: bool = False):

@@ -470,8 +470,9 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     tipping = []
     if P_ref > 0 and placement:
         span = float(np.max(np.hypot(sup.x - xs, sup.y - ys))) * 2.0
+        at_zero: dict = {}   # the state at zero offset, the same in every direction
         for label, (dx, dy) in (("+x", (1, 0)), ("-x", (-1, 0)), ("+y", (0, 1)), ("-y", (0, -1))):
-            t = _tip_offset(eq, sup, Ws, xs, ys, P_ref, dx, dy, span)
+            t = _tip_offset(eq, sup, Ws, xs, ys, P_ref, dx, dy, span, at_zero)
             tipping.append({"direction": label,
                             "offset_m": None if t is None else t * lc,
                             "position_m": None if t is None else [(xs + t * dx) * lc, (ys + t * dy) * lc]})
@@ -507,8 +508,11 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     )
 
 
-def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span):
-    """Offset [l_c] along (dx, dy) from the centre of mass where payload P first fails an element."""
+def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span, at_zero=None):
+    """Offset [l_c] along (dx, dy) from the centre of mass where payload P first fails an element.
+
+    ``at_zero`` (a dict shared by the directions) keeps the margin and the state at zero offset,
+    which are the same in every direction."""
     from scipy.optimize import brentq
 
     last = [None]
@@ -526,7 +530,12 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span):
         last[0] = u
         return float(np.max(e - sup.limit_depth))
 
-    ga = g(0.0)
+    if at_zero:
+        ga, last[0] = at_zero["g"], at_zero["u"]
+    else:
+        ga = g(0.0)
+        if at_zero is not None:
+            at_zero.update(g=ga, u=last[0])
     if ga >= 0:
         return 0.0
     # step out until the margin changes sign, then Brent: first an eighth of the span, then
