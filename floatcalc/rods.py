@@ -186,7 +186,7 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
     --------
     >>> r = rod("0.25 mm", "40 mm", "150 deg")
     >>> round(r.max_force.to("mN").magnitude, 2)
-    6.6
+    6.53
     """
     liq = _liquid(liquid)
     R = v.length(radius, "radius")

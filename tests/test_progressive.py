@@ -18,7 +18,7 @@ import floatcalc as fc
 from floatcalc.design import design_from_data
 from floatcalc.device.assess import VERDICTS
 
-RODS = {"kind": "rod", "name": "leg", "count": 4, "layout": "around", "layout_radius": "20 mm", "radius": "0.2 mm",
+RODS = {"kind": "rod", "name": "leg", "count": 4, "layout": "around", "layout_radius": "25 mm", "radius": "0.2 mm",
         "length": "30 mm", "material": "steel", "coating": {"advancing": "120 deg"}}
 FOOT = {"kind": "ball", "name": "foot", "position": ["0 mm", "0 mm"], "radius": "0.3 mm", "mount": "-1 mm",
         "material": "steel", "coating": {"advancing": "150 deg"}}

@@ -25,12 +25,18 @@ So one end adds the surface-tension force of a straight piece of rod of length
 length). The end faces are vertical, so they add no vertical pressure force. Using the exact
 2D surface-tension part :math:`f_{st} = 2\\sin\\psi` in place of 2 h_0:
 
-.. math:: F(L) = f_{2D}\\,L + 2 F_{end}, \\qquad F_{end} = \\ell_e(w)\\, 2\\sin\\psi .
+.. math:: F(L) = f_{2D}\\,L + 2 F_{end}, \\qquad F_{end} = \\min(0, \\ell_e(w)\\, 2\\sin\\psi) .
 
 Limits: for w → 0, ℓ_e → (π/2)/(ln(2/w) − γ_E), a slowly vanishing end; for w ≫ 1, ℓ_e → πw/2
 (the half-circle's perimeter πw behaves as a straight edge, and a straight piece of rod has two
 sides). The relative correction is 2ℓ_e f_st/(f_2D L), falling as 1/L, and the long-rod limit
 F → f_2D L is recovered as L → ∞.
+
+Safe side (what the rod law uses): the cap above is an upper estimate that exceeds the
+contact-line bound of thin rods several times, and the solved 3D ends of
+:mod:`floatcalc.core.interactions` come out negative at the limit; :func:`end_force` clips the
+end term to [−2w, 0], so a depressed rod carries f_2D L (see :func:`end_force` for the
+remaining overstatement against the solved ends, at most about 0.06 σ l_c per end).
 
 Validity: ends independent of each other (L ≳ 2 l_c), L ≫ w, rod horizontal, contact line at
 the 2D position all round (the end cap's own contact position shift is neglected), small end
@@ -85,19 +91,29 @@ def force_parts(phi, R, theta, L):
 
 
 def end_force(phi, R, f_st):
-    """Vertical surface-tension force of ONE end [σ l_c], bounded by its contact line.
+    """Vertical surface-tension force of ONE end [σ l_c], on the safe side of the solved ends.
 
-    The linearised cap gives ℓ_e(w) f_st; the contact line across a flat end face is a chord
-    of length 2w (w = R sin φ), which can pull vertically at most σ per unit length, so the
-    end term is clipped to ±2w (PHYSICS.md, contact-line bound). For thin rods the cap alone
-    would give several times the bound (ℓ_e f_st ≈ 1 against 2w ≈ 0.1 for w = 0.05 l_c): the
-    clip is the safe side until a solved 3D end replaces it.
+    The linearised cap above gives ℓ_e(w) f_st, several times the contact-line bound for thin
+    rods (ℓ_e f_st ≈ 1 against 2w ≈ 0.1 for w = 0.05 l_c). The solved 3D meniscus of
+    :mod:`floatcalc.core.interactions` (flat end face with Young's angle on it and pinning at
+    its rim; checked against the independent finite-element reference in the linear range,
+    tests/reference/test_interactions_vs_fem.py) finds the ends of a depressed rod at its limit
+    *negative*, −0.01 to −0.05 σ l_c per end for R = 0.02–0.4 l_c, θ = 100–150°: near an end the
+    meniscus spreads in 3D and the near-end sections pass their optimum at a shallower depth.
+    The end term is therefore clipped to [−2w, 0] (w = R sin φ; the lower edge is the contact
+    line across the end face, PHYSICS.md): a depressed rod's ends add nothing, and the rod law
+    exceeds the solved limit by the solved ends' deficit only, at most 0.06 σ l_c per end in the
+    cases measured (0.1–0.5 % of rods 7–37 l_c long, about 1.5 % at 2 l_c;
+    tests/core/test_interactions.py). Rods in a device that come within reach of a neighbour
+    carry the solved value itself (:mod:`floatcalc.device.interact`).
 
-    >>> float(end_force(np.pi / 2, 0.05, 2.0)) <= 2 * 0.05 + 1e-15
+    >>> float(end_force(np.pi / 2, 0.05, 2.0))
+    0.0
+    >>> float(end_force(np.pi / 2, 0.05, -2.0)) >= -2 * 0.05
     True
     """
     w = np.asarray(R) * np.sin(phi)
-    return np.clip(end_length(w) * f_st, -2.0 * w, 2.0 * w)
+    return np.clip(end_length(w) * f_st, -2.0 * w, 0.0)
 
 
 def limit(R: float, theta: float, L: float, n: int = 4001):

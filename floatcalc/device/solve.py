@@ -12,11 +12,16 @@ the element adapters of :mod:`floatcalc.device.elements`), and solves heave, pit
 
 with s_j the depression of the surface at point j by its neighbours' linearised menisci
 (superposed, ∇²h = h/l_c²). Pitch ϑ is positive when the +x side goes down, roll φ when the +y
-side goes down.
+side goes down. Elements within 2.5 l_c of each other are solved together by the interaction
+model (:mod:`floatcalc.device.interact`): their tables are scaled by its shielding factors, and
+a rod takes no superposed depression from a member of its cluster within that reach (the solved
+meniscus has it; :meth:`Device.solved_pairs`). Checked: parallel rods against the exact shared
+meniscus, and the tilted twelve-leg skimmer at its capacity against the solved meniscus of all
+its legs at the same depths (+0.3 %; tests/reference/test_device_neighbours.py).
 
 Validity: rigid device, small tilts (a warning above 10°), static loads, clean liquid; near each
-element its own nonlinear law, between elements superposition of linearised menisci
-(approximate where elements come within about one capillary length; a warning says so).
+element its own nonlinear law, between elements farther apart than 2.5 l_c superposition of
+linearised menisci; close round elements keep superposition (a warning gives its error).
 
 References
 ----------
@@ -60,17 +65,23 @@ class Device:
     names: tuple
     #: device-level warnings of the model (shared menisci of close elements)
     notes: tuple = ()
-    #: shielding factor of each element (its limit with neighbours over its limit alone)
+    #: shielding factor of each element (its limit with neighbours over its table's limit)
     shielding: tuple = ()
+    #: clusters solved together by the interaction model (element indices): a rod takes no
+    #: superposition coupling from a member within reach (device.interact: the solved meniscus
+    #: has it)
+    groups: tuple = ()
 
     @property
     def liquid(self):
         return self.design.liquid
 
     @classmethod
-    def from_design(cls, design: Design | str | Path, shielding=None) -> "Device":
+    def from_design(cls, design: Design | str | Path, shielding=None, *, superposition_only: bool = False) -> "Device":
         """The device of a design; ``shielding`` reuses known shielding factors (one per
-        element, e.g. those of the nominal design in a study) instead of solving them."""
+        element, e.g. those of the nominal design in a study) instead of solving them.
+        ``superposition_only`` builds the previous model for comparison (benchmarks): no
+        shielding, superposed linear menisci between all elements."""
         if isinstance(design, Device):
             return design
         if not isinstance(design, Design):
@@ -92,13 +103,18 @@ class Device:
                                       "footprints overlap; move or turn one of them, or set a larger "
                                       "layout_radius or spacing", f"'{names[i]}' and '{names[j]}'")
         from .interact import shielding as _shield
+        from .interact import solved_groups
 
         shielding_given, shielding = shielding, _shield
         kinds = [p["kind"] for p in design.elements]
-        if shielding_given is None:
-            factors, notes = shielding(models, kinds, liq, names)
+        groups: list = []
+        if superposition_only:
+            factors, notes = np.ones(len(models)), []
+        elif shielding_given is None:
+            factors, notes = shielding(models, kinds, liq, names, groups_out=groups)
         else:
             factors, notes = np.asarray(shielding_given, dtype=float), []
+            groups = solved_groups(models, kinds, liq.lc)
         for m, f in zip(models, factors):
             if f < 1.0:
                 m.force = m.force * f
@@ -108,7 +124,7 @@ class Device:
             raise input_error("body.centre_of_mass", "must lie inside the support polygon (the convex "
                               "outline of all elements)", f"[{xg * 1e3:.4g} mm, {yg * 1e3:.4g} mm]")
         return cls(design=design, models=tuple(models), names=tuple(names), notes=tuple(notes),
-                   shielding=tuple(float(f) for f in factors))
+                   shielding=tuple(float(f) for f in factors), groups=tuple(tuple(g) for g in groups))
 
     # -- numeric core input -------------------------------------------------------------
     def support(self):
@@ -123,6 +139,9 @@ class Device:
             f = m.field(pts[:, 0] * lc, pts[:, 1] * lc)
             f = np.where(owner == e, 0.0, f)
             C[:, e] = f
+        pairs = self.solved_pairs()
+        if pairs.any():  # the solved meniscus replaces superposition between close cluster members
+            C[pairs[owner]] = 0.0
         depth, force, contact = _common_tables(self.models)
         return Support(
             x=pts[:, 0], y=pts[:, 1],
@@ -132,6 +151,29 @@ class Device:
             contact=contact / lc,
             owner=owner, coupling=C,
         )
+
+    def solved_pairs(self) -> np.ndarray:
+        """(E, E) bool: rod i takes no superposition coupling from element e (both in one
+        cluster solved by the interaction model, footprints within its reach)."""
+        n = len(self.models)
+        out = np.zeros((n, n), dtype=bool)
+        if not self.groups:
+            return out
+        cached = self.__dict__.get("_pairs")
+        if cached is not None:
+            return cached.copy()
+        from .interact import REACH_LC, close_pairs
+
+        member = np.full(n, -1)
+        for k, g in enumerate(self.groups):
+            member[list(g)] = k
+        rod = np.array([p["kind"] == "rod" for p in self.design.elements])
+        for i, j in close_pairs([m.footprint for m in self.models], REACH_LC * self.liquid.lc):
+            if member[i] >= 0 and member[i] == member[j]:
+                out[i, j] = rod[i]
+                out[j, i] = rod[j]
+        object.__setattr__(self, "_pairs", out)   # geometry only: computed once per device
+        return out.copy()
 
     @property
     def weight(self) -> float:
@@ -428,8 +470,9 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     tipping = []
     if P_ref > 0 and placement:
         span = float(np.max(np.hypot(sup.x - xs, sup.y - ys))) * 2.0
+        at_zero: dict = {}   # the state at zero offset, the same in every direction
         for label, (dx, dy) in (("+x", (1, 0)), ("-x", (-1, 0)), ("+y", (0, 1)), ("-y", (0, -1))):
-            t = _tip_offset(eq, sup, Ws, xs, ys, P_ref, dx, dy, span)
+            t = _tip_offset(eq, sup, Ws, xs, ys, P_ref, dx, dy, span, at_zero)
             tipping.append({"direction": label,
                             "offset_m": None if t is None else t * lc,
                             "position_m": None if t is None else [(xs + t * dx) * lc, (ys + t * dy) * lc]})
@@ -465,8 +508,11 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     )
 
 
-def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span):
-    """Offset [l_c] along (dx, dy) from the centre of mass where payload P first fails an element."""
+def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span, at_zero=None):
+    """Offset [l_c] along (dx, dy) from the centre of mass where payload P first fails an element.
+
+    ``at_zero`` (a dict shared by the directions) keeps the margin and the state at zero offset,
+    which are the same in every direction."""
     from scipy.optimize import brentq
 
     last = [None]
@@ -484,12 +530,25 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span):
         last[0] = u
         return float(np.max(e - sup.limit_depth))
 
-    if g(0.0) >= 0:
+    if at_zero:
+        ga, last[0] = at_zero["g"], at_zero["u"]
+    else:
+        ga = g(0.0)
+        if at_zero is not None:
+            at_zero.update(g=ga, u=last[0])
+    if ga >= 0:
         return 0.0
-    a = 0.0
-    for k in range(1, 9):  # step out in eighths of the span, then Brent
-        b = span * k / 8.0
-        if g(b) >= 0:
+    # step out until the margin changes sign, then Brent: first an eighth of the span, then
+    # 1.2 times the secant's prediction of the crossing (the margin is nearly linear in the
+    # offset), at least a 64th and at most the span
+    a, b = 0.0, span / 8.0
+    while True:
+        gb = g(b)
+        if gb >= 0:
             return brentq(g, a, b, xtol=1e-5)  # 1e-5 l_c: tens of nanometres
-        a = b
-    return None
+        if b >= span:
+            return None
+        slope = (gb - ga) / (b - a)
+        nb = b + 1.2 * (-gb) / slope if slope > 0 else b + span / 8.0
+        a, ga = b, gb
+        b = min(span, max(nb, a + span / 64.0))

@@ -168,7 +168,7 @@ def jump(design, push_time: Any, *, takeoff_speed: Any | None = None, push_force
     >>> from floatcalc.device import example
     >>> r = jump(example("skimmer"), "40 ms")
     >>> r.breaks_surface, round(r.max_takeoff_speed.to("m/s").magnitude, 2)
-    (False, 0.7)
+    (False, 0.74)
     """
     from .. import _validate as v
     from ._inputs import duration

@@ -276,6 +276,7 @@ class _Layout:
     hull_corners: np.ndarray  # indices (into E*K vertices) of the nominal support polygon, ccw
     centres_hold: bool     # the body's centre of mass lies clearly inside the hull of element centres
     shielding: tuple       # the factors used (those of the nominal layout)
+    solved_pairs: np.ndarray = None  # (E, E) no superposition coupling (Device.solved_pairs, nominal)
 
 
 def _footprint(kind, p, ux, uy):
@@ -309,10 +310,10 @@ def layout(design, shielding=None) -> _Layout:
     from ..device.geometry import convex_hull
     from ..elements import get_kind
 
-    if shielding is None:
-        from ..device.solve import Device
+    from ..device.solve import Device
 
-        shielding = Device.from_design(design).shielding
+    dev = Device.from_design(design) if shielding is None else Device.from_design(design, shielding=shielding)
+    shielding = dev.shielding
     keys, types, et, first, nrows = {}, [], [], [], 0
     legs = design.elements
     for p, f in zip(legs, shielding):
@@ -382,7 +383,8 @@ def layout(design, shielding=None) -> _Layout:
                    owner=np.array(owner), seg_index=np.array(seg), row=np.array(row),
                    across=np.array(across, dtype=float), rods=arr(lambda p: p.get("rods", 1) if p["kind"] == "rod_row" else 1),
                    P1=P1, P2=P2, size0=size0, size_by=size_by, size_add=size_add, axes=axes, hull_corners=idx,
-                   centres_hold=centres_hold, shielding=tuple(float(f) for f in shielding))
+                   centres_hold=centres_hold, shielding=tuple(float(f) for f in shielding),
+                   solved_pairs=dev.solved_pairs())
 
 
 def _polygon_contains(poly, pt, rel: float = 1e-9):
@@ -529,6 +531,8 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
         Cpl[:, :, rnd] = _round_field(X[:, :, None], Y[:, :, None], (lay.cx[rnd] / lcc)[:, None, :],
                                       (lay.cy[rnd] / lcc)[:, None, :], (rc[:, rnd] / lcc)[:, None, :])
     Cpl = np.where(o[:, None] == np.arange(E)[None, :], 0.0, Cpl)
+    if lay.solved_pairs is not None and lay.solved_pairs.any():  # as Device.support
+        Cpl = np.where(lay.solved_pairs[o], 0.0, Cpl)
     bs = BatchSupport(x=X, y=Y, offset=offs / lcc, d0=d0, step=step, n=n,
                       force=F, contact=H, row=row, limit_depth=lim_d, limit_force=lim_f, owner=o, coupling=Cpl)
     wb = x["body_mass"] * g

@@ -248,7 +248,7 @@ def rod_model(liquid: Liquid | None = None, **base: Any) -> Model:
 
     >>> m = rod_model(count=4.0)
     >>> round(float(m.evaluate({})["max_force"]) * 1e3, 2)  # four invented 40 mm legs
-    25.73
+    25.53
     """
     from ..liquids import as_liquid
 

@@ -96,6 +96,7 @@ __all__ = [
     "stadium", "rectangle", "disc", "annulus", "Body", "dirichlet_body", "rod_body",
     "build_mesh", "solve", "reference", "disc_linear_force", "Solution", "finite_strip_force",
     "parallel_strips", "two_strips", "crossing_strips", "strip_beside_disc", "parallel_rods",
+    "ball_body",
 ]
 
 MAX_ARC_ANGLE = 0.05  # [rad] largest chord angle on arcs at level 0 (curved P2 geometry)
@@ -224,6 +225,18 @@ class Body:
     h_c: float = 0.0
     rod: tuple = ()  # (R, D, theta) for kind == "rod"
     name: str = ""
+    #: "round" (the rod condition all round a stadium or rectangle), "flat": a rectangle whose
+    #: two end edges are flat vertical end faces with the contact line pinned at their bottom
+    #: rim (Dirichlet h = D there; the pinned rim point carries no vertical force), or "wall":
+    #: the contact line on the end faces, meeting them at Young's angle, ψ = θ − π/2 (Neumann
+    #: ∂ₙh = tan ψ there). For "flat" and "wall" the body's forces are those of the two long
+    #: sides only (``line`` and ``flux``); the end faces' share is left out.
+    ends: str = "round"
+    #: slope ∂ₙh prescribed on "wall" end faces (default tan(θ − π/2))
+    wall_slope: float | None = None
+    #: rod footprint at half-width w₀ + shift; the side condition is carried over the shift by
+    #: the 1D linear solution e^{−y} (as floatcalc.core.interactions carries its panel lines)
+    shift: float = 0.0
 
 
 def dirichlet_body(*shapes, h_c: float, name: str = "") -> Body:
@@ -232,17 +245,44 @@ def dirichlet_body(*shapes, h_c: float, name: str = "") -> Body:
 
 
 def rod_body(center, heading: float, length: float, R: float, D: float, theta: float,
-             *, ends: str = "stadium", name: str = "") -> Body:
+             *, ends: str = "stadium", name: str = "", wall_slope: float | None = None,
+             line_at_radius: bool = False) -> Body:
     """Thin horizontal rod (radius R, lowest point at depth D, contact angle θ [rad]).
 
-    Footprint: stadium (or rectangle) of half-width w₀ = R sin(π − θ); contact-line condition
+    Footprint: stadium (``ends="stadium"``, the rod condition all round), rectangle
+    (``"rect"``, the rod condition on all four edges) or ``"flat"``: a rectangle whose end edges
+    are flat end faces pinned at their bottom rim (h = D there, no force), or ``"wall"``: flat
+    end faces met at Young's angle (∂ₙh = tan(θ − π/2)), as the end faces of
+    floatcalc.core.interactions while their contact line lies on the face (forces: the long
+    sides only); half-width w₀ = R sin(π − θ); contact-line condition
     h + w₀ ∂ₙh = D − R(1 + cos θ) in the linear problem (linearised about the level-contact
     position φ₀ = π − θ), sin ψ = g(h) in the nonlinear one (module docstring). Needs
     0 < θ < π (w₀ > 0); linear: small slopes (|ψ| ≪ 1); footprint fixed at w₀ (see above).
     """
     w0 = R * math.sin(math.pi - theta)
-    shape = (stadium if ends == "stadium" else rectangle)(center[0], center[1], heading, length, w0)
-    return Body((shape,), "rod", 0.0, (float(R), float(D), float(theta)), name)
+    half = R if line_at_radius else w0
+    shape = (stadium if ends == "stadium" else rectangle)(center[0], center[1], heading, length, half)
+    return Body((shape,), "rod", 0.0, (float(R), float(D), float(theta)), name,
+                ends if ends in ("flat", "wall") else "round", wall_slope, half - w0)
+
+
+def ball_body(center, a: float, D: float, theta: float, r_c: float, *, name: str = "") -> Body:
+    """Sphere of radius a (lowest point at depth D, contact angle θ [rad]) on a disc footprint
+    of radius r_c, held fixed (the contact line's plan radius a sin φ moves with φ; neglected,
+    as for rods): the sphere's section through its axis is the rod's circle, so its contact
+    condition is the rod's flux law sin ψ = g(h) with R → a (module docstring). Nonlinear
+    problem only (the linear initial guess uses the rod's Robin form with w₀ = a sin(π − θ))."""
+    return Body((disc(center[0], center[1], r_c),), "rod", 0.0, (float(a), float(D), float(theta)), name)
+
+
+def _end_facets(md, body, facets):
+    """Split a flat-ended rod's contact-line facets into (sides, ends) by their midpoints."""
+    _, cx, cy, hd, L, w = body.shapes[0]
+    m = md.mesh_lin
+    mid = m.p[:, m.facets[:, facets]].mean(axis=1)
+    x = math.cos(hd) * (mid[0] - cx) + math.sin(hd) * (mid[1] - cy)
+    end = np.abs(x) > 0.5 * L - 1e-9 * max(L, 1.0)
+    return facets[~end], facets[end]
 
 
 # ----------------------------------------------------------------------------- mesh
@@ -543,7 +583,12 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
     basis = Basis(md.mesh, e, intorder=4)
     kap = _kappa(md.radius)
     fb_out = FacetBasis(md.mesh, e, facets=md.outer_facets, intorder=4)
-    fbs = [FacetBasis(md.mesh, e, facets=f, intorder=4) for f in md.body_facets]
+    if nonlinear and any(b.kind == "rod" and (b.ends == "wall" or b.shift) for b in bodies):
+        raise ValueError("rod ends 'wall' and line_at_radius: linearised problem only")
+    flat = {i: _end_facets(md, b, md.body_facets[i]) for i, b in enumerate(bodies)
+            if b.kind == "rod" and b.ends in ("flat", "wall")}
+    fbs = [FacetBasis(md.mesh, e, facets=(flat[i][0] if i in flat else f), intorder=4)
+           for i, f in enumerate(md.body_facets)]
 
     @BilinearForm
     def lin(u, v, w):
@@ -567,7 +612,15 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
             w0 = R * math.sin(math.pi - th)
             D0 = Dd - R * (1.0 + math.cos(th))
             A = A + (1.0 / w0) * asm(mass, fbi)
-            b = b + (D0 / w0) * asm(LinearForm(lambda v, w: v), fbi)
+            b = b + (D0 * math.exp(-body.shift) / w0) * asm(LinearForm(lambda v, w: v), fbi)
+            if i in flat and body.ends == "flat":  # end faces pinned at the bottom rim: h = D
+                ed = basis.get_dofs(facets=flat[i][1]).all()
+                D.append(ed)
+                Dval.append(np.full(ed.size, Dd))
+            elif i in flat:  # end faces met at Young's angle: natural condition ∂ₙh = tan ψ_w
+                fe = FacetBasis(md.mesh, e, facets=flat[i][1], intorder=4)
+                g = math.tan(th - 0.5 * math.pi) if body.wall_slope is None else body.wall_slope
+                b = b + g * asm(LinearForm(lambda v, w: v), fe)
         else:
             raise ValueError(f"body kind must be 'dirichlet' or 'rod', got {body.kind!r}")
     A = A.tocsr()
@@ -663,7 +716,8 @@ def solve(bodies, *, nonlinear: bool = False, h_line: float | None = None, gradi
             R, Dd, th = bodies[i].rod
             w0 = R * math.sin(math.pi - th)
             D0 = Dd - R * (1.0 + math.cos(th))
-            flux.append(float(asm(Functional(lambda w: (D0 - w["h"]) / w0), fbi, h=hi)))
+            ex = math.exp(bodies[i].shift)
+            flux.append(float(asm(Functional(lambda w: (D0 - ex * w["h"]) / w0), fbi, h=hi)))
         g = hi.grad
         smax = max(smax, float(np.max(np.sqrt(g[0] ** 2 + g[1] ** 2))))
     notes = []
