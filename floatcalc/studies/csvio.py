@@ -82,7 +82,11 @@ def _delimiter(header_raw: str, field: str, lineno: int) -> str:
 def _open(src: Any) -> tuple[IO[str], bool]:
     if hasattr(src, "read"):
         return src, False
-    return open(Path(src), newline="", encoding="utf-8-sig"), True
+    # a path: the one guarded reader (folder, missing file, size, UTF-8 with a BOM, one line each)
+    from ..design.read import read_text
+
+    text, _ = read_text(src, "data file")
+    return io.StringIO(text, newline=""), True
 
 
 def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = False,
