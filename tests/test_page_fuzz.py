@@ -262,6 +262,24 @@ def test_hostile_upload_shows_an_inline_message(served, name, data, words):
     _current(page)  # the design on the page is untouched and still solved
 
 
+def test_an_oversize_upload_is_refused_at_the_uploader(served):
+    """A file above the 1 MB limit (floatcalc.design.read.MAX_BYTES, also the server's
+    maxUploadSize) is refused by the uploader with a message, and nothing else changes."""
+    from floatcalc.design.read import MAX_BYTES
+
+    page = served.page
+    data = b"schema_version = 2\n" + b"#" * (MAX_BYTES + 50_000)
+    dt = _upload(page, "big.toml", data)
+    assert dt < ANSWER_S, f"page took {dt:.1f} s"
+    side = page.locator('[data-testid="stSidebar"]')
+    text = side.inner_text()
+    print("\nsidebar after an oversize upload:", text[-300:])
+    # Streamlit's own refusal ("File must be 1.0MB or smaller.") or the reader's ("at most 1000 kB")
+    assert "1.0MB or smaller" in text or "at most 1000 kB" in text, text
+    _healthy(served)
+    _current(page)
+
+
 def _hostile_design() -> tuple[bytes, str, str]:
     from floatcalc.design import example_text
 
