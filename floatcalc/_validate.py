@@ -60,6 +60,19 @@ def count(value: Any, field: str = "count", upper: int = 10000) -> int:
     return int(f)
 
 
+def name(value: Any, field: str = "name", upper: int = 200) -> str:
+    """A name given by the user: a string of at most ``upper`` characters.
+
+    >>> name("my oil")
+    'my oil'
+    """
+    if not isinstance(value, str):
+        raise input_error(field, f"must be a text of at most {upper} characters", type(value).__name__)
+    if len(value) > upper:
+        raise input_error(field, f"must be a text of at most {upper} characters", f"{len(value)} characters")
+    return value
+
+
 def hysteresis(advancing: Any, receding: Any | None, field: str = "receding_angle") -> float | None:
     """Receding angle [rad], checked to be no larger than the advancing angle."""
     if receding is None:

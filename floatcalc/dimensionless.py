@@ -20,7 +20,7 @@ from typing import Any
 
 from . import _validate as v
 from .errors import input_error
-from .liquids import Liquid
+from .liquids import Liquid, as_liquid
 from .units import Q_, to_si
 
 
@@ -47,6 +47,7 @@ def capillary_length(liq: Liquid):
     >>> round(capillary_length(water("20 degC")).magnitude, 2)
     2.73
     """
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     return Q_(liq.lc * 1e3, "mm")
 
 
@@ -57,6 +58,7 @@ def bond_number(liq: Liquid, length: Any, which: str = "radius") -> Group:
     >>> bond_number(water(), "0.25 mm").value < 0.01
     True
     """
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     L = v.length(length, "length")
     bo = (L / liq.lc) ** 2
     reading = bond_reading(bo)
@@ -72,6 +74,7 @@ def baudoin_number(liq: Liquid, weight: Any, perimeter: Any) -> Group:
     >>> round(baudoin_number(water(), "10 mg", "40 mm").value, 3)
     0.034
     """
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     W = _weight(weight, liq.g)
     P = v.length(perimeter, "perimeter", upper=1e3)
     ba = baudoin(W, liq.sigma, P)
@@ -118,6 +121,7 @@ def weber_number(liq: Liquid, speed: Any, length: Any) -> Group:
     >>> round(weber_number(water(), "0.5 m/s", "0.1 mm").value, 3)
     0.343
     """
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     U = to_si(speed, "speed", "speed")
     if U < 0:
         raise input_error("speed", "must be zero or positive", f"{U:g} m/s")
@@ -135,6 +139,7 @@ def reynolds_number(liq: Liquid, speed: Any, length: Any, viscosity: Any | None 
     >>> round(reynolds_number(water(), "0.5 m/s", "0.1 mm").value)
     50
     """
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     U = to_si(speed, "speed", "speed")
     if U < 0:
         raise input_error("speed", "must be zero or positive", f"{U:g} m/s")
@@ -158,11 +163,13 @@ def min_wave_speed(liq: Liquid):
     >>> round(min_wave_speed(water()).magnitude, 3)
     0.231
     """
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     return Q_((4.0 * liq.g * liq.sigma / liq.rho) ** 0.25, "m/s")
 
 
 def wave_reading(liq: Liquid, speed: Any | None = None) -> str:
     """Plain reading of a leg or body speed against the minimum wave speed."""
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     c = min_wave_speed(liq).magnitude
     if speed is None:
         return f"c_min = {c:.3f} m/s: a steadily moving leg slower than this makes no steady waves"
@@ -193,6 +200,7 @@ def _weight(weight: Any, g: float) -> float:
 def all_groups(liq: Liquid, length: Any, which: str = "radius", speed: Any | None = None,
                weight: Any | None = None, perimeter: Any | None = None) -> list[Group]:
     """The groups that apply to an element of size ``length`` (and stroke speed, weight)."""
+    liq = as_liquid(liq)  # a Liquid or a liquid name; anything else is an InputError
     out = [bond_number(liq, length, which)]
     if weight is not None and perimeter is not None:
         out.append(baudoin_number(liq, weight, perimeter))

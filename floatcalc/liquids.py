@@ -349,6 +349,9 @@ def custom_liquid(name: str, surface_tension: Any, density: Any, temperature: An
     >>> round(custom_liquid("brine", "75 mN/m", "1100 kg/m^3").lc * 1e3, 3)
     2.637
     """
+    from ._validate import name as v_name
+
+    v_name(name, "name")
     sigma = to_si(surface_tension, "surface_tension", "surface_tension")
     rho = to_si(density, "density", "density")
     T = _temperature(temperature)
@@ -359,7 +362,7 @@ def custom_liquid(name: str, surface_tension: Any, density: Any, temperature: An
     if T <= 0:
         raise input_error("temperature", "must be above absolute zero", f"{T:g} K")
     return Liquid(
-        name=str(name) or "custom liquid",
+        name=v_name(name, "name") or "custom liquid",
         sigma=sigma,
         rho=rho,
         T=T,
@@ -379,6 +382,8 @@ def contaminated(base: Liquid, surface_tension: Any | None = None, reduction: An
     >>> round(contaminated(w, reduction="10 mN/m").sigma * 1e3, 2)
     62.74
     """
+    if not isinstance(base, Liquid):
+        base = as_liquid(base)  # a liquid name is read; anything else is a one-line InputError
     if (surface_tension is None) == (reduction is None):
         raise input_error("contamination", "give exactly one of surface_tension or reduction", None)
     if surface_tension is not None:

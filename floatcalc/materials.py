@@ -157,7 +157,9 @@ def custom_leg_material(name: str, youngs_modulus: Any, density: Any) -> LegMate
     """
     E = _youngs(youngs_modulus)
     rho = v.density(density, "density")
-    return LegMaterial(str(name), E, rho, "user value")
+    from ._validate import name as v_name
+
+    return LegMaterial(v_name(name, "name"), E, rho, "user value")
 
 
 _youngs = youngs_modulus

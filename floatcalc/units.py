@@ -323,6 +323,10 @@ def _parse_string(text: str, kind: str, field: str):
     magnitude = float(number)  # safe: ASCII digits, at most 32 characters
     if not math.isfinite(magnitude):
         raise input_error(field, f"must be a finite number (e.g. '{example}')", repr(text))
+    if (i < len(s) and s[i] in "eE" and mantissa is not None and exp_digits is None
+            and (i + 1 == len(s) or s[i + 1] in _SPACES or s[i + 1] in "+-\u2212")):
+        # '1e mm', '2E', '1e+ mm': an exponent without its digits (not the unit 'e', the elementary charge)
+        raise input_error(field, f"the exponent after 'e' needs digits, as in 1.5e-3 (e.g. '{example}')", repr(text))
     j = _skip_spaces(s, i)
     if j == len(s):
         factors: list[tuple[str, int]] = []

@@ -85,6 +85,21 @@ def _exit_code(exc: FloatcalcError) -> int:
     return EXIT_BAD_INPUT if isinstance(exc, ValueError) else EXIT_SOLVER
 
 
+def _os_message(exc: Exception) -> str:
+    """One plain line for a file that could not be read or written (no raw ``[Errno n]`` text).
+
+    >>> _os_message(FileNotFoundError(2, "No such file or directory", "/x/r.pdf"))
+    '/x/r.pdf: cannot be read or written (no such file or directory); check the path and its folder'
+    """
+    if isinstance(exc, UnicodeDecodeError):
+        return f"input: must be UTF-8 text (undecodable byte at position {exc.start})"
+    name = getattr(exc, "filename", None)
+    why = (getattr(exc, "strerror", None) or type(exc).__name__).lower()
+    if name is None:
+        return f"file: cannot be read or written ({why})"
+    return f"{name}: cannot be read or written ({why}); check the path and its folder"
+
+
 def _run(argv: list[str] | None) -> int:
     parser = build_parser()
     args = parser.parse_args(_join_negative_values(sys.argv[1:] if argv is None else list(argv)))
@@ -104,7 +119,7 @@ def _run(argv: list[str] | None) -> int:
             print(f"floatcalc: error: {_one_line(line)}", file=sys.stderr)
         return _exit_code(exc)
     except (OSError, UnicodeDecodeError) as exc:
-        print(f"floatcalc: error: {_one_line(exc)}", file=sys.stderr)
+        print(f"floatcalc: error: {_one_line(_os_message(exc))}", file=sys.stderr)
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         print("floatcalc: interrupted", file=sys.stderr)

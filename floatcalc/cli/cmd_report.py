@@ -26,6 +26,29 @@ def register(sub) -> None:
     p.set_defaults(func=run)
 
 
+def _check_targets(output: str, csv_dir: str | None) -> None:
+    """Refuse, before any solving, a PDF or CSV target that cannot be written."""
+    import os
+    from pathlib import Path
+
+    from ..errors import input_error
+
+    out = Path(output)
+    if out.is_dir():
+        raise input_error("output", "is a folder; give a file name ending in .pdf", repr(output))
+    folder = out.parent
+    if not folder.is_dir():
+        raise input_error("output", "folder does not exist", repr(str(folder)))
+    if not os.access(folder, os.W_OK) or (out.exists() and not os.access(out, os.W_OK)):
+        raise input_error("output", "cannot be written here (permission denied)", repr(output))
+    if csv_dir is not None:
+        d = Path(csv_dir)
+        if d.exists() and not d.is_dir():
+            raise input_error("csv-dir", "is a file, not a folder", repr(csv_dir))
+        if not d.exists() and not d.parent.is_dir():
+            raise input_error("csv-dir", "its parent folder does not exist", repr(str(d.parent)))
+
+
 def run(args) -> int:
     from ..design import example, load_design
     from ..device.solve import solve_device
@@ -37,6 +60,7 @@ def run(args) -> int:
 
     if not str(args.output).lower().endswith(".pdf"):
         raise input_error("output", "must be a file name ending in .pdf", repr(args.output))
+    _check_targets(args.output, args.csv_dir)
     if (args.file is None) == (args.example is None):
         raise input_error("report", "give a design file or --example NAME (one of them)",
                           "both" if args.file else "neither")

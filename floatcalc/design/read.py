@@ -53,6 +53,8 @@ def read_text(path, what: str = "design file") -> tuple[str, str]:
 
     A missing file, a directory or an unreadable file gives one plain line.
     """
+    if isinstance(path, bytes) or not isinstance(path, str) and not hasattr(path, "__fspath__"):
+        raise input_error("path", f"must be the path of a {what}", type(path).__name__)
     p = Path(path)
     if p.is_dir():
         raise input_error(str(path), f"is a folder, not a {what}")
@@ -92,6 +94,8 @@ def parse_toml(text: str, source: str = "design") -> dict:
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        raise input_error(source, f"is not valid TOML ({str(exc).splitlines()[0]})") from None
+        hint = ("; a design file is TOML, this looks like CSV data (for 'floatcalc fit --data')"
+                if str(source).lower().endswith(".csv") else "")
+        raise input_error(source, f"is not valid TOML ({str(exc).splitlines()[0]}){hint}") from None
     except RecursionError:
         raise input_error(source, "is not a design file: arrays or tables nested too deeply") from None

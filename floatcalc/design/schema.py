@@ -371,8 +371,10 @@ def _element(el, path, problems):
     p["material_name"] = el.get("material") if isinstance(el.get("material"), str) else None
     # layout
     count = 1
+    bad_count = False
     if "count" in el:
-        count = _int(el["count"], f"{path}.count", problems, 1, MAX_ELEMENTS) or 1
+        got = _int(el["count"], f"{path}.count", problems, 1, MAX_ELEMENTS)
+        count, bad_count = got or 1, got is None
     layout = el.get("layout", "around" if count > 1 else None)
     if layout is not None and layout not in LAYOUTS:
         problems.append(f"{path}.layout: must be one of {', '.join(LAYOUTS)}, got {_short(layout)}")
@@ -393,7 +395,7 @@ def _element(el, path, problems):
                            if "layout_spacing" in el else None)
     p["start_angle"] = (_angle(el["start_angle"], f"{path}.start_angle", problems, signed=True,
                                lo=-2 * math.pi, hi=2 * math.pi) if "start_angle" in el else 0.0)
-    if "position" not in el and layout is None:
+    if "position" not in el and layout is None and not bad_count:  # a bad count is reported once
         problems.append(f"{path}.position: required ([x, y] such as [\"10 mm\", \"0 mm\"]), or give count "
                         "and layout")
     if len(problems) == before:
@@ -575,6 +577,9 @@ def design_from_data(data: dict, name: str = "design", *, source_text: str | Non
 
     if not isinstance(data, dict):
         raise input_error(name, "must be a design (a TOML table)", type(data).__name__)
+    if not data:  # an empty file: one line, not the three keys it lacks
+        raise input_error(name, "is empty; a design needs schema_version = 2, a [body] table and "
+                          "[[elements]] tables (start from 'floatcalc design show twin_rod')")
     fmt = detect(data)
     notes: tuple = ()
     if fmt != "schema 2":
@@ -641,6 +646,9 @@ def load_design(source=None, *, text: str | bytes | None = None) -> Design:
         text, name = read_text(source)
     else:
         name = "design" if source is None else str(source)
+        if not isinstance(text, (str, bytes, bytearray)):
+            raise input_error("text", "must be design text (str) or the bytes of a design file",
+                              type(text).__name__)
         text = decode(text, name)
     data = parse_toml(text, name)
     return design_from_data(data, name, source_text=text)

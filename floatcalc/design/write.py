@@ -128,8 +128,21 @@ def design_text(design) -> str:
 
 
 def save_design(design, path) -> None:
-    """Write a design to ``path`` in schema 2 (comments of its source kept)."""
+    """Write a design to ``path`` in schema 2 (comments of its source kept).
+
+    A data dict is validated first (the file written must load again); ``path`` must be a
+    path (``str`` or ``os.PathLike``).
+    """
+    if isinstance(path, bytes) or not isinstance(path, str) and not hasattr(path, "__fspath__"):
+        raise input_error("path", "must be a file path such as 'design.toml'", type(path).__name__)
+    if not str(path).strip():
+        raise input_error("path", "must be a file path such as 'design.toml'", "an empty string")
+    if isinstance(design, dict):
+        from .schema import design_from_data
+
+        design_from_data(design)  # refuse what could not be read back
+    text = design_text(design)
     try:
-        Path(path).write_text(design_text(design), encoding="utf-8")
+        Path(path).write_text(text, encoding="utf-8")
     except OSError as exc:
         raise input_error(str(path), f"cannot be written ({exc.strerror or 'write error'})") from None

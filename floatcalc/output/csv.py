@@ -8,9 +8,22 @@ import io
 import zipfile
 
 
+class _SafeWriter:
+    """A csv writer whose text cells have their control characters escaped (names from a
+    design file reach a terminal when the CSV is printed)."""
+
+    def __init__(self, buf):
+        self._w = _csv.writer(buf, lineterminator="\n")
+
+    def writerow(self, row):
+        from .text import escape_controls
+
+        self._w.writerow([escape_controls(c) if isinstance(c, str) else c for c in row])
+
+
 def _writer():
     buf = io.StringIO()
-    return buf, _csv.writer(buf, lineterminator="\n")
+    return buf, _SafeWriter(buf)
 
 
 def curve_tables(tables, prefix: str = "") -> dict[str, str]:

@@ -44,7 +44,7 @@ class _Pages:
         from .. import __version__
 
         n = len(self.figs)
-        with PdfPages(target, metadata={"Title": f"floatcalc report: {title}", "Creator": f"floatcalc {__version__}"}) as pdf:
+        with PdfPages(target, metadata={"Title": f"floatcalc report: {_plain(title)}", "Creator": f"floatcalc {__version__}"}) as pdf:
             for k, fig in enumerate(self.figs, 1):
                 fig.text(0.07, 0.025, f"floatcalc {__version__} · {date} · static estimate on a clean liquid surface",
                          fontsize=7.5, color="#555555")
@@ -107,8 +107,11 @@ class _Flow:
 
 
 def _plain(text: str) -> str:
-    """Text drawn as it is: ``$`` escaped so matplotlib never reads user text as mathtext."""
-    return str(text).replace("$", r"\$")
+    """Text drawn as it is: ``$`` escaped so matplotlib never reads user text as mathtext, and
+    control characters written as escapes (:func:`floatcalc.output.text.escape_controls`)."""
+    from .text import escape_controls
+
+    return escape_controls(text).replace("$", r"\$")
 
 
 def write_pdf(design, result, target: Any, *, tables=None, compared=(), date: str | None = None) -> None:

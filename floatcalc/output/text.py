@@ -131,6 +131,27 @@ def input_rows(design) -> list[tuple[str, str]]:
     return rows
 
 
+_CONTROL_CATEGORIES = ("Cc", "Cf", "Cs", "Co", "Zl", "Zp")
+
+
+def escape_controls(text: Any) -> str:
+    r"""``text`` with control, format (bidi overrides), private-use and line-separator characters
+    written as escapes (``\x1b``, ``\u202e``), so a name from a design file cannot act on a
+    terminal, reorder a PDF line or start a new one. Printable text is unchanged.
+
+    >>> escape_controls("leg\x1b[2J\u202eevil")
+    'leg\\x1b[2J\\u202eevil'
+    >>> escape_controls("ball foot 1 (0.5 mm, 150°)")
+    'ball foot 1 (0.5 mm, 150°)'
+    """
+    import unicodedata
+
+    s = str(text)
+    if s.isascii() and s.isprintable():
+        return s
+    return "".join(repr(c)[1:-1] if unicodedata.category(c) in _CONTROL_CATEGORIES else c for c in s)
+
+
 def _plain(v: Any) -> str:
     if isinstance(v, list):
         return "[" + ", ".join(_plain(x) for x in v) + "]"

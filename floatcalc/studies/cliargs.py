@@ -54,7 +54,7 @@ def add_design_args(p) -> None:
     g.add_argument("--example", default=None, help="built-in invented device, e.g. skimmer")
     g.add_argument("--element", default="rod", help="rod legs (default), or one ball or pad (uses --radius, "
                    "--contact-angle, --material-density, --payload, --thickness)")
-    g.add_argument("--thickness", default="0.5mm", help="pad thickness (default 0.5mm)")
+    g.add_argument("--thickness", default=None, help="pad thickness (default 0.5mm; with --element pad only)")
 
 
 def model_from_args(args, liquid_from_args):
@@ -66,6 +66,12 @@ def model_from_args(args, liquid_from_args):
             raise input_error("design", "give either --design or --example, not both", repr(args.design))
         from .device_model import device_model
 
+        if (getattr(args, "element", "rod") or "rod") != "rod":
+            raise input_error("--element", "applies to rod legs, a ball or a pad, not to a whole device "
+                              "(--design/--example)", repr(args.element))
+        if getattr(args, "thickness", None) is not None:
+            raise input_error("--thickness", "applies only with --element pad, not to a whole device "
+                              "(--design/--example)", args.thickness)
         for key in ("radius", "length", "contact_angle", "count", "material_density"):
             if getattr(args, key, ROD_DEFAULTS.get(key)) != ROD_DEFAULTS.get(key):
                 raise input_error("--" + key.replace("_", "-"), "applies to rod legs, not to a whole device (--design/"
@@ -86,6 +92,8 @@ def model_from_args(args, liquid_from_args):
             m = _with_base(m, surface_tension=to_si(args.surface_tension, "surface_tension", "surface_tension"))
         return m
     element = getattr(args, "element", "rod") or "rod"
+    if getattr(args, "thickness", None) is not None and element != "pad":
+        raise input_error("--thickness", "applies only with --element pad", args.thickness)
     if element in ("ball", "pad"):
         from .. import _validate as v
         from .element_model import element_model
@@ -93,7 +101,7 @@ def model_from_args(args, liquid_from_args):
         vals = rod_values(args)
         base = {k: vals[k] for k in ("radius", "contact_angle", "material_density", "payload_mass")}
         if element == "pad":
-            base["thickness"] = v.length(args.thickness, "thickness")
+            base["thickness"] = v.length(args.thickness or "0.5mm", "thickness")
         return element_model(element, liquid_from_args(args), **base)
     if element != "rod":
         raise input_error("element", "must be rod, ball or pad", repr(element))
@@ -118,6 +126,9 @@ def add_exec_args(p) -> None:
 def exec_kwargs(args) -> dict:
     from .executors import check_workers
 
+    if args.workers is not None and args.executor in ("serial", "dask"):
+        raise input_error("--workers", f"applies only to the local executor (--executor local or auto), not "
+                          f"'{args.executor}'", args.workers)
     return {"executor": args.executor, "scheduler": args.scheduler, "workers": check_workers(args.workers),
             "progress": True if args.progress else None}
 

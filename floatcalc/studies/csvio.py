@@ -79,10 +79,18 @@ def _delimiter(header_raw: str, field: str, lineno: int) -> str:
     return ","
 
 
-def _open(src: Any) -> tuple[IO[str], bool]:
+def _open(src: Any, field: str = "data") -> tuple[IO[str], bool]:
     if hasattr(src, "read"):
         return src, False
-    return open(Path(src), newline="", encoding="utf-8-sig"), True
+    # a path: the one guarded reader (folder, missing file, size, UTF-8 with a BOM, one line each)
+    from ..design.read import read_text
+    from ..errors import InputError
+
+    try:
+        text, _ = read_text(src, "data file")
+    except InputError as exc:  # "data: rig.csv: files may be at most 1000 kB, ..."
+        raise InputError(f"{field}: {exc}") from None
+    return io.StringIO(text, newline=""), True
 
 
 def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = False,
@@ -117,7 +125,7 @@ def read_table(src: Any, required: dict[str, str], *, skip_bad_rows: bool = Fals
         Missing header or units, missing columns, units of the wrong dimension, bad rows
         (all listed by line number), too few rows.
     """
-    fh, close = _open(src)
+    fh, close = _open(src, field)
     try:
         text = fh.read(MAX_BYTES + 1)
     finally:

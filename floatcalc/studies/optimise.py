@@ -393,7 +393,11 @@ def optimise_device_scale(design: Any, payload_mass: Any, *, safety_factor: floa
         raise input_error("safety_factor", "must be a number from 1 to 100", repr(safety_factor)) from None
     if not 1.0 <= k <= 100.0:
         raise input_error("safety_factor", "must be a number from 1 to 100", repr(safety_factor))
-    lo, hi = (float(b) for b in bounds)
+    scan = v.count(scan, "scan", upper=200)  # log-spaced device solves before the root search
+    try:
+        lo, hi = (float(b) for b in bounds)
+    except (TypeError, ValueError):
+        raise input_error("bounds", "must be two numbers (low, high) with 0.1 ≤ low < high ≤ 10", repr(bounds)) from None
     if not (0.1 <= lo < hi <= 10.0):
         raise input_error("bounds", "must satisfy 0.1 ≤ low < high ≤ 10", f"{lo:g}:{hi:g}")
     m = device_model(design)

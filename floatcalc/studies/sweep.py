@@ -117,6 +117,9 @@ def sweep(model: Model, axes: Sequence[Axis | str], *, values: dict[str, Any] | 
 
     Validity: that of the model; its validity warnings for the grid are attached.
     """
+    if not isinstance(model, Model):
+        raise input_error("model", "must be a study model (floatcalc.rod_model or floatcalc.device_model)",
+                          type(model).__name__)
     cat = model.axis_catalogue()
     axes = tuple(parse_axis(a, cat) if isinstance(a, str) else a for a in axes)
     if not 1 <= len(axes) <= 2:

@@ -253,6 +253,9 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
        JAMA 249, 1743 (1983) (rule of three).
     .. [2] A. M. Law, W. D. Kelton, Simulation Modeling and Analysis, McGraw-Hill (batch means).
     """
+    if not isinstance(model, Model):
+        raise input_error("model", "must be a study model (floatcalc.rod_model or floatcalc.device_model)",
+                          type(model).__name__)
     N = _whole(samples, "samples", MIN_SAMPLES, MAX_SAMPLES)
     s = _whole(seed, "seed", 0, 2**63 - 1)
     if not isinstance(distributions, dict):
