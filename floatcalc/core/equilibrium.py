@@ -314,6 +314,25 @@ def utilisation(sup: Support, e) -> np.ndarray:
     return (e - d0) / (sup.limit_depth - d0)
 
 
+def _root(f, a: float, b: float, *, rtol: float, xtol: float) -> float:
+    """Root of f on [a, b] with f(a) < 0 <= f(b) as first evaluated: Brent's method, or, when f
+    evaluated again no longer changes sign there (the equilibrium behind f is followed from the
+    previous load, so near a fold it can depend on the path), bisection on the sign of f, which
+    keeps the bracket as evaluated and returns its loaded (f >= 0) end's neighbour on the safe side."""
+    from scipy.optimize import brentq
+
+    try:
+        return brentq(f, a, b, rtol=rtol, xtol=xtol)
+    except ValueError:
+        pass
+    for _ in range(200):
+        if b - a <= xtol + rtol * abs(b):
+            break
+        m = 0.5 * (a + b)
+        a, b = (m, b) if f(m) < 0.0 else (a, m)
+    return a
+
+
 def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float, *, rtol: float = 1e-8):
     """Largest extra load P [σ l_c] at (px, py) before the first point reaches its limit.
 
@@ -354,7 +373,7 @@ def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float,
         else:
             raise ConvergenceError("no static equilibrium found even for a nearly weightless device "
                                    "(check the element layout and the centre of mass)")
-        P = brentq(lambda P: g(P)[0], lo, hi, rtol=rtol, xtol=1e-12 * W)
+        P = _root(lambda P: g(P)[0], lo, hi, rtol=rtol, xtol=1e-12 * W)
     else:
         # Step out with a stiffness-based prediction until the margin changes sign, then Brent.
         kz = max(float(np.sum((sup._F[:, 1:] - sup._F[:, :-1]).max(axis=1) / sup._step)), 1e-12)
@@ -369,7 +388,7 @@ def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float,
         if gb < 0.0:
             P = b
         else:
-            P = brentq(lambda P: g(P)[0], a, b, rtol=rtol, xtol=1e-12 * max(total, 1.0))
+            P = _root(lambda P: g(P)[0], a, b, rtol=rtol, xtol=1e-12 * max(total, 1.0))
     _, u, e = g(P)
     if u is None:
         raise ConvergenceError("device equilibrium did not converge near its capacity")
