@@ -39,11 +39,15 @@ def _design(elements, mass="0.3 g", com=("0 mm", "0 mm")):
                              "body": {"mass": mass, "centre_of_mass": list(com)}, "elements": elements})
 
 
-#: Invented rig: four rods, two ball feet, two pads and two pins (balls and pads close enough to
-#: the rods that their shielding factors are below 1).
+#: Invented rig: five rods (one pair side by side 2 mm apart, so that their shielding factors are
+#: below 1; the pair is 3.3 l_c from the next rod, clear of the 2.5 l_c reach under the perturbations), two ball feet and two pads close to the rods, and two pins.
 MIXED = [
     *({"kind": "rod", "position": _at(14, a), "heading": f"{a} deg", "radius": "0.2 mm", "length": "16 mm",
        "material": "steel", "coating": {"advancing": "150 deg"}} for a in (45, 135, 225, 315)),
+    {"kind": "rod", "position": [f"{16 * math.cos(math.pi / 4) - 2 * math.sin(math.pi / 4):.6f} mm",
+                                 f"{16 * math.sin(math.pi / 4) + 2 * math.cos(math.pi / 4):.6f} mm"],
+     "heading": "45 deg", "radius": "0.2 mm", "length": "16 mm", "material": "steel",
+     "coating": {"advancing": "150 deg"}},
     *({"kind": "ball", "position": _at(7, a), "radius": "1 mm", "material": "nylon",
        "coating": {"advancing": "150 deg"}} for a in (0, 180)),
     *({"kind": "pad", "position": _at(7, a), "radius": "1.5 mm", "thickness": "0.2 mm", "material": "nylon",
@@ -167,7 +171,7 @@ def test_kinds_that_stay_scalar_say_why():
 
     assert set(kind_names()) == set(db.BATCH_KINDS) | set(db.SCALAR_KINDS)
     flex = _design([{"kind": "flexible_leg", "position": ["0 mm", "20 mm"], "heading": "90 deg", "radius": "0.1 mm",
-                     "length": "20 mm", "material": "steel", "coating": {"advancing": "150 deg"}}, *MIXED[4:6]],
+                     "length": "20 mm", "material": "steel", "coating": {"advancing": "150 deg"}}, *MIXED[5:7]],
                    com=("0 mm", "5 mm"))
     assert not db.batchable(flex)
     m = device_model(flex)

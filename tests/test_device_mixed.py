@@ -64,3 +64,42 @@ def test_mirroring_the_layout_flips_the_roll():
     assert a["roll_deg"] != 0.0
     assert b["roll_deg"] == pytest.approx(-a["roll_deg"], rel=1e-6, abs=1e-9)
     assert b["heave_m"] == pytest.approx(a["heave_m"], rel=1e-6)
+
+
+def test_a_small_ball_beside_a_rod_does_not_shield_it_more_than_a_whole_rod_would():
+    """A rod with a 0.5 mm ball foot 1.8 l_c away (invented rig). The ball's meniscus is far
+    smaller than a parallel rod's at the same gap, so the rod's limit cannot fall by more than
+    a full parallel neighbour's would: the exact shared-meniscus solution of two long rods
+    (core.parallel2d; Vella, Lee & Kim, Langmuir 22, 5979, 2006) bounds the shielding from below.
+    (The cluster's level limit once gave the rod 64 % of its limit alone: the ball reached the
+    end of its branch long before the rod reached its limit.)"""
+    import math
+
+    from floatcalc.core import parallel2d
+    from floatcalc.design import design_from_data
+    from floatcalc.device.solve import Device, solve_device
+
+    data = {"schema_version": 2, "description": "Invented test rig", "invented": True,
+            "liquid": {"name": "water", "temperature": "20 degC"},
+            "body": {"mass": "0.3 g"},
+            "elements": [
+                {"kind": "rod", "name": "leg N", "position": ["0 mm", "15 mm"], "radius": "0.15 mm",
+                 "length": "20 mm", "material": "steel", "coating": {"advancing": "115 deg"}},
+                {"kind": "rod", "name": "leg S", "position": ["0 mm", "-15 mm"], "radius": "0.15 mm",
+                 "length": "20 mm", "material": "steel", "coating": {"advancing": "115 deg"}},
+                *({"kind": "ball", "name": n, "position": [x, y], "radius": "0.5 mm", "material": "steel",
+                   "coating": {"advancing": "115 deg"}}
+                  for n, (x, y) in {"foot A": ("12 mm", "0 mm"), "foot B": ("-6 mm", "10 mm"),
+                                    "foot C": ("-6 mm", "-10 mm")}.items()),
+            ]}
+    design = design_from_data(data)
+    dev = Device.from_design(design)
+    lc = design.liquid.lc
+    gap = (15e-3 - 10e-3 - 0.15e-3 - 0.5e-3) / lc            # rod surface to ball surface [l_c]
+    R = 0.15e-3 / lc
+    th = math.radians(115)
+    pair = parallel2d.row_limit(R, th, gap + 2 * R, 2)["force"] / (2 * parallel2d.row_limit(R, th, 50.0, 1)["force"])
+    assert 0.9 < pair < 1.0
+    assert min(dev.shielding[:2]) >= pair - 1e-3
+    res = solve_device(design)          # and the device answers (it once ended in a traceback)
+    assert res.verdict in ("floats", "floats with elements broken through", "sinks", "capsizes")
