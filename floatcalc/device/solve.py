@@ -371,6 +371,13 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
     from .assess import safety_factor as check_sf
     from .assess import verdict as decide
 
+    if not isinstance(placement, (bool, np.bool_)):
+        raise input_error("placement", "must be True or False", repr(placement)[:80])
+    if payload_position is not None and (isinstance(payload_position, (str, bytes, dict))
+                                         or not hasattr(payload_position, "__len__")
+                                         or len(payload_position) != 2):
+        raise input_error("payload_position", "must be two lengths (x, y), e.g. (\"3 mm\", \"0 mm\")",
+                          repr(payload_position)[:80])
     dev = _as_device(design)
     liq = dev.liquid
     lc, s, g = liq.lc, liq.sigma, liq.g
@@ -391,7 +398,7 @@ def solve_device(design, payload: Any | None = None, payload_position: Any | Non
             px, py = (c if isinstance(c, float) and payload_position is None else to_si(c, "length", "payload_position")
                       for c in pos)
         except TypeError:
-            raise input_error("payload_position", "must be two lengths (x, y)", repr(pos)) from None
+            raise input_error("payload_position", "must be two lengths (x, y)", repr(pos)[:80]) from None
         if not (abs(px) <= 1.0 and abs(py) <= 1.0):
             raise input_error("payload_position", "must be within 1 m of the origin", f"({px:g} m, {py:g} m)")
     at_com = pos is None
