@@ -217,7 +217,7 @@ def rod(radius: Any, length: Any, contact_angle: Any, *, receding_angle: Any | N
             f"length {L * 1e3:.3g} mm is under 20 capillary lengths ({20 * lc * 1e3:.3g} mm): the ends "
             + (f"(meniscus round the rod ends) add {100 * end_share:.2g} % here, bounded by σ × the contact "
                "line across each end face (floatcalc.core.finite_rod)" if end_share > 0 else
-               "are taken to add nothing (the solved 3D ends take off up to 0.06 σ l_c each, so the "
+               "(rod ends) are taken to add nothing (the solved 3D ends take off up to 0.06 σ l_c each, so the "
                f"limit may be up to {100 * 0.12 * s * lc / max(total / n, 1e-300):.2g} % high; "
                "floatcalc.core.finite_rod)")
         )
