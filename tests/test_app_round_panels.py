@@ -19,8 +19,7 @@ APP = str(Path(__file__).resolve().parents[1] / "app.py")
 
 def _classroom():
     at = AppTest.from_file(APP, default_timeout=240).run()
-    at.selectbox(key="pick").set_value("classroom").run()
-    at.button(key="load_example").click().run()
+    at.selectbox(key="pick").set_value("classroom").run()   # one choice loads it
     assert not at.exception
     return at
 

@@ -625,22 +625,31 @@ def reports_panel(design, r, key: str) -> None:
 # ------------------------------------------------------------------------------------------
 # Sidebar
 
+def _pick_example() -> None:
+    """Load the built-in example just chosen, then clear the choice."""
+    from ..design import example
+
+    ss = _ss()
+    name = ss.get("pick")
+    if name:
+        d = example(name)
+        load_data(d.data, d.source_text, d.notes)
+        ss.pick = None
+
+
 def sidebar() -> None:
-    from ..design import example, list_examples, load_design
+    from ..design import list_examples, load_design
     from ..design.read import MAX_BYTES
 
     ss = _ss()
     with st.sidebar:
         st.header("Designs")
         ex = {e["name"]: e["description"] for e in list_examples()}
-        pick = st.selectbox("built-in examples (all invented)", list(ex), index=None,
-                            placeholder="choose an example...", key="pick")
-        if pick:
-            st.text(ex[pick])
-        if pick and st.button("load this example", key="load_example"):
-            d = example(pick)
-            load_data(d.data, d.source_text, d.notes)
-            st.rerun()
+        # choosing an example loads it at once (one click), and the box is ready for the next
+        st.selectbox("built-in examples (all invented)", list(ex), index=None,
+                     placeholder="choose an example to load...", key="pick", on_change=_pick_example,
+                     help="loads the example in place of the current design (save the current one first "
+                          "if you want to keep it)")
         mb = MAX_BYTES / 1e6
         up = st.file_uploader(f"open a design file (TOML, at most {mb:g} MB)", type=["toml"], key="upload")
         if up is not None and up.file_id != ss.get("upload_id"):
