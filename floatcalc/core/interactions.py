@@ -132,6 +132,79 @@ _HMIN = 2.0         # smallest side panel near a rod end, in rod radii
 _CHORD_RATE = 0.3   # refresh the factorised Jacobian when a chord step contracts less
 _GROWTH = 2.0       # growth of the side panels away from a rod end
 _END_FACE = 1       # panels across a rod's end face (at least)
+_KRYLOV_RTOL = 1e-4  # relative residual of an inexact Newton step solved by GMRES
+_KRYLOV_MAX = 25    # GMRES iterations before the Jacobian is factorised afresh
+_KRYLOV_STALE = 10  # more iterations than this: the next solve factorises afresh
+
+
+def _factor(J):
+    """LU factors of a Jacobian in single precision: they serve as a preconditioner and for
+    chord steps only (every residual is evaluated in double precision, so the solution is not
+    affected); half the memory traffic of the double-precision factors and twice as fast."""
+    from scipy.linalg import lu_factor
+
+    return lu_factor(J.astype(np.float32), check_finite=False)
+
+
+def _psolve(lu, v):
+    """Solve with the single-precision factors of :func:`_factor` (double in, double out)."""
+    from scipy.linalg import lu_solve
+
+    return lu_solve(lu, np.asarray(v, dtype=np.float32), check_finite=False).astype(np.float64)
+
+
+def _gmres(matvec, psolve, b, rtol, maxit):
+    """Right-preconditioned GMRES without restarts for J y = b (Saad & Schultz 1986).
+
+    ``matvec(v)`` = J v, ``psolve(v)`` ≈ J⁻¹ v (here an older factorised Jacobian). Classical
+    Gram–Schmidt applied twice, Givens rotations for the residual norm. Returns (y, converged):
+    converged when |b − J y| ≤ rtol |b| (the rotated estimate), or on a lucky breakdown.
+    The number of iterations taken is left in ``_gmres.last``.
+    """
+    from scipy.linalg import solve_triangular
+
+    beta = float(np.linalg.norm(b))
+    _gmres.last = 0
+    if beta == 0.0:
+        return np.zeros_like(b), True
+    V = np.empty((maxit + 1, b.size))
+    H = np.zeros((maxit + 1, maxit))
+    cs, sn = np.zeros(maxit), np.zeros(maxit)
+    g = np.zeros(maxit + 1)
+    g[0] = beta
+    V[0] = b / beta
+    k, ok = 0, False
+    for j in range(maxit):
+        w = matvec(psolve(V[j]))
+        h = V[:j + 1] @ w
+        w = w - V[:j + 1].T @ h
+        h2 = V[:j + 1] @ w
+        w = w - V[:j + 1].T @ h2
+        h += h2
+        hn = float(np.linalg.norm(w))
+        H[:j + 1, j] = h
+        H[j + 1, j] = hn
+        for i in range(j):
+            t = cs[i] * H[i, j] + sn[i] * H[i + 1, j]
+            H[i + 1, j] = -sn[i] * H[i, j] + cs[i] * H[i + 1, j]
+            H[i, j] = t
+        d = math.hypot(H[j, j], H[j + 1, j])
+        if d == 0.0:
+            break
+        cs[j], sn[j] = H[j, j] / d, H[j + 1, j] / d
+        H[j, j], H[j + 1, j] = d, 0.0
+        g[j + 1] = -sn[j] * g[j]
+        g[j] = cs[j] * g[j]
+        k = j + 1
+        if abs(g[j + 1]) <= rtol * beta or hn <= 1e-300:
+            ok = True
+            break
+        V[j + 1] = w / hn
+    _gmres.last = k
+    if k == 0:
+        return np.zeros_like(b), False
+    y = solve_triangular(H[:k, :k], g[:k], check_finite=False)
+    return psolve(V[:k].T @ y), ok
 
 
 @dataclass(frozen=True)
@@ -599,6 +672,7 @@ class Layout:
             self._S_lu = None
             self.M = np.zeros((0, 0))
             self.Q = np.zeros((self.Pbr.shape[0], 0))
+        self.M32 = self.M.astype(np.float32)
         self.W = self.V - self.M @ self.U
         self.Z = self.Pbb - self.Q @ self.U
         self.side = self.P["kind"] == 0
@@ -734,7 +808,10 @@ class Layout:
         return x
 
     # -- solve ----------------------------------------------------------------------------------
-    def _residual(self, x, depth, Dloc, derivs=True, fd=_FD):
+    def _residual(self, x, depth, Dloc, derivs=True, fd=_FD, dense=False):
+        """Residual r(x) and its parts; with ``derivs`` the diagonal parts of the Jacobian
+        (``hv_x``, ``gv_x``, ``dB``: see :meth:`_jmul`), and with ``dense`` the Jacobian
+        itself as ``aux["J"]`` (formed only to be factorised)."""
         n = self.n_panels
         xr, B = x[:n], x[n:]
         if derivs:
@@ -754,17 +831,38 @@ class Layout:
         r = np.concatenate([rr, rb])
         if derivs:
             nb = self.round_idx.size
-            J = np.empty((n + nb, n + nb))
-            J[:n, :n] = -self.M * hv_x[None, :]
-            J[np.arange(n), np.arange(n)] += gv_x
-            if nb:
-                dB = np.array([law("B", d, 1) for law, d in zip(self.laws, out["Deff"])])
-                J[:n, n:] = -self.W
-                J[n:, :n] = dB[:, None] * (self.Q * hv_x[None, :])
-                J[n:, n:] = np.eye(nb) + dB[:, None] * self.Z
-                out["dB"] = dB
-            out.update(J=J, hv_x=hv_x, gv_x=gv_x, hv_D=hv_D, gv_D=gv_D)
+            dB = np.array([law("B", d, 1) for law, d in zip(self.laws, out["Deff"])]) if nb else np.zeros(0)
+            out.update(hv_x=hv_x, gv_x=gv_x, hv_D=hv_D, gv_D=gv_D, dB=dB)
+            if dense:
+                J = np.empty((n + nb, n + nb))
+                J[:n, :n] = -self.M * hv_x[None, :]
+                J[np.arange(n), np.arange(n)] += gv_x
+                if nb:
+                    J[:n, n:] = -self.W
+                    J[n:, :n] = dB[:, None] * (self.Q * hv_x[None, :])
+                    J[n:, n:] = np.eye(nb) + dB[:, None] * self.Z
+                out["J"] = J
         return r, out
+
+    def _jmul(self, aux, Y, low=False):
+        """Jacobian times Y (vector or columns) without forming it:
+        J = [[diag(gv_x) − M diag(hv_x), −W], [diag(dB) Q diag(hv_x), I + diag(dB) Z]]."""
+        n = self.n_panels
+        one = Y.ndim == 1
+        Y2 = Y[:, None] if one else Y
+        yr, yb = Y2[:n], Y2[n:]
+        hy = aux["hv_x"][:, None] * yr
+        if low:   # single-precision M: enough for an inexact Newton step (relative 1e-4)
+            top = aux["gv_x"][:, None] * yr - (self.M32 @ hy.astype(np.float32)).astype(np.float64)
+        else:
+            top = aux["gv_x"][:, None] * yr - self.M @ hy
+        if self.round_idx.size:
+            top = top - self.W @ yb
+            bot = yb + aux["dB"][:, None] * (self.Q @ hy + self.Z @ yb)
+            out = np.concatenate([top, bot])
+        else:
+            out = top
+        return out[:, 0] if one else out
 
     def _local_depth(self, depth, tilt):
         D = depth[self.owner] if self.n_panels else np.zeros(0)
@@ -836,46 +934,64 @@ class Layout:
         nr = float(np.max(np.abs(r))) if r.size else 0.0
         n2 = float(r @ r)
         lu = self._lu if (self._lu is not None and start is not None) else None
-        fresh = False
+        fresh = False    # the factorised Jacobian is this point's own
+        stale = False    # it preconditions poorly: the next solve factorises afresh
+        krylov = False   # Newton steps by GMRES on the exact Jacobian, the older one preconditioning
         for it in range(1, max_iter + 1):
             if nr < tol:
                 converged = True
                 break
+            fd = _FD if nr > 1e-5 else _FD_FINE
             if lu is None:
-                _, auxj = self._residual(x, depth, Dloc, fd=_FD if nr > 1e-5 else _FD_FINE)
+                _, auxj = self._residual(x, depth, Dloc, fd=fd, dense=True)
                 try:
-                    lu = lu_factor(auxj["J"], check_finite=False)
+                    lu = _factor(auxj["J"])
                 except (ValueError, np.linalg.LinAlgError):
                     break
-                fresh = True
-            dx = -lu_solve(lu, r, check_finite=False)
+                if not np.all(np.isfinite(lu[0])):
+                    break
+                fresh, krylov = True, False
+                dx = -_psolve(lu, r)
+            elif krylov:
+                _, auxj = self._residual(x, depth, Dloc, fd=fd)
+                dx, ok_k = _gmres(lambda v, a_=auxj: self._jmul(a_, v, low=True),
+                                  lambda v, f_=lu: _psolve(f_, v), -r, _KRYLOV_RTOL, _KRYLOV_MAX)
+                if not ok_k:
+                    lu = None  # the old Jacobian no longer preconditions: factorise afresh
+                    continue
+                stale = stale or _gmres.last > _KRYLOV_STALE
+            else:
+                dx = -_psolve(lu, r)
+            newton = fresh or krylov
             big = np.max(np.abs(dx) / mstep) if dx.size else 0.0
             if big > 1.0:
                 dx = dx / big
             lam = 1.0
             ok = False
-            for _ in range(12 if fresh else 1):
+            for _ in range(12 if newton else 1):
                 xn = np.clip(x + lam * dx, lo, hi)
                 rn, _ = self._residual(xn, depth, Dloc, derivs=False)
                 nrn = float(np.max(np.abs(rn)))
                 n2n = float(rn @ rn)
-                # fresh Jacobian: Armijo on ½|r|²; reused one: demand a clear contraction
-                if nrn < tol or n2n < ((1.0 - 1e-4 * lam) if fresh else 0.64) * n2:
+                # Newton step: Armijo on ½|r|²; chord step (older Jacobian): a clear contraction
+                if nrn < tol or n2n < ((1.0 - 1e-4 * lam) if newton else 0.64) * n2:
                     ok = True
                     break
                 lam *= 0.5
             if not ok:
                 if fresh:
                     break
-                lu = None  # refresh the Jacobian at the current point and retry
+                if krylov:
+                    lu = None  # refresh the Jacobian at the current point and retry
+                krylov = True
                 continue
-            if not fresh and nrn > _CHORD_RATE * nr:
-                lu = None  # slow contraction: refresh the Jacobian for the next step
+            if not newton and nrn > _CHORD_RATE * nr:
+                krylov = True  # slow contraction: exact Newton steps from here on
             x, r, nr, n2 = xn, rn, nrn, n2n
             fresh = False
         else:
             converged = nr < tol
-        self._lu = lu
+        self._lu = None if stale else lu
         _, aux = self._residual(x, depth, Dloc, derivs=False)
         return self._state(x, depth, Dloc, aux, converged, it, lu)
 
@@ -914,6 +1030,7 @@ class Layout:
             V = np.eye(nbod)
         k = V.shape[1]
         _, aux = self._residual(x, depth, Dloc, fd=_FD_FINE)
+        aux["_at"] = (x, depth, Dloc)
         _, _, _, fx, fD = self._forces(x[:n], Dloc, aux["h"], aux["psi"])
         own = self.owner
         EV = self.E @ V                      # (n, k): depth change of each panel's owner
@@ -937,27 +1054,37 @@ class Layout:
                 Fx[i, n:] += dFh * self.Z[j]
                 FDV[i] += dF * V[i] + dFh * hinDV[j]
             rDV[n:] = -aux["dB"][:, None] * (self.Eb @ V - hinDV)
-        dxdV = self._sensitivity(aux["J"], rDV, lu)
+        dxdV = self._sensitivity(aux, rDV, lu)
         dFV = FDV + Fx @ dxdV if dxdV is not None else np.full((nbod, k), np.nan)
         return dxdV, dFV
 
-    def _sensitivity(self, J, rD, lu):
-        """dx/dD = −J⁻¹ ∂r/∂D: iterative refinement on the factorised (possibly older) Jacobian,
-        a fresh factorisation if that does not converge."""
+    def _sensitivity(self, aux, rD, lu):
+        """dx/dD = −J⁻¹ ∂r/∂D: GMRES (one column) or iterative refinement (several) on the
+        exact Jacobian, preconditioned by the factorised (possibly older) one; a fresh
+        factorisation if that does not converge."""
         from scipy.linalg import lu_factor, lu_solve
 
         if rD.size == 0:
             return np.zeros_like(rD)
         scale = float(np.max(np.abs(rD))) or 1.0
         if lu is not None:
-            y = -lu_solve(lu, rD, check_finite=False)
-            for _ in range(30):
-                res = -rD - J @ y
-                if float(np.max(np.abs(res))) < 1e-10 * scale:
-                    return y
-                y = y + lu_solve(lu, res, check_finite=False)
+            if rD.shape[1] == 1:
+                y, ok = _gmres(lambda v: self._jmul(aux, v), lambda v: _psolve(lu, v), -rD[:, 0], 1e-9, 40)
+                if _gmres.last > _KRYLOV_STALE and self._lu is lu:
+                    self._lu = None  # poor preconditioner: the next solve factorises afresh
+                if ok:
+                    return y[:, None]
+            else:
+                y = -_psolve(lu, rD)
+                for _ in range(30):
+                    res = -rD - self._jmul(aux, y)
+                    if float(np.max(np.abs(res))) < 1e-10 * scale:
+                        return y
+                    y = y + _psolve(lu, res)
+        x, depth, Dloc = aux["_at"]
+        _, auxj = self._residual(x, depth, Dloc, fd=_FD_FINE, dense=True)
         try:
-            return -lu_solve(lu_factor(J, check_finite=False), rD, check_finite=False)
+            return -lu_solve(lu_factor(auxj["J"], check_finite=False), rD, check_finite=False)
         except (ValueError, np.linalg.LinAlgError):
             return None
 
@@ -1071,9 +1198,10 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
         pts.append((d, obj(st), st))
         g = slope(st)
     lo_pt = (d, g, st)
+    rising = [(d, g)]
     hi_pt = None
     while hi_pt is None:
-        d_new = lo_pt[0] + step
+        d_new = lo_pt[0] + _next_step(rising, step)
         s_new, ok = run(d_new, lo_pt[2])
         if not ok:  # fold or flooding: bisect the end of the branch
             good, bad, sg = lo_pt[0], d_new, lo_pt[2]
@@ -1099,6 +1227,7 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
             hi_pt = (d_new, g_new, s_new)
         else:
             lo_pt = (d_new, g_new, s_new)
+            rising.append((d_new, g_new))
         if lo_pt[0] > d0 + 20.0:
             raise _conv_error("limit: force still rising 20 l_c below the start depth")
     # Illinois regula falsi on dF/dD over the bracket [lo, hi] (slope + to −)
@@ -1133,6 +1262,35 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
         if abs(xb - xa) < tol:
             break
     return _lim(max(pts, key=lambda p: p[1]), False)
+
+
+def _next_step(rising, step):
+    """Depth step towards the root of the slope from the last rising points (d, dF/dD > 0).
+
+    The slope falls ever faster towards the end of a branch (it tends to −∞ at a fold, which
+    can lie just past the maximum: 0.02 l_c past it for 48 rods in a ring), so a full step
+    often overshoots into no solution. Once the slope falls, the next point aims just beyond
+    its root extrapolated by the parabola through the last three points (the secant through
+    two): that point usually brackets the root closely. Never more than ``step``, never less
+    than 5 % of it.
+    """
+    if len(rising) < 2 or not rising[-2][1] > rising[-1][1] > 0:
+        return step
+    (d1, g1), (d2, g2) = rising[-2], rising[-1]
+    ahead = g2 * (d2 - d1) / (g1 - g2)   # secant
+    if len(rising) >= 3 and rising[-3][1] > g1:
+        d0_, g0_ = rising[-3]
+        # parabola through the three points, in t = d − d2: g = g2 + b t + c t²
+        t0, t1 = d0_ - d2, d1 - d2
+        c = ((g0_ - g2) / t0 - (g1 - g2) / t1) / (t0 - t1)
+        b = (g1 - g2) / t1 - c * t1
+        disc = b * b - 4.0 * c * g2
+        if c != 0.0 and disc >= 0.0:
+            roots = [(-b + sgn * math.sqrt(disc)) / (2.0 * c) for sgn in (1.0, -1.0)]
+            roots = [r for r in roots if r > 0.0]
+            if roots:
+                ahead = min(ahead, min(roots))
+    return min(step, max(0.05 * step, 1.05 * ahead + 0.01 * step))
 
 
 def _lim(p, fold):
