@@ -382,6 +382,18 @@ def _rod_panels(rod: RodBody, ppl: float, end_panel: float = None, growth: float
     return {k: np.concatenate(v) for k, v in out.items()}
 
 
+@functools.lru_cache(maxsize=32)
+def _self_block(length, radius, ppl, mesh):
+    """S and K among the panels of one rod (of this shape and mesh), placed anywhere: the
+    entries depend on distances and on normals that turn with the rod only."""
+    pan = _rod_panels(RodBody(0.0, 0.0, 0.0, length, radius, 0.5 * PI), ppl, *mesh)
+    px, py = 0.5 * (pan["ax"] + pan["bx"]), 0.5 * (pan["ay"] + pan["by"])
+    S, K = bem_k0.panel_matrices(px, py, pan["nx"], pan["ny"], pan["ax"], pan["ay"], pan["bx"], pan["by"])
+    S.setflags(write=False)
+    K.setflags(write=False)
+    return S, K
+
+
 # ---------------------------------------------------------------------------------------------
 # The solved state
 
@@ -530,13 +542,16 @@ class Layout:
 
         segs = [seg(b) for b in self.bodies]
         self._segs, self._dist = segs, dist
-        for i in range(len(segs)):
-            for j in range(i + 1, len(segs)):
-                p1, q1, r1 = segs[i]
-                p2, q2, r2 = segs[j]
-                if dist(p1, q1, p2, q2) < r1 + r2:
-                    raise input_error(f"bodies[{i}], bodies[{j}]", "footprints must not overlap in plan",
-                                      "overlapping elements")
+        # bounding circles first: only pairs whose circles meet can overlap
+        cen = np.array([0.5 * (p + q) for p, q, _ in segs]).reshape(-1, 2)
+        ext = np.array([0.5 * float(np.hypot(*(q - p))) + r for p, q, r in segs])
+        cd = np.hypot(cen[:, None, 0] - cen[None, :, 0], cen[:, None, 1] - cen[None, :, 1])
+        for i, j in zip(*np.nonzero(np.triu(cd <= ext[:, None] + ext[None, :] + 1e-12, 1))):
+            p1, q1, r1 = segs[i]
+            p2, q2, r2 = segs[j]
+            if dist(p1, q1, p2, q2) < r1 + r2:
+                raise input_error(f"bodies[{int(i)}], bodies[{int(j)}]", "footprints must not overlap in plan",
+                                  "overlapping elements")
 
     def _round_warnings(self):
         """Warnings for round bodies with a neighbour closer than 3 l_c (mode-0 blind spot)."""
@@ -586,7 +601,18 @@ class Layout:
         self.plen = np.hypot(P["bx"] - P["ax"], P["by"] - P["ay"])
         n = self.px.size
         if n:
-            S, K = bem_k0.panel_matrices(self.px, self.py, P["nx"], P["ny"], P["ax"], P["ay"], P["bx"], P["by"])
+            # each rod's own block depends only on its shape and mesh: computed once per shape
+            # (the near-singular pairs of a rod are most of the quadrature work), the pairs of
+            # different rods here
+            own = P["owner"]
+            S, K = bem_k0.panel_matrices(self.px, self.py, P["nx"], P["ny"], P["ax"], P["ay"], P["bx"], P["by"],
+                                         skip=(own, own))
+            for i in rods:
+                rod = self.bodies[i]
+                idx = np.flatnonzero(own == i)
+                Ss, Ks = _self_block(rod.length, rod.radius, ppl, self._mesh)
+                S[np.ix_(idx, idx)] = Ss
+                K[np.ix_(idx, idx)] = Ks
         else:
             S, K = np.zeros((0, 0)), np.zeros((0, 0))
         self.S = S
