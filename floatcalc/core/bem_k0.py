@@ -110,6 +110,7 @@ NEAR = 1.5  # pairs nearer than NEAR panel lengths (point to panel midpoint): si
 FAR = 4.0  # ... farther than NEAR: 8-point rule; farther than FAR panel lengths: 4-point rule
 FARTHER = 16.0  # ... farther than FARTHER panel lengths: 2-point rule
 VERY_FAR = 12.0  # [l_c] pairs farther than this plus the panel length: midpoint rule
+TWO_POINT_LC = 8.0  # [l_c] ... farther than this plus the panel length: 2-point rule at most
 _ASYMPTOTIC_TERMS = 8
 
 
@@ -181,9 +182,10 @@ def panel_matrices(px, py, pnx, pny, ax, ay, bx, by, block: int = 256, skip=None
     than :data:`NEAR` L the singular-part subtraction; Gauss–Legendre rules beyond, whose
     error is about ρ^(−2n) for n points, with ρ the Bernstein-ellipse parameter of the
     integrand's nearest singularity (the collocation point; ρ ≥ 5.8 at 1.5 L, ≈ 4d/L far
-    off): 8 points up to :data:`FAR` L (about 1e-12), 4 points up to :data:`FARTHER` L
-    (about 1e-9), 2 points beyond (ρ ≥ 64: below 3e-10 absolute on the twelve-leg and
-    48-leg benchmark layouts, measured against adaptive quadrature); and where every point of the panel lies beyond :data:`VERY_FAR` l_c
+    off): 8 points up to :data:`FAR` L (about 1e-12), 4 points up to :data:`FARTHER` L or
+    :data:`TWO_POINT_LC` l_c beyond the panel (about 1e-9), 2 points beyond (below 3e-10
+    absolute on the twelve-leg and 48-leg benchmark layouts, measured against adaptive
+    quadrature); and where every point of the panel lies beyond :data:`VERY_FAR` l_c
     the midpoint rule (absolute error below L³ K₀(12)/(48π) ≈ 2e-8 L³, where K₀ has fallen
     to 2e-6) with K₀, K₁ from their asymptotic series (:func:`k0_k1_large`).
 
@@ -234,7 +236,7 @@ def panel_matrices(px, py, pnx, pny, ax, ay, bx, by, block: int = 256, skip=None
             vf |= own      # left to the caller
             near &= ~own
         mid = ~vf & ~near
-        two = mid & (dist >= FARTHER * L[None, :])
+        two = mid & ((dist >= FARTHER * L[None, :]) | (dist >= TWO_POINT_LC + L[None, :]))
         eight = near & (dist >= NEAR * L[None, :])
         near &= ~eight
         for mask, (gx, gy, wl) in ((eight, rules[0]), (mid & ~two, rules[1]), (two, rules[2])):

@@ -996,7 +996,7 @@ class Layout:
             ok = False
             for _ in range(12 if newton else 1):
                 xn = np.clip(x + lam * dx, lo, hi)
-                rn, _ = self._residual(xn, depth, Dloc, derivs=False)
+                rn, auxn = self._residual(xn, depth, Dloc, derivs=False)
                 nrn = float(np.max(np.abs(rn)))
                 n2n = float(rn @ rn)
                 # Newton step: Armijo on ½|r|²; chord step (older Jacobian): a clear contraction
@@ -1013,12 +1013,11 @@ class Layout:
                 continue
             if not newton and nrn > _CHORD_RATE * nr:
                 krylov = True  # slow contraction: exact Newton steps from here on
-            x, r, nr, n2 = xn, rn, nrn, n2n
+            x, r, nr, n2, aux = xn, rn, nrn, n2n, auxn
             fresh = False
         else:
             converged = nr < tol
         self._lu = None if stale else lu
-        _, aux = self._residual(x, depth, Dloc, derivs=False)
         return self._state(x, depth, Dloc, aux, converged, it, lu)
 
     def _state(self, x, depth, Dloc, aux, converged, it, lu=None):
