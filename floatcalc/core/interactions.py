@@ -134,7 +134,9 @@ _GROWTH = 2.0       # growth of the side panels away from a rod end
 _END_FACE = 1       # panels across a rod's end face (at least)
 _KRYLOV_RTOL = 1e-4  # relative residual of an inexact Newton step solved by GMRES
 _KRYLOV_MAX = 25    # GMRES iterations before the Jacobian is factorised afresh
-_KRYLOV_STALE = 10  # more iterations than this: the next solve factorises afresh
+_KRYLOV_RENT = 1.0 / 60.0  # a factorisation costs about n/60 GMRES iterations (measured, n = 1344)
+_KRYLOV_MIN = 1000  # unknowns from which exact Newton steps use GMRES rather than a fresh LU
+#                     (below, a factorisation costs a few GMRES-Newton steps: benchmark script)
 
 
 def _factor(J):
@@ -684,6 +686,7 @@ class Layout:
 
     def _prepare(self):
         self._lu = None
+        self._krylov_work = 0.0
         n = self.px.size
         self.n_panels = n
         if n:
@@ -961,7 +964,7 @@ class Layout:
         n2 = float(r @ r)
         lu = self._lu if (self._lu is not None and start is not None) else None
         fresh = False    # the factorised Jacobian is this point's own
-        stale = False    # it preconditions poorly: the next solve factorises afresh
+        big_system = x.size >= _KRYLOV_MIN
         krylov = False   # Newton steps by GMRES on the exact Jacobian, the older one preconditioning
         for it in range(1, max_iter + 1):
             if nr < tol:
@@ -977,6 +980,7 @@ class Layout:
                 if not np.all(np.isfinite(lu[0])):
                     break
                 fresh, krylov = True, False
+                self._krylov_work = 0.0
                 dx = -_psolve(lu, r)
             elif krylov:
                 _, auxj = self._residual(x, depth, Dloc, fd=fd)
@@ -985,7 +989,7 @@ class Layout:
                 if not ok_k:
                     lu = None  # the old Jacobian no longer preconditions: factorise afresh
                     continue
-                stale = stale or _gmres.last > _KRYLOV_STALE
+                self._krylov_work += _gmres.last + 2   # + the Jacobian's diagonal parts
             else:
                 dx = -_psolve(lu, r)
             newton = fresh or krylov
@@ -1007,17 +1011,24 @@ class Layout:
             if not ok:
                 if fresh:
                     break
-                if krylov:
+                if krylov or not big_system:
                     lu = None  # refresh the Jacobian at the current point and retry
-                krylov = True
+                krylov = big_system
                 continue
             if not newton and nrn > _CHORD_RATE * nr:
-                krylov = True  # slow contraction: exact Newton steps from here on
+                # slow contraction: exact Newton steps from here on, by GMRES on a large system
+                # (a factorisation costs tens of its iterations there), else by a fresh LU
+                if big_system:
+                    krylov = True
+                else:
+                    lu = None
             x, r, nr, n2, aux = xn, rn, nrn, n2n, auxn
             fresh = False
         else:
             converged = nr < tol
-        self._lu = None if stale else lu
+        # rent or buy: once the GMRES work on this factorisation has cost as much as a fresh
+        # one, the next solve factorises afresh (at most twice the cost of the better choice)
+        self._lu = None if self._krylov_work > max(8.0, _KRYLOV_RENT * x.size) else lu
         return self._state(x, depth, Dloc, aux, converged, it, lu)
 
     def _state(self, x, depth, Dloc, aux, converged, it, lu=None):
@@ -1095,8 +1106,10 @@ class Layout:
         if lu is not None:
             if rD.shape[1] == 1:
                 y, ok = _gmres(lambda v: self._jmul(aux, v), lambda v: _psolve(lu, v), -rD[:, 0], 1e-9, 40)
-                if _gmres.last > _KRYLOV_STALE and self._lu is lu:
-                    self._lu = None  # poor preconditioner: the next solve factorises afresh
+                if self._lu is lu:
+                    self._krylov_work += _gmres.last
+                    if self._krylov_work > max(8.0, _KRYLOV_RENT * rD.shape[0]):
+                        self._lu = None  # the next solve factorises afresh (see _solve)
                 if ok:
                     return y[:, None]
             else:
