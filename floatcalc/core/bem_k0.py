@@ -221,14 +221,16 @@ def panel_matrices(px, py, pnx, pny, ax, ay, bx, by, block: int = 256, skip=None
         dist = np.hypot(dxm, dym)
         # the midpoint rule with the asymptotic K₀, K₁ on the whole block (dense arrays, no
         # gathers), then the nearer pairs overwritten by their rules below
-        Sb, a1 = k0_k1_large(dist)
-        Sb *= wm[None, :]
+        a0, a1 = k0_k1_large(dist)
+        Sb, Kb = S[sl], K[sl]       # views: the rules below write into S and K
+        np.multiply(a0, wm[None, :], out=Sb)
         with np.errstate(divide="ignore", invalid="ignore"):
             a1 /= dist
-            Kb = dxm * pnx[sl, None]
-            Kb += dym * pny[sl, None]
+            a1 *= -wm[None, :]
+            np.multiply(dxm, pnx[sl, None], out=Kb)
+            dym *= pny[sl, None]
+            Kb += dym
             Kb *= a1
-            Kb *= -wm[None, :]
         vf = dist >= VERY_FAR + L[None, :]
         near = dist < FAR * L[None, :]
         if skip is not None:
@@ -255,8 +257,6 @@ def panel_matrices(px, py, pnx, pny, ax, ay, bx, by, block: int = 256, skip=None
             sn, kn = _near(px[gi], py[gi], pnx[gi], pny[gi], ax[jj], ay[jj], L[jj], ex[jj], ey[jj])
             Sb[ii, jj] = sn
             Kb[ii, jj] = kn
-        S[sl] = Sb
-        K[sl] = Kb
     return S, K
 
 

@@ -61,15 +61,22 @@ a relative error of order (a |∇h_in| / h_in)² ≈ a² (a in l_c; for a neighb
 is not captured for round bodies: under this scheme a round body's limit force with
 neighbours equals its limit alone (only its limit depth shifts); rods get the full effect.
 
-**Solution and limits.** Newton's method on all unknowns at once with the dense Jacobian; the
-factorised Jacobian is kept between solves (chord steps, refreshed when a step contracts the
-residual less than 0.3×), the derivatives of the inner map by central differences (step
+**Solution and limits.** Newton's method on all unknowns at once. The Jacobian
+J = diag(∂ₙh_v′) − M diag(h_v′) (plus the round bodies' rows) is factorised in single precision
+and kept between solves: chord steps with it while they contract the residual at least 0.3×
+a step; past that, exact Newton steps, on systems of 1000 unknowns and more by GMRES (Saad &
+Schultz [4]_) on the exact Jacobian applied without forming it, the kept factors as the
+preconditioner, and on smaller systems by a fresh factorisation. The factors are renewed
+when the GMRES work on them has cost as much as a factorisation (rent or buy). Every residual
+is evaluated in double precision, so the precision of the factors affects only the number of
+steps, not the solution. The derivatives of the inner map are central differences (step
 1e-4 while far from the solution, 1e-7 close to it: the exact map has an E ln|E| term at the
 isolated state E = 0, whose log-singular slope would mislead Newton there). dF/dD follows from
-the implicit-function theorem on the same Jacobian. :func:`limit` raises a body's depth (or
-all depths together) until dF/dD turns negative, then finds its root; a branch that folds
-(no solution deeper, as in narrow gaps) or a rod section that floods (φ → π) ends the search
-there.
+the implicit-function theorem on the same Jacobian (GMRES to 1e-9 for one direction).
+:func:`limit` raises a body's depth (or all depths together) until dF/dD turns negative, the
+steps aimed just past the root predicted by a parabola through the last slopes, then finds
+the root (Illinois regula falsi); a branch that folds (no solution deeper, as in narrow gaps)
+or a rod section that floods (φ → π) ends the search there.
 
 Findings and accuracy (tests/core/test_interactions.py, tests/benchmarks):
 
@@ -111,6 +118,8 @@ References
 .. [2] J. B. Keller, "Surface tension force on a partly submerged body", Phys. Fluids 10,
    3009 (1998).
 .. [3] J. W. Gibbs, The Scientific Papers, vol. 1, p. 326 (1906) (pinning at sharp edges).
+.. [4] Y. Saad, M. H. Schultz, "GMRES: a generalized minimal residual algorithm for solving
+   nonsymmetric linear systems", SIAM J. Sci. Stat. Comput. 7, 856 (1986).
 """
 
 from __future__ import annotations
@@ -156,10 +165,13 @@ def _psolve(lu, v):
 
 
 def _gmres(matvec, psolve, b, rtol, maxit):
-    """Right-preconditioned GMRES without restarts for J y = b (Saad & Schultz 1986).
+    """Flexible right-preconditioned GMRES without restarts for J y = b (Saad & Schultz 1986;
+    the flexible form, Saad 1993, keeps the preconditioned vectors z_j, so that y = Σ z_j c_j
+    is exact to double precision however roughly ``psolve`` is computed).
 
-    ``matvec(v)`` = J v, ``psolve(v)`` ≈ J⁻¹ v (here an older factorised Jacobian). Classical
-    Gram–Schmidt applied twice, Givens rotations for the residual norm. Returns (y, converged):
+    ``matvec(v)`` = J v, ``psolve(v)`` ≈ J⁻¹ v (here an older factorised Jacobian in single
+    precision). Classical Gram–Schmidt applied twice, Givens rotations for the residual norm.
+    Returns (y, converged):
     converged when |b − J y| ≤ rtol |b| (the rotated estimate), or on a lucky breakdown.
     The number of iterations taken is left in ``_gmres.last``.
     """
@@ -170,6 +182,7 @@ def _gmres(matvec, psolve, b, rtol, maxit):
     if beta == 0.0:
         return np.zeros_like(b), True
     V = np.empty((maxit + 1, b.size))
+    Zs = np.empty((maxit, b.size))
     H = np.zeros((maxit + 1, maxit))
     cs, sn = np.zeros(maxit), np.zeros(maxit)
     g = np.zeros(maxit + 1)
@@ -177,7 +190,8 @@ def _gmres(matvec, psolve, b, rtol, maxit):
     V[0] = b / beta
     k, ok = 0, False
     for j in range(maxit):
-        w = matvec(psolve(V[j]))
+        Zs[j] = psolve(V[j])
+        w = matvec(Zs[j])
         h = V[:j + 1] @ w
         w = w - V[:j + 1].T @ h
         h2 = V[:j + 1] @ w
@@ -206,7 +220,7 @@ def _gmres(matvec, psolve, b, rtol, maxit):
     if k == 0:
         return np.zeros_like(b), False
     y = solve_triangular(H[:k, :k], g[:k], check_finite=False)
-    return psolve(V[:k].T @ y), ok
+    return Zs[:k].T @ y, ok
 
 
 @dataclass(frozen=True)
