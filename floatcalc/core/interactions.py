@@ -132,6 +132,18 @@ from typing import Sequence
 import numpy as np
 
 from . import bem_k0, inner2d
+from ._threads import one_blas_thread
+
+
+def _one_thread(fn):
+    """Run ``fn`` with BLAS on one thread (see :mod:`floatcalc.core._threads`)."""
+
+    @functools.wraps(fn)
+    def wrapped(*args, **kwargs):
+        with one_blas_thread():
+            return fn(*args, **kwargs)
+
+    return wrapped
 
 PI = math.pi
 NODES = 16          # Gauss–Legendre nodes of the inner map inside the solve (about 2e-8 relative)
@@ -499,6 +511,7 @@ class Layout:
     True
     """
 
+    @_one_thread
     def __init__(self, bodies: Sequence[RodBody | RoundBody], panels_per_lc: float = 1.0, *,
                  end_panel: float | None = None, growth: float | None = None, end_face: int | None = None,
                  _two_d=None):
@@ -913,6 +926,7 @@ class Layout:
             D = D + tilt[self.owner] * self.P["s"]
         return D
 
+    @_one_thread
     def solve(self, depth, tilt=None, start=None, *, tol: float = 1e-10, max_iter: int = 60) -> State:
         """Solve all contact positions together at the given depths.
 
@@ -1069,6 +1083,7 @@ class Layout:
         st._lazy = (Dloc, lu)
         return st
 
+    @_one_thread
     def _derivatives(self, st: State, V=None):
         """dx/dD·V and dF/dD·V of a solved state for depth directions V (n_bodies × k; all
         bodies when None), by the implicit-function theorem on the Jacobian."""
@@ -1170,6 +1185,7 @@ class Layout:
 # Limits
 
 
+@_one_thread
 def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: float = 1e-6,
           start=None) -> dict:
     """Depth and force of body ``body`` at its limit (largest force over its own depth).
