@@ -12,6 +12,7 @@ threadpoolctl (a dependency); without it the block runs unchanged.
 from __future__ import annotations
 
 import contextlib
+import functools
 
 _CONTROLLER = None
 
@@ -33,3 +34,14 @@ def one_blas_thread():
         return _CONTROLLER.limit(limits=1, user_api="blas")
     except Exception:  # noqa: BLE001 - no threadpoolctl, or it cannot inspect this process
         return contextlib.nullcontext()
+
+
+def single_blas_thread(fn):
+    """Decorator: ``fn`` runs inside :func:`one_blas_thread`."""
+
+    @functools.wraps(fn)
+    def wrapped(*args, **kwargs):
+        with one_blas_thread():
+            return fn(*args, **kwargs)
+
+    return wrapped

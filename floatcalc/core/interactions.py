@@ -132,18 +132,7 @@ from typing import Sequence
 import numpy as np
 
 from . import bem_k0, inner2d
-from ._threads import one_blas_thread
-
-
-def _one_thread(fn):
-    """Run ``fn`` with BLAS on one thread (see :mod:`floatcalc.core._threads`)."""
-
-    @functools.wraps(fn)
-    def wrapped(*args, **kwargs):
-        with one_blas_thread():
-            return fn(*args, **kwargs)
-
-    return wrapped
+from ._threads import single_blas_thread as _one_thread
 
 PI = math.pi
 NODES = 16          # Gauss–Legendre nodes of the inner map inside the solve (about 2e-8 relative)

@@ -39,6 +39,7 @@ from typing import Any
 
 import numpy as np
 
+from ..core._threads import single_blas_thread
 from ..errors import ConvergenceError, input_error
 from ..results import Result, field, qfield
 from ..units import Q_
@@ -331,6 +332,7 @@ def _as_device(design) -> Device:
     return Device.from_design(design)
 
 
+@single_blas_thread
 def solve_device(design, payload: Any | None = None, payload_position: Any | None = None, *,
                  safety_factor: Any | None = None, placement: bool = True) -> DeviceResult:
     """Equilibrium, capacity, progressive failure and verdict of a device.
