@@ -660,16 +660,20 @@ class DeviceBatchFunc:
         flat = {k: np.ascontiguousarray(a).ravel() for k, a in zip(INPUTS, arrays)}
         S = flat[INPUTS[0]].size
         out = {k: np.empty(S) for k in ("max_payload", "payload_mass", "spare_payload", "weight")}
-        lay = self.__dict__.get("_layout")
-        if lay is None:   # the nominal device, once per function (a flexible leg's elastica is not free)
-            lay = layout(self.design, self.shielding)
-            object.__setattr__(self, "_layout", lay)
+        lay = self.prepared()._layout
         for a in range(0, S, self.block):
             part = {k: v[a:a + self.block] for k, v in flat.items()}
             res = self._block(lay, part)
             for k in out:
                 out[k][a:a + self.block] = res[k]
         return {k: v.reshape(shape) for k, v in out.items()}
+
+    def prepared(self) -> "DeviceBatchFunc":
+        """This function with the layout of the nominal device built and kept (it goes with
+        the function when a study sends it to worker processes); returns ``self``."""
+        if self.__dict__.get("_layout") is None:
+            object.__setattr__(self, "_layout", layout(self.design, self.shielding))
+        return self
 
     def _scalar(self, lay, x, idx, res):
         from .device_model import _DeviceFunc

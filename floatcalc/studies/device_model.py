@@ -119,10 +119,13 @@ def device_model(design: Any) -> Model:
     from ..device.solve import Device
 
     shield = Device.from_design(design).shielding
+    costly = any(p["kind"] == "flexible_leg" for p in design.elements)
     func = DeviceBatchFunc(design, shielding=shield) if fast else _DeviceFunc(design, shielding=shield)
+    if fast and costly:   # build the nominal layout now: each chunk sent to a worker then has it
+        func = func.prepared()
     return Model(name=f"device: {label}", func=func,
                  inputs=DEVICE_INPUTS, outputs=DEVICE_OUTPUTS, base=base, vectorised=fast,
-                 costly=any(p["kind"] == "flexible_leg" for p in design.elements), limit_output="spare_payload",
+                 costly=costly, limit_output="spare_payload",
                  validity=_NominalWarnings(design), references=REFERENCES, cautions=design.liquid.cautions)
 
 
