@@ -150,3 +150,45 @@ def test_solve_many_takes_the_steps_of_solve():
         beam.solve(leg.L, leg.B, leg.alpha, depths[0], fd.bind(W[0]), n=n, th0=th0, guess=G[0], max_iter=1)
     _, _, ok1 = beam.solve_many(leg.L, leg.B, leg.alpha, depths[:1], fd, W[:1], G[:1], n=n, th0=th0, max_iter=1)
     assert not ok1[0]
+
+
+class _Sizes:
+    """A study callable that records how many points each call gets (picklable, module level)."""
+
+    def __init__(self, func):
+        self.func, self.sizes = func, []
+
+    def __call__(self, x):
+        self.sizes.append(int(np.broadcast(*x.values()).size))
+        return self.func(x)
+
+
+def test_costly_models_keep_point_by_point_chunks():
+    """A model marked costly (a device with flexible legs) gets the chunks of a point-by-point
+    model (uncertainty.CHUNK_SLOW samples, sweep.CHUNK_POINTS_SLOW points), each as arrays, so
+    its seeded samples are those it had as a point-by-point model; the same model not marked
+    costly gets one large chunk."""
+    import importlib
+    from dataclasses import replace
+
+    from floatcalc.studies.models import rod_model
+
+    sw = importlib.import_module("floatcalc.studies.sweep")        # the modules, not the functions
+    un = importlib.import_module("floatcalc.studies.uncertainty")
+
+    base = rod_model()
+    dist = {"radius": un.Distribution("normal", 2e-4, 1e-5)}
+    runs = {}
+    for costly in (True, False):
+        rec = _Sizes(base.func)
+        m = replace(base, func=rec, costly=costly)
+        r = un.uncertainty(m, dist, samples=200, seed=4, executor="serial")
+        runs[costly] = (rec.sizes, r.capacity_samples)
+    slow, fast = runs[True][0], runs[False][0]
+    assert max(slow) == un.CHUNK_SLOW and sum(slow) >= 200 and max(fast) > un.CHUNK_SLOW
+    pointwise = replace(base, vectorised=False)
+    ref = un.uncertainty(pointwise, dist, samples=200, seed=4, executor="serial").capacity_samples
+    assert np.array_equal(runs[True][1], ref)   # the same seeded samples, so the same capacities
+    rec = _Sizes(base.func)
+    sw.sweep(replace(base, func=rec, costly=True), ["radius=0.1mm:0.3mm:40"], executor="serial")
+    assert max(rec.sizes) == sw.CHUNK_POINTS_SLOW
