@@ -587,13 +587,10 @@ def flexible_leg_curve(radius: Any, length: Any, contact_angle: Any, *, youngs_m
     P = beam._Path(leg.L, leg.B, leg.alpha, fd, n, th0, "clamped")
     depths = np.linspace(d_from, d_to, m)
     cd, md, fo, pa, hc, lifted = [], [], [], [], [], []
-    for j, D in enumerate(depths):
-        if j == m - 1:
-            sol, wet = lim, lim["wet"]
-        else:
-            base = max((p for p in path if p["Dc"] <= D), key=lambda p: p["Dc"], default=path[0])
-            st = P.near(base, D)
-            sol, wet = st["sol"], st["wet_in"]
+    # every point but the last (the limit) from the deepest path state above it, all at once
+    bases = [max((p for p in path if p["Dc"] <= D), key=lambda p: p["Dc"], default=path[0]) for D in depths[:-1]]
+    states = [*P.near_many(bases, depths[:-1]), (lim, lim["wet"])]
+    for D, (sol, wet) in zip(depths, states):
         y = sol["y"]
         f, _ = fd.liquid(y, wet)
         cd.append(D)

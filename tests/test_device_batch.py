@@ -186,7 +186,7 @@ def test_rod_and_round_devices_are_batchable():
              "coating": {"advancing": "150 deg"}} for a in (0.0, 2.1, 4.2)]
     legs_flex = design_from_data({"schema_version": 1, "liquid": {"name": "water"},
                                   "body": {"mass": "0.02 g", "centre_of_mass": ["0 mm", "0 mm"]}, "legs": flex})
-    assert not db.batchable(legs_flex)
+    assert db.batchable(legs_flex)   # flexible legs too (tests/test_device_batch_flexleg.py)
 
 
 def test_rods_with_tables_of_different_lengths_are_batched_like_the_scalar_path():

@@ -164,18 +164,20 @@ def test_overlap_test_is_the_scalar_one_near_touching():
             _check(db.DeviceBatchFunc(design)(one), ref)
 
 
-def test_kinds_that_stay_scalar_say_why():
-    assert set(db.SCALAR_KINDS) == {"flexible_leg"}
-    assert all(db.SCALAR_KINDS[k] for k in db.SCALAR_KINDS)
+def test_every_kind_is_batched():
+    """Every registered kind has a batched path (flexible legs since issue 16); a kind left to
+    the scalar model would have to say why."""
+    assert db.SCALAR_KINDS == {}
     from floatcalc.elements import kind_names
 
-    assert set(kind_names()) == set(db.BATCH_KINDS) | set(db.SCALAR_KINDS)
+    assert set(kind_names()) == set(db.BATCH_KINDS)
     flex = _design([{"kind": "flexible_leg", "position": ["0 mm", "20 mm"], "heading": "90 deg", "radius": "0.1 mm",
                      "length": "20 mm", "material": "steel", "coating": {"advancing": "150 deg"}}, *MIXED[5:7]],
                    com=("0 mm", "5 mm"))
-    assert not db.batchable(flex)
+    assert db.batchable(flex)
     m = device_model(flex)
-    assert not m.vectorised and isinstance(m.func, _DeviceFunc)
+    assert m.vectorised and m.costly and isinstance(m.func, db.DeviceBatchFunc)
+    assert not device_model(_design(MIXED)).costly
 
 
 #: Invented rig: two rod rows (three rods, and a close pair raised a little and turned) and a ball.

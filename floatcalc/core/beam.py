@@ -547,6 +547,152 @@ def _unpack(U, s, it):
             "y": U[3::4].copy(), "U": U, "iterations": it}
 
 
+def _assemble_many(U, h, B, th0, load, alpha, D_c, end):
+    """:func:`_assemble` for ``m`` states of one leg at once, entry by entry the same arithmetic.
+
+    ``U`` (m, 4(n + 1)) interleaved states, ``D_c`` (m,) clamp depths, ``load(y, rows)`` the
+    net load and its slope at depths ``y`` (k, n + 1) of the systems ``rows``. Returns the
+    residuals (m, 4(n + 1)) and the banded Jacobians (m, 2·_BAND + 1, 4(n + 1)).
+    """
+    rows = np.arange(U.shape[0]) if load.rows is None else load.rows
+    th, M, V, y = U[:, 0::4], U[:, 1::4], U[:, 2::4], U[:, 3::4]
+    m, n = th.shape[0], th.shape[1] - 1
+    q, dq = load(y, rows)
+    c, s = np.cos(th), np.sin(th)
+    F1 = -V * c
+    F2 = -q
+    F3 = s
+    res = np.empty((m, 4 * (n + 1)))
+    res[:, 0] = (th[:, 0] - alpha) if end == "clamped" else M[:, 0]
+    res[:, 1] = y[:, 0] - D_c
+    hh = 0.5 * h
+    r = res[:, 2:4 * n + 2].reshape(m, n, 4)
+    r[:, :, 0] = th[:, 1:] - th[:, :-1] - (th0[1:] - th0[:-1]) + hh * (M[:, 1:] + M[:, :-1]) / B
+    r[:, :, 1] = M[:, 1:] - M[:, :-1] - hh * (F1[:, 1:] + F1[:, :-1])
+    r[:, :, 2] = V[:, 1:] - V[:, :-1] - hh * (F2[:, 1:] + F2[:, :-1])
+    r[:, :, 3] = y[:, 1:] - y[:, :-1] - hh * (F3[:, 1:] + F3[:, :-1])
+    res[:, 4 * n + 2] = M[:, -1]
+    res[:, 4 * n + 3] = V[:, -1]
+
+    template, idx = _jacobian_pattern(n, hh / B, end)
+    ab = np.repeat(template[None], m, axis=0)
+    lo, hi = slice(0, n), slice(1, n + 1)
+    Vs, hc, hdq = -hh * (V * s), hh * c, hh * dq
+    ab.reshape(m, -1)[:, idx] = np.concatenate(
+        [Vs[:, lo], hc[:, lo], hdq[:, lo], -hc[:, lo], Vs[:, hi], hc[:, hi], hdq[:, hi], -hc[:, hi]], axis=1)
+    return res, ab
+
+
+def _solve_blocks(ab, rhs):
+    """Solve the independent banded systems ``ab`` (k, 2·_BAND + 1, N) with right-hand sides
+    ``rhs`` (k, N) as one banded system (the blocks stacked along the diagonal: no band entry
+    couples two blocks, so partial pivoting stays inside each block)."""
+    from scipy.linalg import solve_banded
+
+    k, w, N = ab.shape
+    big = np.ascontiguousarray(ab.transpose(1, 0, 2)).reshape(w, k * N)
+    return solve_banded((_BAND, _BAND), big, rhs.reshape(-1), check_finite=False).reshape(k, N)
+
+
+class _Rows:
+    """Load of stacked systems with their own history flags: ``q, dq/dy`` at depths (k, n + 1)."""
+
+    def __init__(self, foundation, wet, rows=None):
+        self.fd, self.wet, self.rows = foundation, np.asarray(wet, dtype=bool), rows
+
+    def __call__(self, y, rows):
+        return self.fd.load(y, self.wet[rows])
+
+    def at(self, rows):
+        return _Rows(self.fd, self.wet, rows)
+
+
+def solve_many(L: float, B: float, alpha: float, D_c, foundation, wet, guess, *, n: int = 200, th0=None,
+               end: str = "clamped", tol: float = 1e-11, max_iter: int = 40):
+    """Equilibria of one leg at ``m`` clamp depths at once: :func:`solve` system by system.
+
+    Each system ``j`` (clamp depth ``D_c[j]``, history flags ``wet[j]``, starting state
+    ``guess[j]``) takes the same Newton steps, the same damping and the same stopping test as
+    :func:`solve` with ``foundation.bind(wet[j])`` and ``guess=guess[j]``; the linear solves of
+    the systems still iterating are stacked into one banded solve, and a system stops when its
+    own test is met. Where :func:`solve` would raise :class:`ConvergenceError` the system is
+    marked failed instead (the caller decides what :func:`solve`'s callers do then).
+
+    Parameters
+    ----------
+    D_c : array (m,) [l_c]
+        Clamp depths.
+    foundation : Foundation
+    wet : bool array (m, n + 1)
+        History flags of each system.
+    guess : array (m, 4(n + 1))
+        Starting states (interleaved θ, M, V, y).
+
+    Other parameters as :func:`solve`.
+
+    Returns
+    -------
+    U : array (m, 4(n + 1))
+        Converged states (rows of failed systems are NaN).
+    iterations : int array (m,)
+        Newton steps of each system (0 where it failed).
+    ok : bool array (m,)
+
+    >>> fd = Foundation(0.05, np.radians(150))
+    >>> d = fd.floating_depth()
+    >>> g = np.zeros((2, 4 * 41)); g[:, 3::4] = d
+    >>> U, its, ok = solve_many(20.0, 1.0, 0.0, [d, d + 0.1], fd, np.ones((2, 41), bool), g, n=40)
+    >>> bool(ok.all() and abs(U[0, 2]) < 1e-9 and U[1, 2] > 0.0)
+    True
+    """
+    D_c = np.asarray(D_c, dtype=float).ravel()
+    m = D_c.size
+    h = L / n
+    if th0 is None:
+        th0 = np.full(n + 1, alpha)
+    load = _Rows(foundation, wet)
+    U = np.array(guess, dtype=float).reshape(m, 4 * (n + 1))
+    out = np.full_like(U, np.nan)
+    its = np.zeros(m, dtype=np.int64)
+    ok = np.zeros(m, dtype=bool)
+    act = np.arange(m)
+    res, ab = _assemble_many(U, h, B, th0, load, alpha, D_c, end)
+    norm = np.max(np.abs(res), axis=1)
+    for it in range(1, max_iter + 1):
+        if act.size == 0:
+            break
+        dU = _solve_blocks(ab, -res)
+        finite = np.all(np.isfinite(dU), axis=1)
+        step = np.max(np.abs(dU), axis=1)
+        scale = 1.0 + np.max(np.abs(U), axis=1)
+        conv = finite & (step < tol * scale) & (norm < 1e-9 * scale)
+        if np.any(conv):
+            out[act[conv]] = U[conv] + dU[conv]
+            its[act[conv]] = it
+            ok[act[conv]] = True
+        keep = finite & ~conv          # non-finite steps: solve raises, the system has failed
+        act, U, dU, norm = act[keep], U[keep], dU[keep], norm[keep]
+        if act.size == 0:
+            break
+        # Damping only against blow-up, system by system as in solve.
+        lam = np.ones(act.size)
+        Un = U + lam[:, None] * dU
+        res_n, ab_n = _assemble_many(Un, h, B, th0, load.at(act), alpha, D_c[act], end)
+        norm_n = np.max(np.abs(res_n), axis=1)
+        while True:
+            bad = ~((np.isfinite(norm_n) & (norm_n < 10.0 * norm + 1e-3)) | (lam < 1e-2))
+            if not np.any(bad):
+                break
+            b = np.flatnonzero(bad)
+            lam[b] *= 0.5
+            Un[b] = U[b] + lam[b, None] * dU[b]
+            r_b, a_b = _assemble_many(Un[b], h, B, th0, load.at(act[b]), alpha, D_c[act[b]], end)
+            res_n[b], ab_n[b] = r_b, a_b
+            norm_n[b] = np.max(np.abs(r_b), axis=1)
+        U, res, ab, norm = Un, res_n, ab_n, norm_n
+    return out, its, ok
+
+
 def _solve_from_stiff(L, B, alpha, D_c, foundation, *, n, th0, end, tangent=False):
     """:func:`solve`, falling back on a homotopy in stiffness from a nearly rigid leg.
 
@@ -629,6 +775,31 @@ class _Path:
             return self.state(Dc, a["wet"], guess=a["U"] + a["dU"] * (Dc - a["Dc"]))
         except ConvergenceError:
             return self.state(Dc, a["wet"])
+
+    def near_many(self, bases, depths):
+        """Equilibria at ``depths``, each started from its state in ``bases`` as :meth:`near`
+        starts it (tangent predictor, that state's history), solved together by
+        :func:`solve_many`: the same Newton steps, so the same numbers. A system that does not
+        converge that way goes through :meth:`near` (which then starts from a stiff leg).
+
+        Returns a list of (solution dict as :func:`solve` without ``dU``, history flags).
+        """
+        if not bases:
+            return []
+        G = np.stack([a["U"] + a["dU"] * (D - a["Dc"]) for a, D in zip(bases, depths)])
+        W = np.stack([a["wet"] for a in bases])
+        U, its, ok = solve_many(self.L, self.B, self.alpha, depths, self.fd, W, G, n=self.n, th0=self.th0,
+                                end=self.end)
+        self.solves += int(np.count_nonzero(ok))
+        s = np.linspace(0.0, self.L, self.n + 1)
+        out = []
+        for j, (a, D) in enumerate(zip(bases, depths)):
+            if ok[j]:
+                out.append((_unpack(U[j], s, int(its[j])), W[j]))
+            else:
+                st = self.near(a, D)
+                out.append((st["sol"], st["wet_in"]))
+        return out
 
     def refine(self, a, b, g, tol):
         """Root of ``g(state)`` between states with g(a) < 0 ≤ g(b): Illinois regula falsi."""

@@ -1,4 +1,4 @@
-"""Batched study function of a device whose elements are rods, rod rows, ball feet, pads, pins or rings.
+"""Batched study function of a device of any element kinds (rods, rod rows, ball feet, pads, pins, rings, flexible legs).
 
 The scalar device model (:mod:`floatcalc.studies.device_model`) rebuilds the device for every
 sample (:meth:`floatcalc.device.solve.Device.from_design`, each element's force–depth table
@@ -18,6 +18,12 @@ same steps run on arrays over all samples of a block:
   samples (the very function the adapter calls with one row), the last force raised to the
   refined limit force as the adapter does, and the outer contact radius of each sample for
   the K₀ field;
+* flexible legs (kind ``flexible_leg``): the table of the kind's own adapter
+  (:meth:`~floatcalc.elements.flexible_leg.FlexibleLegKind.model`, the scalar model's call, so
+  the very same numbers) once per distinct sample (:func:`_unique` on the inputs that reach
+  the leg) and per group of legs alike but for heading, position and mount (a symmetric
+  device solves one elastica per sample, not one per leg); the rod's outer field about the
+  middle of each leg and its rectangle from the clamp, as the adapter has them;
 * every table resampled on a uniform depth grid with as many points as the longest table of
   the sample (what :func:`floatcalc.device.solve._common_tables` and
   :class:`~floatcalc.core.equilibrium.Support` do together), the neighbours' shielding
@@ -42,9 +48,16 @@ capacities that did not converge or devices that carry next to nothing; and a wh
 whose element tables refuse an input (an element outside the range of its law), so that the
 scalar model raises its own error for the first such sample.
 
-Kinds that stay on the scalar path (:data:`SCALAR_KINDS`, with the reason): ``flexible_leg``,
-whose elastica (:mod:`floatcalc.core.beam`) is solved per sample (about 40 ms) and has no
-vectorised or tabulated form that reproduces it to 1e-8.
+Kinds that stay on the scalar path (:data:`SCALAR_KINDS`, with the reason): none. The
+flexible leg's elastica is not vectorised over samples: its limit is a continuation in clamp
+depth with adaptive steps, wetting-history events, regula falsi and jumps past folds
+(:func:`floatcalc.core.beam.limit`), different for every sample, and a tabulation in its seven
+dimensionless groups (R/l_c, L/l_c, E I/(σ l_c³), clamp and toe angles, two contact angles)
+cannot reach 1e-8. What is batched is the rest: the 24 curve points of each leg in one stacked
+Newton solve (:func:`floatcalc.core.beam.solve_many`, the same steps as one by one: the same
+bytes), one elastica for all legs alike and for repeated samples, and the whole device around
+it. A distinct sample of a leg still costs about 0.1 s (tests/benchmarks/bench_device_mixed.py,
+``device_flexleg_samples_per_s``).
 """
 
 from __future__ import annotations
@@ -57,13 +70,11 @@ from typing import Any
 import numpy as np
 
 #: Element kinds the batch builds itself.
-BATCH_KINDS = frozenset({"rod", "rod_row", "ball", "pad", "pin", "ring"})
+BATCH_KINDS = frozenset({"rod", "rod_row", "ball", "pad", "pin", "ring", "flexible_leg"})
 #: Round kinds (one force point, tables from floatcalc.round.element_tables).
 ROUND_KINDS = ("ball", "pad", "pin", "ring")
 #: Kinds left to the scalar model, and why.
-SCALAR_KINDS = {
-    "flexible_leg": "its elastica (core.beam) is solved per sample and has no batched form equal to it to 1e-8",
-}
+SCALAR_KINDS: dict[str, str] = {}
 #: Samples per block (bounds the memory of the coupling arrays).
 BLOCK = 500
 INPUTS = ("contact_angle_shift", "surface_tension", "radius_factor", "length_factor", "body_mass", "payload_mass")
@@ -71,6 +82,8 @@ INPUTS = ("contact_angle_shift", "surface_tension", "radius_factor", "length_fac
 POINTS = 241
 #: Vertices of a round footprint (as floatcalc.elements._registry.circle).
 _K = 24
+#: Kinds with a heading (a rectangular footprint along it).
+_HEADED = ("rod", "rod_row", "flexible_leg")
 
 
 def batchable(design) -> bool:
@@ -151,6 +164,39 @@ def _unique(*cols):
     if first.size == A.shape[0]:
         return slice(None), None
     return first, inv.ravel()
+
+
+def _flex_tables(design, ty, x):
+    """Tables of one flexible-leg type for S samples, each from the kind's own device adapter
+    (:meth:`floatcalc.elements.flexible_leg.FlexibleLegKind.model`, the call the scalar model
+    makes) on the element perturbed exactly as the scalar model perturbs it: depth, force,
+    contact (S, POINTS) [m, N, m], own weight [N] and length [m] (S,).
+
+    The elastica (:func:`floatcalc.core.beam.limit`, a continuation with adaptive steps, events
+    and folds) is solved sample by sample; its curve points are solved together
+    (:func:`floatcalc.core.beam.solve_many`). The batch saves the rest: one solve per sample
+    for all legs alike (a symmetric device), one for repeated samples (a sweep of the body
+    mass), and the vectorised tables, coupling and capacity of the whole device.
+    """
+    from dataclasses import replace
+
+    from ..elements import get_kind
+    from .device_model import perturbed_element
+
+    kind = get_kind("flexible_leg")
+    p0 = design.elements[ty.element]
+    liq0 = design.liquid
+    S = x["surface_tension"].size
+    D, F, H = (np.empty((S, POINTS)) for _ in range(3))
+    w, L = np.empty(S), np.empty(S)
+    for i in range(S):
+        xi = {k: float(v[i]) for k, v in x.items()}
+        q = perturbed_element(p0, xi)
+        liq = liq0 if xi["surface_tension"] == liq0.sigma else replace(liq0, sigma=xi["surface_tension"])
+        m = kind.model(q, liq)
+        D[i], F[i], H[i] = m.depth[0], m.force[0], m.contact[0]
+        w[i], L[i] = m.own_weight, q["length"]
+    return D, F, H, w, L
 
 
 def _round_tables(kind, geo, th, sigma, liquid, density):
@@ -243,6 +289,7 @@ class _Type:
     density: float
     shield: float
     nseg: int = 1
+    element: int = 0      # index of its first element in the design
 
 
 @dataclass(frozen=True)
@@ -277,12 +324,14 @@ class _Layout:
     centres_hold: bool     # the body's centre of mass lies clearly inside the hull of element centres
     shielding: tuple       # the factors used (those of the nominal layout)
     solved_pairs: np.ndarray = None  # (E, E) no superposition coupling (Device.solved_pairs, nominal)
+    is_flex: np.ndarray = None       # (E,) bool: flexible legs (one force point at the clamp, a rod's field)
 
 
 def _footprint(kind, p, ux, uy):
     """Unit vertex offsets P1, P2 (K, 2), sizes, size factors and edge normals (12, 2)."""
-    if kind in ("rod", "rod_row"):
-        a = np.array([-1.0, 1.0, 1.0, -1.0])
+    if kind in ("rod", "rod_row", "flexible_leg"):
+        # a flexible leg's rectangle runs from its clamp (the element's position) outward
+        a = np.array([0.0, 2.0, 2.0, 0.0]) if kind == "flexible_leg" else np.array([-1.0, 1.0, 1.0, -1.0])
         b = np.array([-1.0, -1.0, 1.0, 1.0])
         P1 = np.column_stack([a * ux, a * uy])
         P2 = np.column_stack([-b * uy, b * ux])
@@ -324,6 +373,10 @@ def layout(design, shielding=None) -> _Layout:
         elif kind == "rod_row":
             geo = (("radius", p["radius"]), ("length", p["length"]), ("rods", p["rods"]), ("spacing", p["spacing"]))
             nseg, dens = p["segments"], 0.0
+        elif kind == "flexible_leg":
+            # legs alike but for heading, position and mount share one elastica per sample
+            geo = tuple((k, p.get(k)) for k in (*get_kind(kind).fields, "material_name") if k != "heading")
+            nseg, dens = 1, float(p["density"])
         else:
             geo = tuple((k, p[k]) for k in get_kind(kind).fields)
             nseg, dens = 1, float(p["density"])
@@ -333,7 +386,7 @@ def layout(design, shielding=None) -> _Layout:
         key = (kind, geo, json.dumps(c, sort_keys=True, default=str), dens, nseg, float(f"{shield:.12e}"))
         if key not in keys:
             keys[key] = len(types)
-            types.append(_Type(kind, geo, float(c["advancing"]), dict(c), dens, shield, nseg))
+            types.append(_Type(kind, geo, float(c["advancing"]), dict(c), dens, shield, nseg, len(et)))
             first.append(nrows)
             nrows += 2 if kind in ("rod", "rod_row") else 1
         et.append(keys[key])
@@ -356,8 +409,8 @@ def layout(design, shielding=None) -> _Layout:
             seg.append(k)
             across.append(0.0)
             row.append(first[et[e]] + (1 if is_rod[e] and k in (0, n - 1) else 0))
-    ux = arr(lambda p: math.cos(p["heading"]) if p["kind"] in ("rod", "rod_row") else 1.0)
-    uy = arr(lambda p: math.sin(p["heading"]) if p["kind"] in ("rod", "rod_row") else 0.0)
+    ux = arr(lambda p: math.cos(p["heading"]) if p["kind"] in _HEADED else 1.0)
+    uy = arr(lambda p: math.sin(p["heading"]) if p["kind"] in _HEADED else 0.0)
     cx, cy = arr(lambda p: p["position"][0]), arr(lambda p: p["position"][1])
     fp = [_footprint(p["kind"], p, u, v) for p, u, v in zip(legs, ux, uy)]
     P1 = np.stack([f[0] for f in fp])
@@ -376,7 +429,8 @@ def layout(design, shielding=None) -> _Layout:
     xb, yb = design.body["centre_of_mass"]
     ch = convex_hull(np.column_stack([cx, cy]))
     centres_hold = bool(len(ch) >= 3 and _polygon_contains(ch[None], np.array([[xb, yb]]))[0])
-    return _Layout(types=tuple(types), first_row=tuple(first), elem_type=np.array(et), is_rod=is_rod,
+    is_flex = np.array([p["kind"] == "flexible_leg" for p in legs])
+    return _Layout(types=tuple(types), first_row=tuple(first), elem_type=np.array(et), is_rod=is_rod, is_flex=is_flex,
                    cx=cx, cy=cy, ux=ux, uy=uy,
                    tan_tilt=arr(lambda p: math.tan(p["tilt"]) if p["kind"] == "rod" else 0.0),
                    mount=arr(lambda p: p["mount"]), density=arr(lambda p: p["density"]), nseg=np.array([types[t].nseg for t in et], dtype=np.int64),
@@ -413,17 +467,22 @@ def _geometry_clear(lay: _Layout, rf, lf, xb, yb) -> np.ndarray:
         i, j = np.triu_indices(E, 1)
         dist = np.hypot(lay.cx[j] - lay.cx[i], lay.cy[j] - lay.cy[i])
         circ = np.hypot(size[..., 0] * np.hypot(*lay.P1[:, 0].T), size[..., 1] * np.hypot(*lay.P2[:, 0].T))
+        if lay.is_flex is not None and lay.is_flex.any():   # from the clamp: the far corners
+            circ[:, lay.is_flex] = np.hypot(size[:, lay.is_flex, 0] * 2.0, size[:, lay.is_flex, 1])
         far = dist[None] > (circ[:, i] + circ[:, j]) * (1.0 + 1e-9)    # circumcircles apart
         near = ~np.all(far, axis=0)
         if near.any():
             i, j = i[near], j[near]
             A = np.concatenate([lay.axes[i], lay.axes[j]], axis=1)      # (P, 24, 2) axes of both
-            def ext(e):  # half-extent of footprint e on each axis: s1 max(P1·a) + s2 max(P2·a)
-                g1 = np.max(np.einsum("pkc,pac->pka", lay.P1[e], A), axis=1)
-                g2 = np.max(np.einsum("pkc,pac->pka", lay.P2[e], A), axis=1)
+            def ext(e, f=np.max):  # extent of footprint e from its position on each axis:
+                # s1 max(P1·a) + s2 max(P2·a), and with min the other way (a flexible leg's
+                # rectangle starts at its position; the other footprints are symmetric about it)
+                g1 = f(np.einsum("pkc,pac->pka", lay.P1[e], A), axis=1)
+                g2 = f(np.einsum("pkc,pac->pka", lay.P2[e], A), axis=1)
                 return size[:, e, 0, None] * g1[None] + size[:, e, 1, None] * g2[None]   # (S, P, 24)
-            dc = np.abs(np.einsum("pc,pac->pa", np.stack([lay.cx[j] - lay.cx[i], lay.cy[j] - lay.cy[i]], -1), A))
-            gap = dc[None] - ext(i) - ext(j)
+            dc = np.einsum("pc,pac->pa", np.stack([lay.cx[j] - lay.cx[i], lay.cy[j] - lay.cy[i]], -1), A)[None]
+            # the separation of the two projections on each axis (|dc| − ext i − ext j when symmetric)
+            gap = np.maximum((dc - ext(i)) + ext(j, np.min), (-dc + ext(i, np.min)) - ext(j))
             ok &= np.all(np.max(gap, axis=-1) > 1e-9 * scale[:, None], axis=1)
     if not lay.centres_hold:
         # the polygon of the nominal hull's corners lies inside this sample's hull: containing
@@ -460,6 +519,7 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
     rows = []
     rc = np.zeros((S, E))            # outer contact radius of round elements [m]
     own = np.zeros((S, E))           # own weight [N]
+    flex_len = np.zeros((S, E))      # length of flexible legs [m]
     lcc, fsc = lc[:, None], fs[:, None]
     for t, ty in enumerate(lay.types):
         th = _effective_angle(np.minimum(np.maximum(ty.advancing + x["contact_angle_shift"], 0.0), math.pi),
@@ -490,6 +550,15 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
             if ty.shield < 1.0:
                 outer, inner = outer * ty.shield, inner * ty.shield
             rows.append((tb["depth"], (outer, inner), tb["contact"], tb["n"]))
+        elif ty.kind == "flexible_leg":
+            u, inv = _unique(x["contact_angle_shift"], sigma, rf, lf)
+            out = _flex_tables(design, ty, {k: v[u] for k, v in x.items()})
+            D, F, H, w, L = out if inv is None else (v[inv] for v in out)
+            if ty.shield < 1.0:
+                F = F * ty.shield
+            rows.append((D / lcc, (F / fsc,), H / lcc, None))
+            own[:, members] = w[:, None]
+            flex_len[:, members] = L[:, None]
         else:
             geo = {k: np.broadcast_to(v * (rf if k == "radius" else lf if k == "length" else 1.0), (S,))
                    for k, v in ty.geo}
@@ -526,7 +595,16 @@ def build(design, lay: _Layout, x: dict[str, np.ndarray]):
                                  (lay.cy[rods] / lcc)[:, None, :], lay.ux[rods], lay.uy[rods],
                                  0.5 * Ll[:, None, :], Rl[:, None, :])
         own[:, rods] = (lay.rods[rods] * lay.density[rods])[None, :] * math.pi * radius[:, rods] ** 2 * length[:, rods] * g
-    rnd = np.flatnonzero(~lay.is_rod)
+    is_flex = lay.is_flex if lay.is_flex is not None else np.zeros(E, dtype=bool)
+    flex = np.flatnonzero(is_flex)
+    if flex.size:   # a rod's field about the middle of the leg (as the adapter's rod_field)
+        R0f = np.array([dict(lay.types[lay.elem_type[e]].geo)["radius"] for e in flex])
+        Lf = flex_len[:, flex]
+        mx = (lay.cx[flex][None, :] + 0.5 * Lf * lay.ux[flex][None, :]) / lcc
+        my = (lay.cy[flex][None, :] + 0.5 * Lf * lay.uy[flex][None, :]) / lcc
+        Cpl[:, :, flex] = _field(X[:, :, None], Y[:, :, None], mx[:, None, :], my[:, None, :], lay.ux[flex],
+                                 lay.uy[flex], 0.5 * (Lf / lcc)[:, None, :], (R0f[None, :] * rf[:, None] / lcc)[:, None, :])
+    rnd = np.flatnonzero(~lay.is_rod & ~is_flex)
     if rnd.size:
         Cpl[:, :, rnd] = _round_field(X[:, :, None], Y[:, :, None], (lay.cx[rnd] / lcc)[:, None, :],
                                       (lay.cy[rnd] / lcc)[:, None, :], (rc[:, rnd] / lcc)[:, None, :])
@@ -557,6 +635,9 @@ def _avg(owner, E):
 class DeviceBatchFunc:
     """Vectorised study callable of a design of :data:`BATCH_KINDS` (see module docstring); picklable.
 
+    The layout of the nominal device is built on the first call and kept (it solves every
+    element once, a flexible leg's elastica too).
+
     Takes the inputs of :data:`INPUTS` as broadcastable SI arrays and returns arrays of the
     broadcast shape.
 
@@ -579,13 +660,20 @@ class DeviceBatchFunc:
         flat = {k: np.ascontiguousarray(a).ravel() for k, a in zip(INPUTS, arrays)}
         S = flat[INPUTS[0]].size
         out = {k: np.empty(S) for k in ("max_payload", "payload_mass", "spare_payload", "weight")}
-        lay = layout(self.design, self.shielding)
+        lay = self.prepared()._layout
         for a in range(0, S, self.block):
             part = {k: v[a:a + self.block] for k, v in flat.items()}
             res = self._block(lay, part)
             for k in out:
                 out[k][a:a + self.block] = res[k]
         return {k: v.reshape(shape) for k, v in out.items()}
+
+    def prepared(self) -> "DeviceBatchFunc":
+        """This function with the layout of the nominal device built and kept (it goes with
+        the function when a study sends it to worker processes); returns ``self``."""
+        if self.__dict__.get("_layout") is None:
+            object.__setattr__(self, "_layout", layout(self.design, self.shielding))
+        return self
 
     def _scalar(self, lay, x, idx, res):
         from .device_model import _DeviceFunc
@@ -599,14 +687,15 @@ class DeviceBatchFunc:
 
     def _block(self, lay, x):
         from ..core.equilibrium_batch import capacity_at_centre
-        from ..errors import InputError
+        from ..errors import ConvergenceError, InputError
 
         g = self.design.liquid.g
         S = x[INPUTS[0]].size
         try:
             bs, W, xg, yg, weight, fs, clear = build(self.design, lay, x)
-        except InputError:
-            # an element law refused some sample: the scalar model raises its own error for it
+        except (InputError, ConvergenceError):
+            # an element law refused (or, a flexible leg, failed on) some sample: the scalar
+            # model raises its own error for it
             res = {k: np.empty(S) for k in ("max_payload", "payload_mass", "spare_payload", "weight")}
             return self._scalar(lay, x, range(S), res)
         P, _, ok = capacity_at_centre(bs, W, xg, yg)

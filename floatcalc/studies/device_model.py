@@ -16,13 +16,15 @@ Outputs: ``max_payload`` [N], its mass ``payload_mass`` [kg], ``spare_payload`` 
 payload weight [N] (negative: sinks), and total ``weight`` [N] of body and legs.
 
 For designs whose elements are of the kinds in
-:data:`floatcalc.studies.device_batch.BATCH_KINDS` (rods, rod rows, ball feet, pads, pins,
-rings) the model is vectorised (``vectorised=True``):
+:data:`floatcalc.studies.device_batch.BATCH_KINDS` (every kind: rods, rod rows, ball feet,
+pads, pins, rings, flexible legs) the model is vectorised (``vectorised=True``):
 :class:`floatcalc.studies.device_batch.DeviceBatchFunc` builds the element laws and solves the
 capacity for whole arrays of points at once, with the same numbers as the scalar path (to
-1e-8 relative, tests/test_device_batch_mixed.py). Designs with a flexible leg keep the scalar
-model (``vectorised=False``): the study layer loops over points, in chunks that run on any
-executor. Validity: that of :func:`floatcalc.device.solve_device`.
+1e-8 relative, tests/test_device_batch_mixed.py and tests/test_device_batch_flexleg.py).
+Designs with a flexible leg are also ``costly``: each distinct point still solves the leg's
+elastica (tens of milliseconds), so studies chunk them as point-by-point models (the same
+chunks and seeded samples as before) and each chunk is evaluated as arrays. Validity: that of
+:func:`floatcalc.device.solve_device`.
 """
 
 from __future__ import annotations
@@ -49,6 +51,26 @@ DEVICE_OUTPUTS = {
 }
 
 
+def perturbed_element(p: dict, x: dict[str, float]) -> dict:
+    """Element ``p`` (a design element dict, SI) with the study inputs ``x`` applied: the
+    contact-angle shift on its advancing angle (kept in 0–180°, a receding angle kept no larger),
+    the radius and length factors on its ``radius`` and ``length`` (the one place the study
+    perturbs an element; :mod:`floatcalc.studies.device_batch` calls it for flexible legs)."""
+    q = dict(p)
+    if isinstance(p.get("coating"), dict):
+        c = dict(p["coating"])
+        if c.get("advancing") is not None:
+            c["advancing"] = min(max(c["advancing"] + x["contact_angle_shift"], 0.0), math.pi)
+            if c.get("receding") is not None:
+                c["receding"] = min(c["receding"], c["advancing"])
+        q["coating"] = c
+    if "radius" in q:
+        q["radius"] = q["radius"] * x["radius_factor"]
+    if "length" in q:
+        q["length"] = q["length"] * x["length_factor"]
+    return q
+
+
 @dataclass(frozen=True)
 class _DeviceFunc:
     design: Any
@@ -59,21 +81,7 @@ class _DeviceFunc:
         from ..device.solve import Device
 
         d = self.design
-        legs = []
-        for p in d.elements:
-            q = dict(p)
-            if isinstance(p.get("coating"), dict):
-                c = dict(p["coating"])
-                if c.get("advancing") is not None:
-                    c["advancing"] = min(max(c["advancing"] + x["contact_angle_shift"], 0.0), math.pi)
-                    if c.get("receding") is not None:
-                        c["receding"] = min(c["receding"], c["advancing"])
-                q["coating"] = c
-            if "radius" in q:
-                q["radius"] = q["radius"] * x["radius_factor"]
-            if "length" in q:
-                q["length"] = q["length"] * x["length_factor"]
-            legs.append(q)
+        legs = [perturbed_element(p, x) for p in d.elements]
         liq = d.liquid if x["surface_tension"] == d.liquid.sigma else replace(d.liquid, sigma=x["surface_tension"])
         body = {**d.body, "mass": x["body_mass"]}
         # neighbours' shielding factors of the nominal layout (solved once, not per sample)
@@ -111,9 +119,13 @@ def device_model(design: Any) -> Model:
     from ..device.solve import Device
 
     shield = Device.from_design(design).shielding
+    costly = any(p["kind"] == "flexible_leg" for p in design.elements)
     func = DeviceBatchFunc(design, shielding=shield) if fast else _DeviceFunc(design, shielding=shield)
+    if fast and costly:   # build the nominal layout now: each chunk sent to a worker then has it
+        func = func.prepared()
     return Model(name=f"device: {label}", func=func,
-                 inputs=DEVICE_INPUTS, outputs=DEVICE_OUTPUTS, base=base, vectorised=fast, limit_output="spare_payload",
+                 inputs=DEVICE_INPUTS, outputs=DEVICE_OUTPUTS, base=base, vectorised=fast,
+                 costly=costly, limit_output="spare_payload",
                  validity=_NominalWarnings(design), references=REFERENCES, cautions=design.liquid.cautions)
 
 

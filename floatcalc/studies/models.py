@@ -5,7 +5,10 @@ unit, how to check a value) and outputs (kind and display unit), base values, va
 warnings, references and the liquid's cautions. Studies (sweep, optimiser, Monte Carlo) only
 ever call ``model.evaluate(values)``, so any element or device can be studied once it has a
 model. ``vectorised=True`` means the callable accepts broadcastable arrays; otherwise the
-study layer loops over points (in chunks, on the chosen executor).
+study layer loops over points (in chunks, on the chosen executor). ``costly=True`` marks a
+vectorised model whose points still cost a good fraction of a second each (a device with
+flexible legs: each distinct point solves an elastica): studies chunk and spread it over
+workers as they do a point-by-point model, and hand each chunk to it as arrays.
 
 :func:`rod_model` is the vectorised model of ``count`` long horizontal rods far apart
 (exact 2D meniscus, :func:`floatcalc.core.rod2d.limit_force`; Vella, Lee & Kim 2006):
@@ -62,6 +65,7 @@ class Model:
     outputs: dict[str, Quantity]
     base: dict[str, float]
     vectorised: bool = True
+    costly: bool = False
     limit_output: str = "spare_payload"
     validity: Callable[[dict[str, Any]], list[str]] | None = None
     references: tuple[str, ...] = ()

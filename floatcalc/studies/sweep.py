@@ -136,8 +136,9 @@ def sweep(model: Model, axes: Sequence[Axis | str], *, values: dict[str, Any] | 
     model.merged({**fixed, **{k: v[:1] for k, v in flat.items()}})
     for a in axes:
         model.merged({**fixed, a.name: a.values})
-    per = CHUNK_POINTS if model.vectorised else CHUNK_POINTS_SLOW
-    large = npts > (LARGE_POINTS if model.vectorised else LARGE_POINTS_SLOW)
+    cheap = model.vectorised and not model.costly
+    per = CHUNK_POINTS if cheap else CHUNK_POINTS_SLOW
+    large = npts > (LARGE_POINTS if cheap else LARGE_POINTS_SLOW)
     starts = range(0, npts, per)
     tasks = [(model, fixed, {k: v[s:s + per] for k, v in flat.items()}) for s in starts]
     from .executors import resolve

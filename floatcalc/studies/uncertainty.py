@@ -270,12 +270,13 @@ def uncertainty(model: Model, distributions: dict[str, Distribution], *, values:
     fixed_all = model.merged(dict(values or {}))
     fixed = {k: float(v) for k, v in fixed_all.items() if k not in distributions}
     dists = tuple(sorted(distributions.items()))
-    chunk = chunk_size(N, CHUNK, CHUNK_MIN) if model.vectorised else CHUNK_SLOW
+    cheap = model.vectorised and not model.costly
+    chunk = chunk_size(N, CHUNK, CHUNK_MIN) if cheap else CHUNK_SLOW
     n_chunks = math.ceil(N / chunk)
     children = np.random.SeedSequence(s).spawn(n_chunks)
     sizes = [min(chunk, N - i * chunk) for i in range(n_chunks)]
     tasks = [(model, fixed, dists, contamination, children[i], sizes[i], capacity_output) for i in range(n_chunks)]
-    large = N > (LARGE if model.vectorised else LARGE_SLOW)
+    large = N > (LARGE if cheap else LARGE_SLOW)
     from .executors import resolve
 
     kind = resolve(executor, scheduler, large=large, n_chunks=n_chunks, workers=workers)

@@ -5,7 +5,8 @@ Two invented test rigs (not real devices):
 * *mixed*: four rods, two ball feet, two pads and two pins (balls and pads close to the rods,
   so their nominal shielding factors are below 1);
 * *rings*: three ring footpads and three rods;
-* *rows*: two rod rows (three rods, and a pair) and a ball foot.
+* *rows*: two rod rows (three rods, and a pair) and a ball foot;
+* *flexleg*: four flexible steel legs alike (receding angle given) and two ball feet.
 
 Figures, each pair measured interleaved in this process on the same seeded inputs (contact
 angle shift, radius and length factors, surface tension, body mass all perturbed; see
@@ -20,6 +21,12 @@ angle shift, radius and length factors, surface tension, body mass all perturbed
 * ``device_ring_samples_per_s`` / ``device_ring_scalar_samples_per_s`` likewise, and
   ``device_row_samples_per_s`` / ``device_row_scalar_samples_per_s`` (no target: the rows'
   shared-meniscus law costs tens of milliseconds a sample even batched);
+* ``device_flexleg_samples_per_s`` / ``device_flexleg_scalar_samples_per_s`` (and
+  ``_batch_speedup``, ``_batch_max_rel_diff``) likewise on the flexleg rig: every sample
+  distinct, so the batch still solves one elastica per sample (one for the four legs alike,
+  where the scalar model solves four); ``device_flexleg_sweep_samples_per_s`` /
+  ``device_flexleg_sweep_scalar_samples_per_s``: a sweep of the body and payload masses only
+  (the legs' inputs repeat: one elastica for the whole sweep in the batch);
 * ``device_mixed_uncertainty_serial_s`` / ``_local_s`` / ``device_mixed_parallel_speedup``: a
   Monte Carlo study (:func:`floatcalc.studies.uncertainty`) of 10⁴ samples of the mixed rig,
   serially and on all local cores (``--quick``: 2000), identical samples checked
@@ -46,6 +53,9 @@ TARGETS = {
     "device_mixed_samples_per_s": (">=", 1000.0),
     "device_ring_samples_per_s": (">=", 100.0),
     "device_mixed_serial_equals_local": ("==", True),
+    # four legs alike: the batch solves one elastica a sample where the scalar model solves four
+    "device_flexleg_batch_speedup": (">=", 2.0),
+    "device_flexleg_batch_max_rel_diff": ("<=", 1e-8),
 }
 
 
@@ -73,6 +83,15 @@ RINGS = [
     *({"kind": "ring", "position": _at(13, a), "ring_radius": "3 mm", "wire_radius": "0.2 mm", "material": "steel",
        "coating": {"advancing": "115 deg"}} for a in (90, 210, 330)),
     *(_rod(16, a, "14 mm") for a in (30, 150, 270)),
+]
+
+#: Invented rig: four flexible legs alike and two ball feet.
+FLEX = [
+    *({"kind": "flexible_leg", "position": _at(6, a), "heading": f"{a} deg", "radius": "0.1 mm", "length": "20 mm",
+       "material": "steel", "clamp_angle": "3 deg", "coating": {"advancing": "150 deg", "receding": "120 deg"}}
+      for a in (45, 135, 225, 315)),
+    *({"kind": "ball", "position": _at(9, a), "radius": "1 mm", "material": "nylon",
+       "coating": {"advancing": "150 deg"}} for a in (0, 180)),
 ]
 
 #: Invented rig: two rod rows and a ball foot.
@@ -126,6 +145,49 @@ def _rates(name, design, n_batch, n_scalar, reps):
             f"device_{name}_batch_max_rel_diff": float(np.max(np.abs(got - ref) / np.abs(ref)))}
 
 
+def _flex_rates(design, n_batch, n_scalar, n_sweep, reps):
+    """Batched against scalar on the flexleg rig: perturbed samples, then a mass sweep."""
+    from floatcalc.device import Device
+    from floatcalc.studies.device_batch import DeviceBatchFunc
+    from floatcalc.studies.device_model import _DeviceFunc
+
+    shield = Device.from_design(design).shielding
+    batch = DeviceBatchFunc(design, shielding=shield)
+    scalar = _DeviceFunc(design, shielding=shield)
+    x = _inputs(design, n_batch, 1)
+    x["body_mass"] = x["body_mass"] * 0.3     # the rig carries about 10 mN
+    x["payload_mass"] = x["payload_mass"] * 0.3
+    xs = {k: v[:n_scalar] for k, v in x.items()}
+    sweep = {k: np.full(n_sweep, v[0]) for k, v in x.items()}
+    sweep["body_mass"] = float(design.body["mass"]) * np.linspace(0.5, 1.5, n_sweep)
+    sweep["payload_mass"] = np.linspace(0.0, 3e-4, n_sweep)
+    sw_s = {k: v[:n_scalar] for k, v in sweep.items()}
+    batch({k: v[:1] for k, v in x.items()})            # warm imports; the nominal layout is kept
+    one = lambda xx, i: scalar({k: float(v[i]) for k, v in xx.items()})["max_payload"]  # noqa: E731
+    t_b = t_s = t_wb = t_ws = math.inf
+    for _ in range(reps):   # interleaved, best of reps (other jobs on a shared machine)
+        t = time.perf_counter()
+        got = batch(x)["max_payload"]
+        t_b = min(t_b, time.perf_counter() - t)
+        t = time.perf_counter()
+        ref = np.array([one(xs, i) for i in range(n_scalar)])
+        t_s = min(t_s, time.perf_counter() - t)
+        t = time.perf_counter()
+        got_w = batch(sweep)["max_payload"]
+        t_wb = min(t_wb, time.perf_counter() - t)
+        t = time.perf_counter()
+        ref_w = np.array([one(sw_s, i) for i in range(n_scalar)])
+        t_ws = min(t_ws, time.perf_counter() - t)
+    diff = max(float(np.max(np.abs(got[:n_scalar] - ref) / np.abs(ref))),
+               float(np.max(np.abs(got_w[:n_scalar] - ref_w) / np.abs(ref_w))))
+    return {"device_flexleg_samples_per_s": n_batch / t_b, "device_flexleg_scalar_samples_per_s": n_scalar / t_s,
+            "device_flexleg_batch_speedup": (n_batch / t_b) / (n_scalar / t_s),
+            "device_flexleg_sweep_samples_per_s": n_sweep / t_wb,
+            "device_flexleg_sweep_scalar_samples_per_s": n_scalar / t_ws,
+            "device_flexleg_sweep_speedup": (n_sweep / t_wb) / (n_scalar / t_ws),
+            "device_flexleg_batch_max_rel_diff": diff}
+
+
 def _study(model, n, executor):
     from floatcalc.studies.uncertainty import (
         Contamination,
@@ -175,6 +237,8 @@ def run(quick: bool = False) -> dict:
     res.update(_rates("mixed", mixed, 1000 if quick else 2000, 10 if quick else 40, reps))
     res.update(_rates("ring", _design(RINGS, "0.3 g"), 200 if quick else 500, 5 if quick else 20, reps))
     res.update(_rates("row", _design(ROWS, "0.5 g"), 20 if quick else 60, 3 if quick else 6, 1))
+    res.update(_flex_rates(_design(FLEX, "0.05 g"), 4 if quick else 12, 2 if quick else 4, 50 if quick else 200,
+                           1 if quick else 2))
     model = device_model(mixed)
     res["device_mixed_model_vectorised"] = model.vectorised
     n = 2000 if quick else 10_000
