@@ -299,3 +299,25 @@ def test_foundation_interpolant_matches_exact_law():
     assert np.max(np.abs(f - (f_st + f_p))) < 1e-7
     # out of the liquid: no load
     assert fd.force(np.array([fd.d0 - 1.0]))[0][0] == 0.0
+
+
+def test_singular_jacobian_is_a_convergence_error(monkeypatch):
+    """A singular banded Jacobian (forced here) ends the elastica solve with ConvergenceError,
+    which the callers' retries catch, not with numpy's LinAlgError; the stacked solve of many
+    clamp depths marks only the singular system as failed."""
+    import numpy as np
+    import scipy.linalg
+
+    from floatcalc.core import beam
+    from floatcalc.errors import ConvergenceError
+
+    def singular(*args, **kwargs):
+        raise np.linalg.LinAlgError("singular matrix")
+
+    fd = beam.Foundation(0.05, np.radians(150))
+    monkeypatch.setattr(scipy.linalg, "solve_banded", singular)
+    with pytest.raises(ConvergenceError):
+        beam.solve(20.0, 1.0, 0.0, 0.5, fd)
+    ab = np.zeros((3, 2 * beam._BAND + 1, 8))
+    out = beam._solve_blocks(ab, np.ones((3, 8)))
+    assert out.shape == (3, 8) and np.all(np.isnan(out))

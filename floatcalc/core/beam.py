@@ -514,7 +514,10 @@ def solve(L: float, B: float, alpha: float, D_c: float, foundation, *, n: int = 
     res, ab = _assemble(U, h, B, th0, foundation, alpha, D_c, end)
     norm = np.max(np.abs(res))
     for it in range(1, max_iter + 1):
-        dU = solve_banded((_BAND, _BAND), ab, -res, check_finite=False)
+        try:
+            dU = solve_banded((_BAND, _BAND), ab, -res, check_finite=False)
+        except np.linalg.LinAlgError:  # singular Jacobian: no convergence (ConvergenceError below)
+            break
         if not np.all(np.isfinite(dU)):
             break
         step = np.max(np.abs(dU))
@@ -591,7 +594,16 @@ def _solve_blocks(ab, rhs):
 
     k, w, N = ab.shape
     big = np.ascontiguousarray(ab.transpose(1, 0, 2)).reshape(w, k * N)
-    return solve_banded((_BAND, _BAND), big, rhs.reshape(-1), check_finite=False).reshape(k, N)
+    try:
+        return solve_banded((_BAND, _BAND), big, rhs.reshape(-1), check_finite=False).reshape(k, N)
+    except np.linalg.LinAlgError:  # a singular block: solve them one by one, NaN where singular
+        out = np.full((k, N), np.nan)
+        for i in range(k):
+            try:
+                out[i] = solve_banded((_BAND, _BAND), ab[i], rhs[i], check_finite=False)
+            except np.linalg.LinAlgError:
+                pass
+        return out
 
 
 class _Rows:
