@@ -28,6 +28,7 @@ from pathlib import Path
 import pytest
 
 from _browser import MARKS, open_page, settle
+from _cli import run_cli
 
 G = 9.80665  # standard gravity [m/s^2], as the page uses
 
@@ -82,19 +83,10 @@ def _save(page, tmp_path, name: str) -> Path:
 
 
 def _device_json(path: Path) -> dict:
-    """``floatcalc device PATH --json``: the command's entry point (floatcalc.cli.main), run in
-    this process (a new interpreter only adds its start-up; tests/test_cli.py runs the installed
-    console script)."""
-    import contextlib
-    import io
-
-    from floatcalc.cli import main
-
-    out, err = io.StringIO(), io.StringIO()
-    with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
-        code = main(["device", str(path), "--json"])
-    assert code == 0, err.getvalue()
-    return json.loads(out.getvalue())
+    """``floatcalc device PATH --json``, in this process (tests/_cli.py)."""
+    res = run_cli("device", str(path), "--json")
+    assert res.returncode == 0, res.stderr
+    return json.loads(res.stdout)
 
 
 def _choose(page, label: str, option: str) -> None:
