@@ -238,7 +238,10 @@ def test_mirrored_design_file_mirrors_the_solution():
 
 
 # 7 ------------------------------------------------------------------------------------------------
-@N200
+# 50 examples, not 200 (each tabulates a whole row, ~40 ms): the same property at fixed points
+# (N = 2, 3, 5 at 12 l_c) is tests/test_parallel2d.py::test_far_apart_rods_add_up, and the row
+# solver's gap meniscus is checked against direct ODE integration there.
+@settings(max_examples=50, deadline=None)
 @given(st.floats(-2.0, 0.5), st.floats(math.radians(95), math.radians(175)), st.integers(2, 5),
        st.floats(30.0, 60.0))
 def test_far_apart_parallel_rods_add_up(lr, th, N, S):
