@@ -1,7 +1,8 @@
 """Screenshots of each page panel at 1280 × 800 in headless Chromium, into artifacts/.
 
 Run from the repository root: ``MPLBACKEND=Agg python tests/screenshots.py``. Starts the page
-as tests/test_browser.py does (same Chromium and launch flags), visits each panel, saves
+with the browser tests' helpers (tests/_browser.py: same server, Chromium, launch flags and
+waits on the page's run state), visits each panel, saves
 ``artifacts/page_<panel>.png`` and stops the server. For people to look at: nothing here
 asserts (the browser test does).
 """
@@ -15,8 +16,8 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent))
 
-from test_browser import (CHROMIUM, FEET, FLAGS, FLEX, MIXED, _choose, _enter, settle, start_server,  # noqa: E402
-                          stop_server)
+from _browser import launch_context, open_page, settle, start_server, stop_server  # noqa: E402
+from test_browser import FEET, FLEX, MIXED, _choose, _enter  # noqa: E402
 
 OUT = HERE.parent / "artifacts"
 
@@ -75,7 +76,6 @@ def _upload(page, text: str, name: str) -> None:
     path = OUT / name
     path.write_text(text)
     page.locator('[data-testid="stFileUploader"] input[type="file"]').set_input_files(str(path))
-    page.wait_for_timeout(1000)
     settle(page)
 
 
@@ -91,13 +91,8 @@ def main() -> None:
     proc, url, log = start_server(OUT / "streamlit.log")
     try:
         with sync_playwright() as p:
-            ctx = p.chromium.launch_persistent_context(
-                user_data_dir=str(OUT / ".chromium-profile"), executable_path=CHROMIUM, headless=True,
-                args=FLAGS, viewport={"width": 1280, "height": 800})
-            page = ctx.new_page()
-            page.goto(url, timeout=90_000)
-            page.get_by_text("Verdict: floats").first.wait_for(timeout=120_000)
-            settle(page)
+            ctx = launch_context(p, OUT / ".chromium-profile")
+            page = open_page(url, ctx)
             _shot(page, "1_top")
             _shot(page, "2_elements", "Support elements")
             _shot(page, "3_results", "Results")
@@ -119,11 +114,10 @@ def main() -> None:
             _shot(page, "10_compare", "Compare designs")
             _load_example(page, "classroom")
             page.get_by_text("Classroom: soap and surface tension").first.click()
-            settle(page)
+            settle(page, rerun=False)  # an expander: no run
             slider = page.get_by_role("slider").first
             slider.focus()
-            for _ in range(42):
-                slider.press("ArrowLeft")
+            slider.press("Home")  # the slider's lowest value, 30 mN/m
             settle(page)
             _shot(page, "11_classroom", "Classroom: soap and surface tension")
             # a mixed design: rods and ball feet, one foot's table open for editing

@@ -11,12 +11,12 @@ with σ).
 from __future__ import annotations
 
 import json
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
 from streamlit.testing.v1 import AppTest
+
+from _cli import run_cli
 
 from floatcalc.design import design_text, example, load_design
 from floatcalc.device.solve import solve_device
@@ -154,15 +154,10 @@ def test_saved_design_loads_in_python_and_the_commands(tmp_path):
     path.write_text(design_text(d), encoding="utf-8")
     back = load_design(path)
     assert back.data["load"]["payload"] == "0.4 g" and not back.notes
-    code = "import sys; from floatcalc.cli import main; sys.exit(main(sys.argv[1:]))"
-    env = {"MPLBACKEND": "Agg", "PATH": "/usr/bin:/bin"}
-    dev = subprocess.run([sys.executable, "-c", code, "device", str(path), "--json"], cwd=ROOT,
-                         capture_output=True, text=True, env=env, timeout=300)
+    dev = run_cli("device", str(path), "--json")  # the commands' entry point, in this process
     assert dev.returncode == 0, dev.stderr
     assert json.loads(dev.stdout)["verdict"] == solve_device(back).verdict
-    sw = subprocess.run([sys.executable, "-c", code, "sweep", "--design", str(path), "--vary",
-                         "body_mass=0.5g:1.5g:3", "--json"], cwd=ROOT, capture_output=True, text=True, env=env,
-                        timeout=300)
+    sw = run_cli("sweep", "--design", str(path), "--vary", "body_mass=0.5g:1.5g:3", "--json")
     assert sw.returncode == 0, sw.stderr
 
 

@@ -337,6 +337,7 @@ def test_a_device_that_capsizes_does_not_float(case):
         assert r.verdict == "floats"
 
 
+@pytest.mark.slow
 def test_capsizing_is_monotone_in_the_height_of_the_centre_of_mass():
     """Raising the centre of mass only lowers the tilt stiffness (k - W h): once a height
     capsizes the twin-rod rig, every higher one does too."""
@@ -450,7 +451,8 @@ CONTROL = [
 ]
 
 
-@pytest.mark.parametrize("case", CONTROL, ids=[c[0] for c in CONTROL])
+@pytest.mark.parametrize("case", [pytest.param(c, marks=pytest.mark.slow) if "pdf" in c[0] else c  # the PDF: ~4 s
+                                  for c in CONTROL], ids=[c[0] for c in CONTROL])
 def test_control_characters_are_escaped(case, tmp_path):
     _, _, check = case
     t0 = time.perf_counter()

@@ -143,6 +143,7 @@ def test_bad_input_one_line_exit_2_no_traceback(capsys, label, argv, fragment):
         assert "nan" not in err.lower()
 
 
+@pytest.mark.slow
 def test_installed_console_script_runs():
     exe = shutil.which("floatcalc")
     assert exe is not None, "the floatcalc console script is not on PATH (pip install -e .)"

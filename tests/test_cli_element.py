@@ -26,7 +26,8 @@ def test_every_registered_kind_has_a_command():
     assert sorted(ARGS) == sorted(kind_names())
 
 
-@pytest.mark.parametrize("kind", sorted(ARGS))
+@pytest.mark.parametrize("kind", [pytest.param(k, marks=pytest.mark.slow) if k == "ring" else k  # ring: ~5 s
+                                  for k in sorted(ARGS)])
 def test_element_command_json_shape(kind, capsys):
     assert main(["element", kind, *ARGS[kind], "--contact-angle", "150deg", "--json"]) == 0
     d = json.loads(capsys.readouterr().out)

@@ -94,6 +94,7 @@ def test_moving_the_centre_of_mass_tilts_as_a_moment_balance_says():
     assert r.elements[0].force.to("N").magnitude == pytest.approx(Fp, rel=1e-6)
 
 
+@pytest.mark.slow
 def test_far_apart_elements_add_up_to_their_single_limits():
     """Rods 30 l_c apart: total carried at capacity = sum of single finite-rod limits."""
     L, R = 12.0e-3, 0.15e-3
@@ -103,6 +104,7 @@ def test_far_apart_elements_add_up_to_their_single_limits():
     assert total == pytest.approx(4 * one, rel=1e-4)
 
 
+@pytest.mark.slow
 def test_far_apart_balls_add_up_to_their_single_limits():
     """Three ball feet 30 l_c apart (round element kind over floatcalc.round): the device carries
     three single-ball limits at capacity (sum of separate elements)."""
@@ -213,6 +215,7 @@ def test_heave_and_pitch_stiffness_match_small_load_response():
     assert r0.stiffness_pitch.to("N*m/rad").magnitude == pytest.approx(dm * 1e-3 * W20.g * t / dpitch, rel=0.03)
 
 
+@pytest.mark.slow
 def test_tipping_offset_is_where_an_element_gives_way():
     r = solve_device(_SQUARE_DEV)
     tip = r.tipping[0]

@@ -189,6 +189,7 @@ ROWS = [{"kind": "rod_row", "position": ["0 mm", "20 mm"], "radius": "0.2 mm", "
          "coating": {"advancing": "150 deg"}}]
 
 
+@pytest.mark.slow
 def test_rod_row_device_batch_matches_scalar():
     design = _design(ROWS, mass="0.5 g", com=("1 mm", "2 mm"))
     assert db.batchable(design)

@@ -93,6 +93,7 @@ def test_chunk_size_depends_on_study_size_only():
     assert chunk_size(10**7, 2000, 250) == 2000
 
 
+@pytest.mark.slow
 def test_dask_process_cluster_equals_serial():
     """Dask workers in separate processes (pickled tasks, as on a real cluster); ~2 s."""
     distributed = pytest.importorskip("distributed", reason="dask.distributed is in the test extra; "

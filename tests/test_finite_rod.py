@@ -54,6 +54,7 @@ def _stadium_area(L, w, dx=0.025, D=7.0):
     return 4.0 * h[free].sum() * dx * dx
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("w", [0.5, 0.2])
 def test_end_term_matches_finite_difference_meniscus(w):
     """Displaced meniscus area round a stadium: per length 2 h0 and one end π w K1/K0 (model).

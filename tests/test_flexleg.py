@@ -104,6 +104,7 @@ def test_too_heavy_leg_is_refused():
         flexible_leg("3 mm", "30 mm", "150 deg", material="tungsten", length_points=0)
 
 
+@pytest.mark.slow
 def test_cli_flexible_json_and_errors(capsys):
     assert main(["leg", "--radius", "0.1mm", "--length", "30mm", "--contact-angle", "150deg",
                  "--material", "steel", "--clamp-angle", "5deg", "--json"]) == 0

@@ -47,6 +47,7 @@ def _argv(draw):
     return argv
 
 
+@pytest.mark.slow
 @settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(argv=_argv())
 def test_cli_never_raises(argv):

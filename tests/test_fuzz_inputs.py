@@ -124,6 +124,7 @@ def test_mutated_example_designs_only_raise_input_error(text):
     _load(text)
 
 
+@pytest.mark.slow
 @FUZZ
 @given(st.sampled_from(["radius", "length", "mass", "temperature", "segments", "heading", "spacing"]),
        st.sampled_from(["1e308", "1.7976931348623157e308", "1e-308", "4.9e-324", "123456789012345678901234567890",
@@ -143,6 +144,7 @@ def test_huge_and_tiny_numbers_only_raise_input_error(key, number, unit, quoted)
             _check_message(str(exc), multi_ok=False)
 
 
+@pytest.mark.slow
 @settings(max_examples=40, deadline=None)  # fewer: each deep document is up to a few hundred kB of TOML
 @given(st.sampled_from(["array", "inline", "dotted", "tables"]), st.integers(10, 200_000))
 def test_deeply_nested_documents_only_raise_input_error(shape, depth):
@@ -201,6 +203,7 @@ def _read(text):
                 assert all(map(lambda x: x == x and abs(x) != float("inf"), v.tolist())), "NaN/inf let through"
 
 
+@pytest.mark.slow
 @FUZZ
 @given(csv_texts())
 def test_structured_random_csv_only_raises_input_error(text):

@@ -1,7 +1,10 @@
 """Hypothesis fuzzing of the value grammar (floatcalc.units.to_si on text).
 
 Random texts built from digits, unit names and operator characters must give a float or an
-InputError (never another exception, a hang, or a non-finite float), each within 50 ms of CPU.
+InputError (never another exception, a hang, or a non-finite float), each within 50 ms of CPU
+(``time.thread_time``: the calling thread's CPU, where the parser runs; ``process_time`` counts
+every thread of the pytest-xdist worker, and in one quick-lane run charged 0.48 s to a single
+call that takes under 1 ms in a fresh process).
 Well-formed values built from a number and a unit of known size must convert exactly; the unit
 sizes are exact definitions (NIST SP 811, 2008 edition, appendix B).
 """
@@ -37,7 +40,7 @@ def _registry_built():
 @_FUZZ
 @given(text=_TEXT, kind=st.sampled_from(sorted(KINDS)))
 def test_random_text_gives_a_float_or_an_input_error_quickly(text, kind):
-    t0 = time.process_time()
+    t0 = time.thread_time()
     try:
         value = to_si(text, kind, "x")
     except InputError as exc:
@@ -45,20 +48,20 @@ def test_random_text_gives_a_float_or_an_input_error_quickly(text, kind):
         assert msg.startswith("x: ") and msg == msg.splitlines()[0], repr(msg)
     else:
         assert isinstance(value, float) and math.isfinite(value), (text, value)
-    assert time.process_time() - t0 < 0.05, text
+    assert time.thread_time() - t0 < 0.05, text
 
 
 @_FUZZ
 @given(text=st.text(max_size=80), kind=st.sampled_from(sorted(KINDS)))
 def test_arbitrary_unicode_gives_a_float_or_an_input_error(text, kind):
-    t0 = time.process_time()
+    t0 = time.thread_time()
     try:
         value = to_si(text, kind, "x")
     except InputError:
         pass
     else:
         assert isinstance(value, float) and math.isfinite(value), (text, value)
-    assert time.process_time() - t0 < 0.05, repr(text)
+    assert time.thread_time() - t0 < 0.05, repr(text)
 
 
 # unit -> (kind, size in SI); exact by definition (NIST SP 811 appendix B)

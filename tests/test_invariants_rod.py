@@ -12,6 +12,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -44,6 +45,7 @@ def test_limit_force_increases_with_advancing_angle(a, t1, t2):
     assert _f(R, lo) <= _f(R, hi) * (1 + 1e-12) + 1e-15
 
 
+@pytest.mark.slow
 @settings(max_examples=200, deadline=None)
 @given(st.floats(min_value=1e-3, max_value=5.0), st.floats(min_value=1.0, max_value=179.0))
 def test_same_answer_whatever_the_units(radius_mm, angle_deg):

@@ -12,85 +12,32 @@
    within a few seconds and shows no exception screen; after the run a normal value still gives
    results.
 
-``streamlit run app.py`` is started on 127.0.0.1 at a free port (as in tests/test_browser.py)
-and driven with Playwright on the Debian Chromium at /usr/bin/chromium (never a downloaded
-browser); the server is always stopped.
+The page is served by the one ``streamlit run app.py`` on 127.0.0.1 that a pytest process
+shares among its browser tests (tests/_browser.py) and driven with Playwright on the Debian
+Chromium at /usr/bin/chromium (never a downloaded browser); waits are on the page's run state,
+never fixed sleeps; the server is always stopped.
 """
 
 from __future__ import annotations
 
-import os
 import re
-import socket
-import subprocess
-import sys
 import time
-import urllib.request
-from pathlib import Path
 
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-CHROMIUM = "/usr/bin/chromium"
-REPO = Path(__file__).resolve().parents[1]
-FLAGS = ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
-         "--disable-background-networking", "--disable-component-update", "--disable-sync"]
+from _browser import MARKS, open_page, settle
+
 ANSWER_S = 10.0   # "answers within a few seconds" (about 1 s measured; generous on a shared 2-core machine)
 EXCEPTION = '[data-testid="stException"]'
 ALERT = '[data-testid="stAlertContentError"]'
 
-pytestmark = [
-    pytest.mark.browser,
-    pytest.mark.slow,
-    pytest.mark.skipif(not os.path.exists(CHROMIUM),
-                       reason="Debian chromium is not installed at /usr/bin/chromium (.ci/run installs it)"),
-]
+pytestmark = MARKS
 
 
 # ------------------------------------------------------------------------------------------------
-# Server and browser (one of each for the module)
-
-def _free_port() -> int:
-    with socket.socket() as s:
-        s.bind(("127.0.0.1", 0))
-        return s.getsockname()[1]
-
-
-def _start(log_path: Path):
-    port = _free_port()
-    log = open(log_path, "w")
-    env = {**os.environ, "MPLBACKEND": "Agg"}
-    proc = subprocess.Popen(
-        [sys.executable, "-m", "streamlit", "run", str(REPO / "app.py"), "--server.headless", "true",
-         "--server.port", str(port), "--server.address", "127.0.0.1", "--browser.gatherUsageStats", "false",
-         "--server.fileWatcherType", "none"],
-        cwd=REPO, stdout=log, stderr=subprocess.STDOUT, env=env)
-    url = f"http://127.0.0.1:{port}"
-    end = time.monotonic() + 90
-    while time.monotonic() < end:
-        if proc.poll() is not None:
-            break
-        try:
-            with urllib.request.urlopen(url + "/_stcore/health", timeout=2) as r:
-                if r.read().strip() == b"ok":
-                    return proc, url, log
-        except OSError:
-            pass
-        time.sleep(0.3)
-    _stop(proc, log)
-    raise RuntimeError(f"streamlit did not start at {url}; see {log_path}")
-
-
-def _stop(proc, log) -> None:
-    proc.terminate()
-    try:
-        proc.wait(timeout=15)
-    except subprocess.TimeoutExpired:
-        proc.kill()
-        proc.wait(timeout=15)
-    log.close()
-
+# The page (one for the module, on the process's shared server and browser)
 
 class Served:
     """The page in the browser, with every URL the browser requested."""
@@ -104,37 +51,14 @@ class Served:
 
 
 @pytest.fixture(scope="module")
-def served(tmp_path_factory):
-    from playwright.sync_api import sync_playwright
-
-    tmp = tmp_path_factory.mktemp("page_fuzz")
-    proc, url, log = _start(tmp / "streamlit.log")
+def served(browser_server, browser_context):
+    holder = []
+    # the request listener is attached before the page's first request
+    page = open_page(browser_server, browser_context, before=lambda pg: holder.append(Served(pg, browser_server)))
     try:
-        with sync_playwright() as p:
-            ctx = p.chromium.launch_persistent_context(
-                user_data_dir=str(tmp / "chromium-profile"), executable_path=CHROMIUM, headless=True,
-                args=FLAGS, viewport={"width": 1280, "height": 900})
-            try:
-                page = ctx.new_page()
-                s = Served(page, url)
-                page.goto(url, timeout=90_000)
-                page.get_by_text("Verdict: floats").first.wait_for(timeout=120_000)
-                settle(page)
-                yield s
-            finally:
-                ctx.close()
+        yield holder[0]
     finally:
-        _stop(proc, log)
-
-
-def settle(page, timeout_s: float = 120.0) -> float:
-    """Wait until the page has finished its run; returns the seconds it took."""
-    t0 = time.monotonic()
-    page.wait_for_timeout(1000)  # the run starts and shows its status widget
-    page.wait_for_function("() => !document.querySelector('[data-testid=\"stStatusWidget\"]')",
-                           timeout=timeout_s * 1000)
-    page.wait_for_timeout(300)
-    return time.monotonic() - t0
+        page.close()
 
 
 def _healthy(s: Served) -> None:
@@ -300,7 +224,7 @@ def test_uploaded_text_is_shown_as_plain_text_and_fetches_nothing(served):
     dt = _upload(page, "hostile.toml", data)
     assert dt < 60, f"page took {dt:.1f} s"
     page.get_by_text(desc, exact=True).first.wait_for(timeout=60_000)  # the description, literally
-    settle(page)
+    settle(page, rerun=False)  # the upload's run was waited for in _upload: the page is idle
     body = page.inner_text("body")
     assert desc in body
     assert name in body  # the element name, literally (in a table or a label)

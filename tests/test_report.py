@@ -17,11 +17,11 @@ import json
 import math
 import re
 import subprocess
-import sys
 from pathlib import Path
 
 import pytest
 
+from _cli import run_cli
 from floatcalc.design import example, example_names, load_design
 from floatcalc.device.solve import solve_device
 from floatcalc.output import text as tx
@@ -29,10 +29,9 @@ from floatcalc.output import text as tx
 ROOT = Path(__file__).resolve().parents[1]
 
 
-def _cli(*args, cwd=ROOT):
-    code = "import sys; from floatcalc.cli import main; sys.exit(main(sys.argv[1:]))"
-    return subprocess.run([sys.executable, "-c", code, *args], cwd=cwd, capture_output=True, text=True,
-                          env={"MPLBACKEND": "Agg", "PATH": "/usr/bin:/bin"}, timeout=600)
+def _cli(*args):
+    """``floatcalc ARGS`` in this process (tests/_cli.py: the command's entry point)."""
+    return run_cli(*args)
 
 
 def _pdf_text(path) -> list[str]:

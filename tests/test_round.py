@@ -183,6 +183,7 @@ def test_extreme_contact_angles_are_finite(theta_deg):
         assert b.max_force > ball("1 mm", "0 deg").max_force
 
 
+@pytest.mark.slow
 def test_ring_curve_follows_the_push_down_branch():
     """The ring's force-depth curve ran on past the deepest state of its outer side (the outer
     contact line climbing towards the top of the wire lifts the wire again), so its depths were
@@ -227,6 +228,7 @@ def test_pin_curve_covers_the_tip_depth_and_says_what_it_includes():
     assert "vertical force" in msg and "curve includes" in msg
 
 
+@pytest.mark.slow
 def test_thick_ring_matches_both_sides():
     """A thick wire (b = 10 l_c on R_r = 20 l_c, θ = 180°) raised ConvergenceError: the Newton
     steps that match the inner and outer lowest-point depths use the slope of a coarse spline

@@ -129,6 +129,7 @@ def test_batch_matches_public_round_functions_in_si():
         assert pl["depth_at_max"][i] * lc == pytest.approx(p.depth_at_max.to("m").magnitude, rel=REL)
 
 
+@pytest.mark.slow
 def test_ball_limit_against_the_direct_solver():
     """Independent of the table: the force law with contact heights from the direct shooting
     solver, maximised on a fine grid around the batch's φ, agrees with the batch's limit."""

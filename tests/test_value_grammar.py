@@ -185,13 +185,14 @@ def test_hostile_values_give_one_line_input_errors(text, kind, fragment):
 
 def test_whole_table_runs_in_bounded_cpu_time():
     # A guard against hangs (the old parser evaluated 9**9**9**9 for ever), not a performance
-    # claim: every case must finish within 0.1 s of CPU and the whole table within 2 s.
+    # claim: every case must finish within 0.1 s of CPU and the whole table within 2 s (CPU of
+    # this thread, where the parser runs: other threads of the test process are not its cost).
     to_si("1 mm", "length", "x")  # build the registry first (its one-off cost is not the parser's)
     worst, total = 0.0, 0.0
     for text, kind, _ in GOOD + BAD:
-        t0 = time.process_time()
+        t0 = time.thread_time()
         _one_case(text, kind)
-        dt = time.process_time() - t0
+        dt = time.thread_time() - t0
         worst, total = max(worst, dt), total + dt
     assert worst < 0.1, worst
     assert total < 2.0, total
@@ -288,9 +289,9 @@ def test_unit_text_checks_units_without_evaluating():
     assert unit_text("kg/m^3") == "kilogram ** 1 * meter ** -3"
     assert Q_(250, "um").to("mm").magnitude == pytest.approx(0.25)
     for bad in ("9**9**9**9", "2**1000", "mm)", "m^9", "x" * 1000, "1/m"):
-        t0 = time.process_time()
+        t0 = time.thread_time()
         with pytest.raises(InputError, match=r"^unit: "):
             Q_(1.0, bad)
-        assert time.process_time() - t0 < 0.1
+        assert time.thread_time() - t0 < 0.1
     with pytest.raises(InputError, match=r"unit: unknown unit 'blorp'"):
         format_si(1.0, "length", "blorp")

@@ -218,6 +218,7 @@ def test_small_tilt_is_second_order_for_a_symmetric_rod():
     assert abs(fp - f0) < 1e-3 * f0
 
 
+@pytest.mark.slow
 @settings(max_examples=8)
 @given(seed=st_.integers(0, 10_000), n=st_.integers(2, 4))
 def test_random_layouts_respect_bounds(seed, n):
@@ -248,7 +249,8 @@ def test_random_layouts_respect_bounds(seed, n):
     ("ball", {"radius": 0.3, "theta": math.radians(110)}),
     ("pad", {"radius": 0.5, "thickness": 0.1, "theta": math.radians(110)}),
     ("pin", {"radius": 0.1, "length": 1.0, "theta": math.radians(110)}),
-    ("ring", {"ring_radius": 1.5, "wire_radius": 0.08, "theta": math.radians(120)}),
+    pytest.param("ring", {"ring_radius": 1.5, "wire_radius": 0.08, "theta": math.radians(120)},
+                 marks=pytest.mark.slow),  # ~5 s: the ring's inner and outer menisci
 ])
 def test_round_body_alone_is_its_axisymmetric_law(kind, params):
     # Source: exact axisymmetric laws (Young–Laplace shooting) of floatcalc.core.round_bodies.
@@ -260,6 +262,7 @@ def test_round_body_alone_is_its_axisymmetric_law(kind, params):
     assert lim["depth"] == pytest.approx(iso["depth"], abs=1e-3)
 
 
+@pytest.mark.slow
 def test_large_ring_footpad_alone_matches_ring_law():
     # Source: ring footpad law of floatcalc.core.round_bodies (outer K0 and inner I0 shooting);
     # a large ring (R_r = 5 l_c) alone and with a far rod (20 l_c away: coupling e^{-20}).
@@ -395,6 +398,7 @@ def test_round_body_with_close_neighbour_warns():
     assert far.warnings == ()
 
 
+@pytest.mark.slow
 @settings(max_examples=4)
 @given(seed=st_.integers(0, 10_000))
 def test_mixed_layouts_reach_a_limit_within_bounds(seed):

@@ -32,6 +32,7 @@ def row(n: int, gap_lc: float):
          "length": "100 mm", "material": "steel", "coating": {"advancing": f"{THETA} deg"}}]})
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("n,gap_lc", [(2, 0.5), (2, 0.55), (2, 1.0), (2, 1.65), (2, 3.0), (2, 6.0), (3, 0.5),
                                       (3, 1.5), (3, 4.0), (3, 6.0)])
 def test_parallel_rods_in_a_device_match_the_exact_shared_meniscus(n, gap_lc):

@@ -62,6 +62,7 @@ def test_disc_refinement_order():
     assert abs(ref["flux"][0] - exact) <= ref["err_flux"][0] + 1e-9 * exact
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("r_c,h_c", [(1.0, 0.5), (0.5, 0.3)])
 def test_disc_nonlinear_vs_axisymmetric_shooting(r_c, h_c):
     """Nonlinear meniscus around a disc contact line at depth h_c against floatcalc's own
@@ -242,6 +243,7 @@ def test_long_rod_contact_angle_condition_2d():
     assert big.keller == pytest.approx(big.line[0], rel=2e-3)  # Keller 1998, as above
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("psi", [0.3, 0.6])
 def test_long_rod_nonlinear_contact_angle_condition_2d(psi):
     """Full (nonlinear) contact-angle condition of a horizontal rod, sin ψ = g(h) from

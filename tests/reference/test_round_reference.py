@@ -102,6 +102,7 @@ def test_keller_theorem_ball():
     assert w.rho * w.g * displaced == pytest.approx(r.surface_tension_part.to("N").magnitude, rel=5e-4)
 
 
+@pytest.mark.slow
 def test_keller_theorem_ring_inner_meniscus():
     """Keller (1998) for the liquid enclosed by a ring: the inner contact line carries the weight
     of the depressed liquid inside; volume by the trapezoid rule on the inner profile."""
