@@ -25,7 +25,7 @@ from floatcalc.errors import InputError
 from floatcalc.studies.csvio import read_table
 
 FUZZ = settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-TIME_LIMIT_S = 5.0
+TIME_LIMIT_S = 5.0  # CPU seconds of this thread: other jobs on a shared machine do not count
 EXAMPLES = [example_text(e["name"]) for e in list_examples()]  # the shipped invented designs
 _HEAD = re.compile(r"^.+: (\d+) problems( \(the first (\d+) listed\))?$")
 
@@ -49,13 +49,13 @@ def _check_message(msg: str, *, multi_ok: bool) -> None:
 
 
 def _timed(fn, *args, **kw):
-    t0 = time.perf_counter()
+    t0 = time.thread_time()
     try:
         return fn(*args, **kw), None
     except InputError as exc:
         return None, exc
     finally:
-        assert time.perf_counter() - t0 < TIME_LIMIT_S, "took too long"
+        assert time.thread_time() - t0 < TIME_LIMIT_S, "took too long"
 
 
 def _load(text: str):
@@ -161,10 +161,10 @@ def test_deeply_nested_documents_only_raise_input_error(shape, depth):
 
 def test_oversized_design_text_is_refused_without_parsing():
     text = "schema_version = 1\n" + "#" * 2_000_000
-    t0 = time.perf_counter()
+    t0 = time.thread_time()
     with pytest.raises(InputError) as exc:
         fc.load_design(None, text=text)
-    assert time.perf_counter() - t0 < 1.0
+    assert time.thread_time() - t0 < 1.0
     _check_message(str(exc.value), multi_ok=False)
     assert "at most" in str(exc.value)
 
@@ -227,10 +227,10 @@ def test_huge_lines_and_many_rows_are_bounded(header, n_rows, width, sep):
 
 def test_oversized_csv_is_refused_quickly():
     text = "depth [mm],force [mN]\n" + "0.1,0.2\n" * 1_000_000  # 8 MB
-    t0 = time.perf_counter()
+    t0 = time.thread_time()
     with pytest.raises(InputError) as exc:
         read_table(io.StringIO(text), REQUIRED)
-    assert time.perf_counter() - t0 < 2.0
+    assert time.thread_time() - t0 < 2.0
     _check_message(str(exc.value), multi_ok=False)
     assert "at most" in str(exc.value)
 
