@@ -463,3 +463,36 @@ def test_krylov_and_direct_newton_reach_the_same_limit(monkeypatch):
     got = ia.limit(ia.Layout(bodies), np.zeros(12), "all")
     assert got["force"] == pytest.approx(ref["force"], rel=1e-9)
     np.testing.assert_allclose(got["forces"], ref["forces"], rtol=1e-8)
+
+
+@pytest.mark.parametrize("keep", [False, True])
+def test_blas_limited_to_one_thread_once_unless_kept(keep):
+    """core._threads: the first solve sets the process's BLAS to one thread for good (the dense
+    solves are faster so, and the setting is not toggled per call from the page's threads);
+    FLOATCALC_BLAS_THREADS=keep leaves it alone. Checked in a fresh interpreter with
+    threadpoolctl's own report."""
+    import json
+    import os
+    import subprocess
+    import sys
+
+    code = ("from threadpoolctl import threadpool_info\n"
+            "import numpy as np\n"
+            "before = [i['num_threads'] for i in threadpool_info() if i['user_api'] == 'blas']\n"
+            "from floatcalc.core import interactions as ia\n"
+            "ia.Layout([ia.RodBody(0.0, 0.0, 0.0, 6.0, 0.05, 2.0)]).solve(np.array([0.3]))\n"
+            "after = [i['num_threads'] for i in threadpool_info() if i['user_api'] == 'blas']\n"
+            "import json; print(json.dumps([before, after]))\n")
+    env = dict(os.environ)
+    env.pop("OPENBLAS_NUM_THREADS", None)
+    env.pop("OMP_NUM_THREADS", None)
+    if keep:
+        env["FLOATCALC_BLAS_THREADS"] = "keep"
+    else:
+        env.pop("FLOATCALC_BLAS_THREADS", None)
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, timeout=120)
+    assert out.returncode == 0, out.stderr
+    before, after = json.loads(out.stdout.strip().splitlines()[-1])
+    assert before and after, "no BLAS library reported"
+    # (SciPy's own BLAS is loaded by the solve, so ``after`` lists more libraries than ``before``)
+    assert after == ([before[0]] * len(after) if keep else [1] * len(after))
