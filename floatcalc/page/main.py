@@ -600,7 +600,12 @@ def reports_panel(design, r, key: str) -> None:
 
     ss = _ss()
     c1, c2, c3 = st.columns(3)
-    c1.download_button("save this design (TOML)", lambda: design_text(design), file_name="design.toml",
+    # the TOML text is made once per design (about 20 ms) and handed over as bytes: a lazy
+    # callable is fetched by a separate request on click, which timed out on a loaded server
+    tkey = (key, ss.get("source_text"))
+    if not ss.get("toml") or ss.toml[0] != tkey:
+        ss.toml = (tkey, design_text(design).encode("utf-8"))
+    c1.download_button("save this design (TOML)", ss.toml[1], file_name="design.toml",
                        mime="application/toml", key="dl_toml", help="schema 2; loads in floatcalc device, "
                        "floatcalc sweep --design and floatcalc.load_design")
     if c2.button("prepare the CSV tables", key="csv_make"):
