@@ -6,7 +6,7 @@ unknowns, where OpenBLAS's threads cost more in synchronisation than they gain: 
 of a 48-leg device took 5.5 s with OpenBLAS's default two threads on a 2-core machine and
 2.8 s with one, measured side by side (load average about 2; tests/benchmarks/bench_device.py).
 
-On first use, :func:`one_blas_thread` limits the process's BLAS libraries to one thread, once
+On first use, :func:`single_blas_thread` limits the process's BLAS libraries to one thread, once
 and for good (threadpoolctl, a dependency). It is not undone after each call: the setting is
 process-wide, and toggling it from the several threads of the served page (one per session)
 while another thread is inside a BLAS call is not safe. Set the environment variable
@@ -15,7 +15,6 @@ while another thread is inside a BLAS call is not safe. Set the environment vari
 
 from __future__ import annotations
 
-import contextlib
 import functools
 import os
 import threading
@@ -44,21 +43,16 @@ def _limit_once() -> None:
             _LIMITER = None
 
 
-def one_blas_thread():
-    """Context manager for a block of dense solves: BLAS on one thread from the first use on
-    (see the module docstring; the block itself runs unchanged).
+def single_blas_thread(fn):
+    """Decorator: BLAS limited to one thread (once, see the module docstring) before ``fn`` runs.
 
     >>> import numpy as np
-    >>> with one_blas_thread():
-    ...     float(np.ones((3, 3)) @ np.ones(3) @ np.ones(3))
+    >>> @single_blas_thread
+    ... def f():
+    ...     return float(np.ones((3, 3)) @ np.ones(3) @ np.ones(3))
+    >>> f()
     9.0
     """
-    _limit_once()
-    return contextlib.nullcontext()
-
-
-def single_blas_thread(fn):
-    """Decorator: ``fn`` runs inside :func:`one_blas_thread`."""
 
     @functools.wraps(fn)
     def wrapped(*args, **kwargs):

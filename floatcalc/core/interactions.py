@@ -972,8 +972,6 @@ class Layout:
         hi = np.concatenate([self.hi, np.full(nb, np.inf)])
         mstep = np.concatenate([self.maxstep, np.full(nb, np.inf)])
         x = np.clip(x, lo, hi)
-        from scipy.linalg import lu_factor, lu_solve
-
         converged = False
         it = 0
         r, aux = self._residual(x, depth, Dloc, derivs=False)
