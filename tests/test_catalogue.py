@@ -460,6 +460,7 @@ def test_control_characters_are_escaped(case, tmp_path):
     assert time.perf_counter() - t0 < PER_CASE_S + 5.0  # the report case writes a PDF
 
 
+@pytest.mark.slow
 def test_catalogue_wall_time(tmp_path, monkeypatch):
     """The catalogue answers in about a minute: every in-process command-line case and every API
     case run again here back to back (so the total is measured in one process even when pytest

@@ -95,6 +95,7 @@ def test_repeated_samples_solve_each_leg_type_once(rig, monkeypatch):
     _check({k: v[[0, 4]] for k, v in got.items()}, _scalar(rig, sub))
 
 
+@pytest.mark.slow
 def test_clamp_footprint_is_one_sided():
     """A leg's rectangle starts at its clamp: a ball just behind the clamp (closer than half
     the leg's length, but clear of it) is no overlap, and the batch decides the sample; a

@@ -306,6 +306,7 @@ def test_element_tables_equal_public_functions_and_adapter_steps():
                 assert np.max(np.abs(got - want)) <= 1e-8 * np.max(np.abs(want))
 
 
+@pytest.mark.slow
 def test_element_tables_ring_against_public_ring():
     """The ring's fast path (tabulated enclosed meniscus) against ring() (direct inner solves):
     limit force to 1e-7 (measured ~1e-11 here); depth on the flat maximum to 1e-4."""

@@ -78,6 +78,7 @@ def test_one_rod_is_the_single_rod_profile():
     assert p["centre_z"] == pytest.approx(float(one["centre_z"]), abs=1e-9)
 
 
+@pytest.mark.slow
 def test_rod_row_drawing_shows_every_rod_and_contact_and_the_pdf_uses_it(monkeypatch, tmp_path):
     from floatcalc import plotting
     from floatcalc.design import design_from_data

@@ -41,6 +41,7 @@ def test_probability_of_sinking_matches_normal_cdf():
     assert r.probability_standard_error == pytest.approx(math.sqrt(p_exact * (1 - p_exact) / 20000), rel=0.05)
 
 
+@pytest.mark.slow
 def test_percentiles_and_their_batch_means_error():
     liq, m = _thin_model(0.0)
     mu, s, N = 70e-3, 5e-3, 40000

@@ -274,6 +274,24 @@ def _newton(sup: Support, u, X, bal, W, tol, max_iter, coupled: bool):
     return u, r, e
 
 
+def depth_rates(sup: Support, u, dbal):
+    """Rate of change of every point's effective depth along a load path, at equilibrium u.
+
+    ``dbal`` is the rate of the balance (total load, its x-moment, its y-moment) per unit of the
+    path's parameter [σ l_c, σ l_c²]. With the balance Σ F_j (1, x_j, y_j) = bal held, the
+    equilibrium moves by du = J⁻¹ dbal, J the Jacobian of the balance through the coupling
+    (:func:`_state_and_sensitivity`; exact within a table segment), and the depths by
+    de = (∂e/∂u) du. Returns ``None`` where J is singular (every point at its limit)."""
+    X = np.stack([np.ones_like(sup.x), sup.x, sup.y])
+    _, _, k, dE = _state_and_sensitivity(sup, np.asarray(u, dtype=float), X)
+    J = (X * k) @ dE
+    try:
+        du = np.linalg.solve(J, np.asarray(dbal, dtype=float))
+    except np.linalg.LinAlgError:
+        return None
+    return dE @ du if np.all(np.isfinite(du)) else None
+
+
 def _level_heave(sup: Support, W: float) -> float:
     """Heave at which the level device carries W: Illinois regula falsi on the total force
     (non-decreasing in heave) over the whole table range, to 1e-13 of that range."""

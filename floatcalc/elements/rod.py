@@ -8,6 +8,7 @@ below uses the same law, so a rod alone in a device has the same limit.
 
 from __future__ import annotations
 
+import functools
 import math
 
 import numpy as np
@@ -52,25 +53,14 @@ class RodKind(ElementKind):
                    liquid=liquid, material_density=p["density"])
 
     def model(self, p, liquid):
-        from ..core import finite_rod, rod2d
+        from ..core import finite_rod
         from ..rods import contact_perimeter
 
         lc, s = liquid.lc, liquid.sigma
         R, L = p["radius"] / lc, p["length"] / lc
         th = effective_angle(p["coating"]["advancing"], p["coating"])
-        lim = finite_rod.limit(R, th, L)
-        phi = np.linspace(0.0, lim["phi"], TABLE_POINTS)
-        f_st, f_p, D = rod2d.force_parts(phi, R, th)
         n = p["segments"]
-        seg = L / n
-        ends = 2.0 * finite_rod.end_force(phi, R, f_st)  # both ends together
-        F = np.tile((f_st + f_p) * seg, (n, 1))
-        F[0] += 0.5 * ends
-        F[-1] += 0.5 * ends
-        hd = 2.0 * np.sin(0.5 * (phi + th - np.pi))
-        D0 = D
-        D, hd = from_first_contact(D0, hd)
-        F = np.array([from_first_contact(D0, row)[1] for row in F])
+        lim_phi, D, hd, F = _tables(R, th, L, n)
         ux, uy = math.cos(p["heading"]), math.sin(p["heading"])
         along = (np.arange(n) + 0.5) / n * p["length"] - 0.5 * p["length"]   # [m]
         cx, cy = p["position"]
@@ -86,7 +76,7 @@ class RodKind(ElementKind):
         return ElementModel(
             points=pts, offsets=offs,
             depth=np.tile(D * lc, (n, 1)), force=F * s * lc, contact=np.tile(hd * lc, (n, 1)),
-            own_weight=weight, perimeter=contact_perimeter(p["radius"], p["length"], lim["phi"]),
+            own_weight=weight, perimeter=contact_perimeter(p["radius"], p["length"], lim_phi),
             footprint=rectangle(cx, cy, ux, uy, 0.5 * p["length"], p["radius"]),
             field=scaled_field(rod_field(cx / lc, cy / lc, ux, uy, 0.5 * L, R), lc),
             broken_force=liquid.rho * liquid.g * math.pi * p["radius"] ** 2 * p["length"],
@@ -94,6 +84,29 @@ class RodKind(ElementKind):
             model_name="exact 2D rod law (Vella, Lee & Kim 2006) with bounded ends (core.finite_rod)",
             geometry={"radius": p["radius"], "length": p["length"], "heading": p["heading"], "theta": th},
         )
+
+
+@functools.lru_cache(maxsize=256)
+def _tables(R: float, th: float, L: float, n: int):
+    """Scaled force tables of a rod of n segments (the position-free part of the model; rods
+    alike in a device, e.g. the legs of a ring, share one). Arrays are read-only."""
+    from ..core import finite_rod, rod2d
+
+    lim = finite_rod.limit(R, th, L)
+    phi = np.linspace(0.0, lim["phi"], TABLE_POINTS)
+    f_st, f_p, D = rod2d.force_parts(phi, R, th)
+    seg = L / n
+    ends = 2.0 * finite_rod.end_force(phi, R, f_st)  # both ends together
+    F = np.tile((f_st + f_p) * seg, (n, 1))
+    F[0] += 0.5 * ends
+    F[-1] += 0.5 * ends
+    hd = 2.0 * np.sin(0.5 * (phi + th - np.pi))
+    D0 = D
+    D, hd = from_first_contact(D0, hd)
+    F = np.array([from_first_contact(D0, row)[1] for row in F])
+    for a in (D, hd, F):
+        a.flags.writeable = False
+    return float(lim["phi"]), D, hd, F
 
 
 register_kind(RodKind())
