@@ -281,15 +281,70 @@ def depth_rates(sup: Support, u, dbal):
     path's parameter [σ l_c, σ l_c²]. With the balance Σ F_j (1, x_j, y_j) = bal held, the
     equilibrium moves by du = J⁻¹ dbal, J the Jacobian of the balance through the coupling
     (:func:`_state_and_sensitivity`; exact within a table segment), and the depths by
-    de = (∂e/∂u) du. Returns ``None`` where J is singular (every point at its limit)."""
+    de = (∂e/∂u) du. Where J is singular (points in a line: the roll about that line is free),
+    the least-norm du (the tilt the balance does not fix stays). ``None`` where no slope is
+    defined (every point at its limit or not touching)."""
     X = np.stack([np.ones_like(sup.x), sup.x, sup.y])
     _, _, k, dE = _state_and_sensitivity(sup, np.asarray(u, dtype=float), X)
     J = (X * k) @ dE
-    try:
-        du = np.linalg.solve(J, np.asarray(dbal, dtype=float))
-    except np.linalg.LinAlgError:
+    if not np.any(k > 0):
         return None
+    du, *_ = np.linalg.lstsq(J, np.asarray(dbal, dtype=float), rcond=1e-12)
     return dE @ du if np.all(np.isfinite(du)) else None
+
+
+def newton_crossing(state, g0: float, s0, *, xtol: float, hi: float, probe, cap=None, max_iter: int = 60):
+    """Smallest t > 0 where a margin g(t), rising from g(0) = g0 < 0, reaches zero.
+
+    ``state(t)`` returns (g(t), g'(t)), the slope ``None`` where unknown (then g = 1 marks a
+    state without balance, past the crossing). Newton's method from the last state, kept inside
+    the bracket found so far (bisection when a step leaves it); while no loaded end is known, a
+    step that Newton cannot predict goes to ``probe(a, g(a))``, and every step is limited to
+    ``cap(a)`` (default ``hi``). Stops when the Newton step, or the bracket, is under ``xtol``.
+
+    Returns (t, bracket, settled): bracket = (a, b) with g(a) < 0 <= g(b), settled False when
+    ``max_iter`` ran out (t is then the bracket's middle); (None, None, True) if g stays negative
+    up to ``hi``. The root returned is on the safe side (g(t) < 0, see :func:`_below`). A margin convex in t (depths grow faster as an element nears its
+    limit) is overshot by the first Newton step and then approached from the loaded side,
+    quadratically: about four evaluations where Brent's method takes ten to a tight tolerance.
+    """
+    a, ga, b = 0.0, g0, None
+    t, g, s = 0.0, g0, s0
+    for _ in range(max_iter):
+        tn = t - g / s if (s is not None and s > 0) else None
+        if b is None:
+            if tn is None or tn <= a:
+                tn = probe(a, ga)
+            tn = min(tn, hi if cap is None else cap(a))
+        elif tn is None or not (a < tn < b):
+            tn = 0.5 * (a + b)
+        gn, sn = state(tn)
+        if gn >= 0:
+            b = tn
+        else:
+            a, ga = tn, gn
+        if (b is not None and b - a <= xtol) or (sn is not None and sn > 0 and abs(gn) <= sn * xtol):
+            if gn < 0:
+                return tn, (a, b if b is not None else tn), True
+            return _below(tn, gn, sn, a, xtol), (a, tn), True
+        if b is None and tn >= hi:
+            return None, None, True
+        if sn is not None:
+            t, g, s = tn, gn, sn
+        else:   # no balance at tn: predict again from the bracket's unloaded end
+            t, g = a, ga
+    return (0.5 * (a + b), (a, b), False) if b is not None else (None, None, True)
+
+
+def _below(t, g, s, a, xtol):
+    """The safe side of a crossing found at t with g(t) >= 0: the Newton estimate of the root
+    less 1e-3 xtol (its error is of the order of the last step squared), or, without a slope,
+    the bracket's unloaded end a (within xtol). No new evaluation: below the last step the
+    margin is at the resolution of the equilibrium solve (1e-10 of the load), which a further
+    step back does not move."""
+    if s is not None and s > 0:
+        return max(a, t - g / s - 1e-3 * xtol)
+    return a
 
 
 def _level_heave(sup: Support, W: float) -> float:
@@ -354,7 +409,9 @@ def _root(f, a: float, b: float, *, rtol: float, xtol: float) -> float:
 def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float, *, rtol: float = 1e-8):
     """Largest extra load P [σ l_c] at (px, py) before the first point reaches its limit.
 
-    The margin g(P) = max_j (e_j − e_lim,j) rises with P; Brent's method on g finds its root.
+    The margin g(P) = max_j (e_j − e_lim,j) rises with P; :func:`newton_crossing` finds its
+    root on the safe side (slope from :func:`depth_rates`), Brent's method if Newton does not
+    settle in 40 steps.
 
     Returns
     -------
@@ -362,11 +419,15 @@ def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float,
         Load, equilibrium at that load, effective depths, index of the first point to give way.
         P < 0 means the device already fails under its own weight (then the shortfall is −P).
     """
-    from scipy.optimize import brentq
-
     last = [None]
+    seen: dict = {}
 
     def g(P):
+        if P not in seen:
+            seen[P] = _margin(P)
+        return seen[P]
+
+    def _margin(P):
         Wt = W + P
         xt = (W * xg + P * px) / Wt
         yt = (W * yg + P * py) / Wt
@@ -379,6 +440,14 @@ def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float,
                 return 1.0, None, None
         last[0] = u
         return float(np.max(e - sup.limit_depth)), u, e
+
+    def state(P):
+        """Margin and its slope dg/dP (the balance grows by (1, px, py) per unit load)."""
+        m, u, e = g(P)
+        if u is None:
+            return m, None
+        rates = depth_rates(sup, u, (1.0, px, py))
+        return m, None if rates is None else float(rates[int(np.argmax(e - sup.limit_depth))])
 
     g0, u0, e0 = g(0.0)  # g0 = 1 if no balance exists under the own weight (too heavy)
     if g0 >= 0.0:  # fails under its own weight: how much lighter would it have to be
@@ -393,20 +462,17 @@ def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float,
                                    "(check the element layout and the centre of mass)")
         P = _root(lambda P: g(P)[0], lo, hi, rtol=rtol, xtol=1e-12 * W)
     else:
-        # Step out with a stiffness-based prediction until the margin changes sign, then Brent.
+        # Newton on the margin (newton_crossing); where it cannot predict, a stiffness-based
+        # step out. Brent's method between the bracket's ends if Newton does not settle.
         kz = max(float(np.sum((sup._F[:, 1:] - sup._F[:, :-1]).max(axis=1) / sup._step)), 1e-12)
-        a, ga = 0.0, g0
         total = float(sup.limit_force.sum()) - W
-        for _ in range(60):
-            b = min(a + max(-ga * kz * 1.5, 1e-6 * max(total, 1e-12)), total)
-            gb = g(b)[0]
-            if gb >= 0.0 or b >= total:
-                break
-            a, ga = b, gb
-        if gb < 0.0:
-            P = b
-        else:
-            P = _root(lambda P: g(P)[0], a, b, rtol=rtol, xtol=1e-12 * max(total, 1.0))
+        P, bracket, settled = newton_crossing(
+            state, g0, state(0.0)[1], xtol=rtol * 1e-2 * max(total, 1e-12), hi=total,
+            probe=lambda a, ga: a + max(-ga * kz * 1.5, 1e-6 * max(total, 1e-12)), max_iter=40)
+        if P is None:
+            P = total
+        elif not settled:
+            P = _root(lambda P: g(P)[0], bracket[0], bracket[1], rtol=rtol, xtol=1e-12 * max(total, 1.0))
     _, u, e = g(P)
     if u is None:
         raise ConvergenceError("device equilibrium did not converge near its capacity")

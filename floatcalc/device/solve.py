@@ -521,12 +521,11 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span, at_zero=None):
     """Offset [l_c] along (dx, dy) from the centre of mass where payload P first fails an element.
 
     The margin g(t) = max_j (e_j − e_lim,j) rises with the offset t; its root is found by
-    Newton's method with the slope from the equilibrium's sensitivity
-    (:func:`floatcalc.core.equilibrium.depth_rates`: moving P by dt changes the balance's
-    moments by P (dx, dy) dt), kept inside the bracket found so far (bisection when a step
-    leaves it), each step at most twice the offset reached (far past the crossing the device has
-    no equilibrium, and finding that out costs a dozen solves), stopped when the Newton step is
-    under 1e-5 l_c (tens of nanometres). ``None`` if no element fails within ``span``.
+    :func:`floatcalc.core.equilibrium.newton_crossing`, the slope from the equilibrium's
+    sensitivity (moving P by dt changes the balance's moments by P (dx, dy) dt), each step at
+    most twice the offset reached (far past the crossing the device has no equilibrium, and
+    finding that out costs a dozen solves), to a Newton step under 1e-5 l_c (tens of
+    nanometres). ``None`` if no element fails within ``span``.
 
     ``at_zero`` (a dict shared by the directions) keeps the margin, slope and state at zero
     offset: the state is the same in every direction."""
@@ -564,60 +563,14 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span, at_zero=None):
             at_zero.update(g=g0, u=u0, j=j0)
     if g0 >= 0:
         return 0.0
-    a, ga, b = 0.0, g0, None
-    t, g, s = 0.0, g0, s0
-    for _ in range(60):
-        tn = t - g / s if (s is not None and s > 0) else None
-        if b is None:
-            cap = min(span, max(2.0 * a, span / 8.0))
-            if tn is None or tn <= a:
-                tn = a + span / 8.0
-            tn = min(tn, cap)
-        elif tn is None or not (a < tn < b):
-            tn = 0.5 * (a + b)
-        gn, sn, _, _ = state(tn)
-        if gn >= 0:
-            b = tn
-        else:
-            a, ga = tn, gn
-        if b is not None and b - a <= xtol:
-            return tn
-        if sn is not None and sn > 0 and abs(gn) <= sn * xtol:
-            return tn
-        if b is None and tn >= span:
-            return None
-        if sn is not None:
-            t, g, s = tn, gn, sn
-        else:   # no balance at tn: predict again from the bracket's unloaded end
-            t, g = a, ga
-    return a if b is None else 0.5 * (a + b)
-
-
-def _crossing(g, a, ga, b, gb, *, xtol):
-    """Zero of g on [a, b] with g(a) < 0 <= g(b): the Illinois method (regula falsi that halves
-    the stale end's value; Dowell & Jarratt, BIT 11, 168, 1971), stopped when the secant's
-    error estimate |g(c)| / slope, or the bracket, is under xtol. The tipping margin is nearly
-    linear in the offset, so this takes about three evaluations where Brent's method, which
-    confirms its last step by one of xtol, takes five. Returns the crossing, never beyond the
-    bracket's loaded end."""
-    side = 0
-    fa, fb = ga, gb   # the true values at the ends (ga, gb are the Illinois-weighted ones)
-    for _ in range(60):
-        c = b - gb * (b - a) / (gb - ga) if gb != ga else 0.5 * (a + b)
-        if not (a < c < b):
-            c = 0.5 * (a + b)
-        gc = g(c)
-        slope = (fb - fa) / (b - a)
-        if gc < 0:
-            a, ga, fa = c, gc, gc
-            if side == -1:
-                gb *= 0.5
-            side = -1
-        else:
-            b, gb, fb = c, gc, gc
-            if side == 1:
-                ga *= 0.5
-            side = 1
-        if b - a <= xtol or (slope > 0 and abs(gc) <= slope * xtol):
-            return c
-    return 0.5 * (a + b)
+    # the load's line of action cannot pass the outermost force point along (dx, dy): beyond
+    # it no balance exists (a line of supports tips at once across itself)
+    reach = float(np.max((sup.x - xs) * dx + (sup.y - ys) * dy)) * Wt / P
+    if reach <= 1e-9:
+        return 0.0
+    hi = min(span, reach)
+    t, _, _ = eq.newton_crossing(lambda t: state(t)[:2], g0, s0, xtol=1e-5, hi=hi,
+                                 probe=lambda a, ga: a + hi / 8.0, cap=lambda a: min(hi, max(2.0 * a, hi / 8.0)))
+    if t is None and hi < span:   # every element holds up to the edge: it tips there
+        return hi
+    return t

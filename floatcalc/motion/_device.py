@@ -177,7 +177,12 @@ def heave_law(design) -> HeaveLaw:
         def excess(zz):
             return point_state(sup, zz, 0.0, 0.0)[2].sum() - final
 
-        z_lim = brentq(excess, z0, z_lim, xtol=1e-13) if excess(z0) < 0.0 else z0
+        # (final within rounding of the level law's end, e.g. a centred device whose capacity
+        # is its level limit: excess(z_lim) may be a hair below zero; keep z_lim then)
+        if excess(z0) >= 0.0:
+            z_lim = z0
+        elif excess(z_lim) > 0.0:
+            z_lim = brentq(excess, z0, z_lim, xtol=1e-13)
         z = np.linspace(z0, z_lim, LAW_POINTS)
         Fe = per_element(z)
         F = np.maximum.accumulate(Fe.sum(axis=0))
