@@ -246,9 +246,16 @@ def _newton(sup: Support, u, X, bal, W, tol, max_iter, coupled: bool):
 
     u = np.asarray(u, dtype=float).copy()
     r, e, k, dE = full(u)
-    for _ in range(max_iter):
+    history = []
+    for it in range(max_iter):
         nr = np.linalg.norm(r)
         if nr < tol:
+            break
+        # stalled: not a tenth of the residual gone in ten steps (no balance exists, e.g. an
+        # element past its limit and the rest unable to hold the moment). A converging solve
+        # takes at most about seven evaluations on these piecewise-linear tables.
+        history.append(nr)
+        if it >= 10 and nr > 0.1 * history[it - 10]:
             break
         # points past their limit or not yet touching have zero slope; a small floor keeps
         # the Jacobian regular (it only steers the iteration)
@@ -299,8 +306,8 @@ def newton_crossing(state, g0: float, s0, *, xtol: float, hi: float, probe, cap=
     ``state(t)`` returns (g(t), g'(t)), the slope ``None`` where unknown (then g = 1 marks a
     state without balance, past the crossing). Newton's method from the last state, kept inside
     the bracket found so far (bisection when a step leaves it); while no loaded end is known, a
-    step that Newton cannot predict goes to ``probe(a, g(a))``, and every step is limited to
-    ``cap(a)`` (default ``hi``). Stops when the Newton step, or the bracket, is under ``xtol``.
+    step that Newton cannot predict goes to ``probe(a, g(a))``, and a step to t from the
+    unloaded end a goes to ``cap(a, t)`` instead (default t), never past ``hi``. Stops when the Newton step, or the bracket, is under ``xtol``.
 
     Returns (t, bracket, settled): bracket = (a, b) with g(a) < 0 <= g(b), settled False when
     ``max_iter`` ran out (t is then the bracket's middle); (None, None, True) if g stays negative
@@ -315,7 +322,7 @@ def newton_crossing(state, g0: float, s0, *, xtol: float, hi: float, probe, cap=
         if b is None:
             if tn is None or tn <= a:
                 tn = probe(a, ga)
-            tn = min(tn, hi if cap is None else cap(a))
+            tn = min(tn, hi) if cap is None else min(cap(a, tn), hi)
         elif tn is None or not (a < tn < b):
             tn = 0.5 * (a + b)
         gn, sn = state(tn)
@@ -466,9 +473,22 @@ def capacity(sup: Support, W: float, xg: float, yg: float, px: float, py: float,
         # step out. Brent's method between the bracket's ends if Newton does not settle.
         kz = max(float(np.sum((sup._F[:, 1:] - sup._F[:, :-1]).max(axis=1) / sup._step)), 1e-12)
         total = float(sup.limit_force.sum()) - W
+        # A step that Newton puts past the sum of all limits: first try just short of it once
+        # (elements alike, centred, all reach their limits together there); after that, steps
+        # at most halfway to it (near it no balance may exist: an element past its limit and the
+        # rest unable to hold the moment).
+        xtol = rtol * 1e-2 * max(total, 1e-12)
+        tried = []
+
+        def cap(a, t):
+            if t >= total and not tried:
+                tried.append(t)
+                return total - 0.5 * xtol
+            return min(t, a + 0.5 * (total - a))
+
         P, bracket, settled = newton_crossing(
-            state, g0, state(0.0)[1], xtol=rtol * 1e-2 * max(total, 1e-12), hi=total,
-            probe=lambda a, ga: a + max(-ga * kz * 1.5, 1e-6 * max(total, 1e-12)), max_iter=40)
+            state, g0, state(0.0)[1], xtol=xtol, hi=total,
+            probe=lambda a, ga: a + max(-ga * kz * 1.5, 1e-6 * max(total, 1e-12)), cap=cap, max_iter=40)
         if P is None:
             P = total
         elif not settled:

@@ -570,7 +570,8 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span, at_zero=None):
         return 0.0
     hi = min(span, reach)
     t, _, _ = eq.newton_crossing(lambda t: state(t)[:2], g0, s0, xtol=1e-5, hi=hi,
-                                 probe=lambda a, ga: a + hi / 8.0, cap=lambda a: min(hi, max(2.0 * a, hi / 8.0)))
+                                 probe=lambda a, ga: a + hi / 8.0,
+                                 cap=lambda a, t: min(t, max(2.0 * a, hi / 8.0)))
     if t is None and hi < span:   # every element holds up to the edge: it tips there
         return hi
     return t
