@@ -86,12 +86,16 @@ class Support:
 
     def _where(self, e):
         """Flat table index, fraction within the segment and the touching mask at depths e."""
-        u = (e - self._d0) / self._step
-        u = np.where(u > -0.5, u, -0.5)            # before first contact, or NaN: not touching
+        u = np.subtract(e, self._d0)
+        u /= self._step
+        np.fmax(u, -0.5, out=u)                    # before first contact, or NaN: not touching
         np.minimum(u, float(self._n), out=u)
-        k = np.minimum(u.astype(np.intp), self._n - 2)   # u >= −0.5 truncates to k >= 0
-        t = np.minimum(u - k, 1.0)                 # t < 0 only where u < 0 (masked by the caller)
-        return self._base + k, t, u
+        k = u.astype(np.intp)                      # u >= −0.5 truncates to k >= 0
+        np.minimum(k, self._n - 2, out=k)
+        t = u - k
+        np.minimum(t, 1.0, out=t)                  # t < 0 only where u < 0 (masked by the caller)
+        k += self._base
+        return k, t, u
 
     def lookup(self, e, slopes: bool = False):
         """Force and contact depth of every point at effective depths e (linear, clamped at the
