@@ -1,0 +1,98 @@
+"""The root searches of floatcalc.core.equilibrium: newton_crossing on closed-form margins, and a
+solve without any balance failing fast.
+
+References: the roots are closed forms (ln 2 for e^t − 2; the cube root for t³ − a); a rigid
+plate on four linear springs with a weight beyond its moment capacity has no balance (statics:
+the load's line of action must lie where the springs' largest forces can hold its moment).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+
+from floatcalc.core import equilibrium as eq
+from floatcalc.errors import ConvergenceError
+
+
+@pytest.mark.parametrize("g, dg, root", [
+    (lambda t: math.exp(t) - 2.0, math.exp, math.log(2.0)),                 # convex: overshoots first
+    (lambda t: t ** 3 - 5.0, lambda t: 3 * t * t, 5.0 ** (1 / 3)),
+    (lambda t: math.atan(t - 1.3), lambda t: 1 / (1 + (t - 1.3) ** 2), 1.3),  # concave past the root
+])
+def test_newton_crossing_finds_closed_form_roots_on_the_safe_side(g, dg, root):
+    calls = []
+
+    def state(t):
+        calls.append(t)
+        return g(t), dg(t)
+
+    t, (a, b), settled = eq.newton_crossing(state, g(0.0), dg(0.0), xtol=1e-10, hi=10.0,
+                                            probe=lambda a, ga: a + 1.0)
+    assert settled and abs(t - root) < 1e-9
+    assert g(t) <= 0.0 or abs(t - root) < 1e-12      # never past the root beyond rounding
+    assert a <= root <= b + 1e-12
+    assert len(calls) < 15
+
+
+def test_newton_crossing_without_slopes_bisects_and_reports_no_crossing():
+    t, bracket, settled = eq.newton_crossing(lambda t: (t - 2.0, None), -2.0, None, xtol=1e-9, hi=8.0,
+                                             probe=lambda a, ga: a + 1.0)
+    assert settled and abs(t - 2.0) <= 1e-9 and t <= 2.0
+    t, bracket, _ = eq.newton_crossing(lambda t: (-1.0, 0.0), -1.0, 0.0, xtol=1e-9, hi=3.0,
+                                       probe=lambda a, ga: a + 1.0)
+    assert t is None and bracket is None
+
+
+def _plate():
+    D = np.tile(np.linspace(0.0, 1.0, 11), (4, 1))
+    return eq.Support(x=np.array([1.0, -1, 1, -1]), y=np.array([1.0, 1, -1, -1]), offset=np.zeros(4),
+                      depth=D, force=2.0 * D, contact=D, owner=np.arange(4), coupling=np.zeros((4, 4)))
+
+
+def test_a_load_beyond_the_moment_capacity_fails_fast(monkeypatch):
+    """Springs at x = ±1 that push but cannot pull: a load at x = 1.2 lies outside them, and its
+    moment about x = 1 cannot be held by any spring force >= 0 (statics): no balance. The solve
+    says so in a few dozen evaluations (not 2 × 80)."""
+    count = [0]
+    real = eq._state_and_sensitivity
+
+    def counted(*a):
+        count[0] += 1
+        return real(*a)
+
+    monkeypatch.setattr(eq, "_state_and_sensitivity", counted)
+    sup = _plate()
+    u, _ = eq.solve(sup, 3.0, 0.0, 0.0)            # the centred load has a balance
+    assert u[0] == pytest.approx(3.0 / 8.0)
+    count[0] = 0
+    with pytest.raises(ConvergenceError):
+        eq.solve(sup, 3.0, 1.2, 0.0, start=u)
+    assert count[0] < 60, count[0]
+
+
+def test_no_balance_under_a_far_off_load_is_found_in_few_evaluations(monkeypatch):
+    """The invented skimmer with twice its weight centred 4 capillary lengths off to -x: the legs
+    on that side pass their limits and the rest cannot hold the moment (a balance exists at 1). The stalled Newton iteration stops after ten steps that remove less than nine tenths of
+    the residual: under 40 evaluations for both Jacobians (the previous rule ran 80 each, 130 in
+    all)."""
+    from floatcalc.device import Device, example
+
+    dev = Device.from_design(example("skimmer"))
+    sup = dev.support()
+    W = 2.0 * dev.weight / (dev.liquid.sigma * dev.liquid.lc)
+    count = [0]
+    real = eq._state_and_sensitivity
+
+    def counted(*a):
+        count[0] += 1
+        return real(*a)
+
+    monkeypatch.setattr(eq, "_state_and_sensitivity", counted)
+    eq.solve(sup, W, -1.0, 0.0)
+    count[0] = 0
+    with pytest.raises(ConvergenceError):
+        eq.solve(sup, W, -4.0, 0.0)
+    assert count[0] < 40, count[0]
