@@ -522,14 +522,18 @@ def best_capacity(sup: Support, W: float, xg: float, yg: float, at_centre=None):
 
     P0, u0, _, _ = capacity(sup, W, xg, yg, xg, yg) if at_centre is None else at_centre
 
+    sag = [0.0]   # the coupling's correction at the last tilt: nearby tilts sag alike
+
     def best_heave(p, q):
         # Without coupling e is linear in heave: the deepest admissible heave is explicit.
         # Coupling makes the surface sag a little with depth; a few corrections converge.
-        z = float(np.min(sup.limit_depth - p * sup.x - q * sup.y - sup.offset))
+        z0 = float(np.min(sup.limit_depth - p * sup.x - q * sup.y - sup.offset))
+        z = z0 + sag[0]
         for _ in range(6):
             st = point_state(sup, z, p, q)
             gap = float(np.min(sup.limit_depth - st[1]))
             if abs(gap) < 1e-9:
+                sag[0] = z - z0
                 return z, st
             z += gap
         return z, point_state(sup, z, p, q)
