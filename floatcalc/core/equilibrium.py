@@ -311,13 +311,15 @@ def newton_crossing(state, g0: float, s0, *, xtol: float, hi: float, probe, cap=
     state without balance, past the crossing). Newton's method from the last state, kept inside
     the bracket found so far (bisection when a step leaves it); while no loaded end is known, a
     step that Newton cannot predict goes to ``probe(a, g(a))``, and a step to t from the
-    unloaded end a goes to ``cap(a, t)`` instead (default t), never past ``hi``. Stops when the Newton step, or the bracket, is under ``xtol``.
+    unloaded end a goes to ``cap(a, t)`` instead (default t), never past ``hi``. Stops when
+    the Newton step, or the bracket, is under ``xtol``.
 
     Returns (t, bracket, settled): bracket = (a, b) with g(a) < 0 <= g(b), settled False when
     ``max_iter`` ran out (t is then the bracket's middle); (None, None, True) if g stays negative
-    up to ``hi``. The root returned is on the safe side (g(t) < 0, see :func:`_below`). A margin convex in t (depths grow faster as an element nears its
-    limit) is overshot by the first Newton step and then approached from the loaded side,
-    quadratically: about four evaluations where Brent's method takes ten to a tight tolerance.
+    up to ``hi``. The root returned is on its safe side (:func:`_below`). A margin convex in t
+    (depths grow faster as an element nears its limit) is overshot by the first Newton step and
+    then approached from the loaded side, quadratically: about four evaluations where Brent's
+    method takes ten to a tight tolerance.
     """
     a, ga, b = 0.0, g0, None
     t, g, s = 0.0, g0, s0

@@ -531,7 +531,6 @@ def _tip_offset(eq, sup, Ws, xs, ys, P, dx, dy, span, at_zero=None):
     offset: the state is the same in every direction."""
     last = [None]
     Wt = Ws + P
-    xtol = 1e-5
 
     def state(t):
         """Margin, its slope (None where unknown; margin 1 where no balance exists), the
