@@ -95,8 +95,8 @@ def _compact(mask, *arrays):
     n = mask.sum(axis=1)
     col = np.arange(W)
     src = np.where(col[None, :] < n[:, None], order, order[np.arange(S), np.maximum(n - 1, 0)][:, None])
-    r = np.arange(S)[:, None]
-    return (n, *(a[r, src] for a in arrays))
+    flat = (src + (np.arange(S) * W)[:, None]).ravel()   # one flat gather per array (as a[r, src])
+    return (n, *(np.take(np.broadcast_to(a, (S, W)).reshape(-1), flat).reshape(S, W) for a in arrays))
 
 
 def _rising(depth, n):
@@ -115,12 +115,40 @@ def _rising(depth, n):
     return i0, np.minimum(m, n)
 
 
+def _search_rows(X, n, xq):
+    """Per row: ``np.searchsorted(X[i, :n[i]], xq[i], side="right")`` (the count of nodes <= each
+    query; NaN queries count every node) for rows X non-decreasing over their first n entries,
+    by a binary search in lockstep over all rows (the same comparisons: the same answer).
+    Rows that are not sorted or hold NaN are searched one by one with numpy itself."""
+    S, W = X.shape
+    col = np.arange(W)[None, :]
+    valid = col < n[:, None]
+    if W > 1 and not np.all((X[:, 1:] >= X[:, :-1]) | ~valid[:, 1:]) or np.isnan(X[valid]).any():
+        out = np.empty(xq.shape, dtype=np.intp)
+        for i in range(S):
+            out[i] = np.searchsorted(X[i, :n[i]], xq[i], side="right")
+        return out
+    flat = np.ascontiguousarray(X).reshape(-1)
+    base = (np.arange(S) * W)[:, None]
+    lo = np.zeros(xq.shape, dtype=np.intp)
+    hi = np.array(np.broadcast_to(n[:, None], xq.shape), dtype=np.intp)
+    nanq = np.isnan(xq)
+    for _ in range(int(W).bit_length()):   # each step at least halves every interval [lo, hi)
+        act = lo < hi
+        if not act.any():
+            break
+        mid = (lo + hi) >> 1
+        right = (xq >= flat.take(base + np.minimum(mid, W - 1))) | nanq
+        lo = np.where(act & right, mid + 1, lo)
+        hi = np.where(act & ~right, mid, hi)
+    return lo
+
+
 def _interp_rows(xq, X, Y, n):
     """Row-wise :func:`numpy.interp` of Y over X (first ``n`` entries of each row, increasing)
     at xq (same rows); queries are clamped to the row's range, as numpy.interp does. ``Y`` may
     be a tuple of tables on the same X (one search serves them all; a tuple comes back)."""
     S, W = X.shape
-    r = np.arange(S)[:, None]
     last = (n - 1)[:, None]
     if xq.shape[1] == 1:
         # one query a row: the count of nodes <= xq is np.searchsorted(side="right"), exactly
@@ -128,23 +156,27 @@ def _interp_rows(xq, X, Y, n):
         lo = np.sum(valid & (X <= xq), axis=1, keepdims=True) - 1
         lo = np.where(np.isnan(xq), last, lo)
     else:
-        lo = np.empty(xq.shape, dtype=np.intp)
-        for i in range(S):  # last node <= xq (np.searchsorted per row: exact, and cheap)
-            lo[i] = np.searchsorted(X[i, :n[i]], xq[i], side="right") - 1
+        lo = _search_rows(X, n, xq) - 1   # last node <= xq
     j = np.clip(lo, 0, np.maximum(last - 1, 0))
     j1 = np.minimum(j + 1, last)
-    x0, x1 = X[r, j], X[r, j1]
-    below = xq <= X[:, :1]
-    xl = X[np.arange(S), n - 1][:, None]
-    above = xq >= xl
+    base = (np.arange(S) * W)[:, None]
+    fj, fj1 = base + j, base + j1          # flat indices (as T[r, j], T[r, j1])
+    first, fl = base[:, 0], base[:, 0] + n - 1
+    Xf = np.ascontiguousarray(X).reshape(-1)
+    x0, x1 = Xf.take(fj), Xf.take(fj1)
+    below = xq <= Xf.take(first)[:, None]
+    above = xq >= Xf.take(fl)[:, None]
     out = []
     for T in (Y if isinstance(Y, tuple) else (Y,)):
-        y0, y1 = T[r, j], T[r, j1]
+        if T.shape != X.shape:   # a wider table: its own flat indices
+            T = T[:, :W]
+        Tf = np.ascontiguousarray(T).reshape(-1)
+        y0, y1 = Tf.take(fj), Tf.take(fj1)
         with np.errstate(divide="ignore", invalid="ignore"):
             slope = (y1 - y0) / (x1 - x0)
             o = slope * (xq - x0) + y0
-        o = np.where(below, T[:, :1], o)
-        o = np.where(above, T[np.arange(S), n - 1][:, None], o)
+        o = np.where(below, Tf.take(first)[:, None], o)
+        o = np.where(above, Tf.take(fl)[:, None], o)
         out.append(np.where(np.isfinite(o), o, y0))
     return tuple(out) if isinstance(Y, tuple) else out[0]
 
