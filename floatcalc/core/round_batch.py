@@ -466,7 +466,7 @@ def _pad_curves(a, t, th, n, depth_max=None, dep=_depth):
         w = np.flatnonzero(has0)
         p = _linspace(np.zeros(w.size), psi_side[w], n)
         psi0[w] = p
-        D0[w] = dep(np.broadcast_to(a[w, None], p.shape), p)
+        D0[w] = dep(a[w, None], p)
     # stage 1: on the side, ψ = ψ_side
     finite = np.isfinite(t)
     D_top = t + d_side
@@ -491,7 +491,7 @@ def _pad_curves(a, t, th, n, depth_max=None, dep=_depth):
             start[v] = _psi_at_depth(a[w][v], -t[w][v], psi_side[w][v], th[w][v], dep)
         p = _linspace(start, th[w], n)
         psi2[w] = p
-        D2[w] = t[w, None] + dep(np.broadcast_to(a[w, None], p.shape), p)
+        D2[w] = t[w, None] + dep(a[w, None], p)
     psi = np.concatenate([psi0, psi1, psi2], axis=1)
     D = np.concatenate([D0, D1, D2], axis=1)
     stage = np.concatenate([np.zeros((S, n)), np.ones((S, n)), np.full((S, n), 2.0)], axis=1)
