@@ -106,6 +106,8 @@ def _compact(mask, *arrays):
     """Move the entries where ``mask`` holds to the front of each row (order kept); pad each
     row with its last kept entry. Returns (count per row, *compacted arrays)."""
     S, W = mask.shape
+    if mask.all():   # nothing moves
+        return (np.full(S, W, dtype=np.intp), *(np.array(np.broadcast_to(a, (S, W))) for a in arrays))
     n, flat = _compact_index(mask)
     return (n, *(np.take(np.broadcast_to(a, (S, W)).reshape(-1), flat).reshape(S, W) for a in arrays))
 
