@@ -76,7 +76,8 @@ ROUND_KINDS = ("ball", "pad", "pin", "ring")
 #: Kinds left to the scalar model, and why.
 SCALAR_KINDS: dict[str, str] = {}
 #: Samples per block (bounds the memory of the coupling arrays). Every sample is solved on its
-#: own, so the block changes no number; its size sets how much of the work stays in cache: a
+#: own, so the block changes no number beyond round-off (the batched linear algebra may sum in
+#: another order: 5e-16 seen between blocks of 7 and 250); its size sets how much stays in cache: a
 #: (250, 241) table of doubles is 0.48 MB, about one core's L2 on the 2-core test machine, and
 #: the mixed rig of tests/benchmarks/bench_device_mixed.py ran 1.3x faster in blocks of 250 than
 #: of 500 there (interleaved, best of 10; 200 about the same as 250).
