@@ -133,6 +133,20 @@ def _interp_rows(xq, X, Y, n):
     at xq (same rows); queries are clamped to the row's range, as numpy.interp does. ``Y`` may
     be a tuple of tables on the same X (one search serves them all; a tuple comes back)."""
     S, W = X.shape
+    tables = Y if isinstance(Y, tuple) else (Y,)
+    if xq.shape[1] > 1 and all(T.shape == X.shape for T in tables) and np.isfinite(xq).all() \
+            and np.isfinite(X).all() and all(np.isfinite(T).all() for T in tables) \
+            and np.all((X[:, 1:] > X[:, :-1]) | (np.arange(1, W)[None, :] >= n[:, None])):
+        # finite rows, strictly increasing: numpy.interp itself, row by row (its search, and
+        # its arithmetic: slope (y1 - y0) / (x1 - x0) times (x - x0) plus y0, the end values
+        # outside and at the ends: the same numbers as the general path below, which repeated
+        # nodes or non-finite values take)
+        out = tuple(np.empty(xq.shape) for _ in tables)
+        for i in range(S):
+            k = n[i]
+            for o, T in zip(out, tables):
+                o[i] = np.interp(xq[i], X[i, :k], T[i, :k])
+        return out if isinstance(Y, tuple) else out[0]
     last = (n - 1)[:, None]
     if xq.shape[1] == 1:
         # one query a row: the count of nodes <= xq is np.searchsorted(side="right"), exactly
