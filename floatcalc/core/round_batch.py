@@ -134,7 +134,7 @@ def _interp_rows(xq, X, Y, n):
     be a tuple of tables on the same X (one search serves them all; a tuple comes back)."""
     S, W = X.shape
     tables = Y if isinstance(Y, tuple) else (Y,)
-    if xq.shape[1] > 1 and all(T.shape == X.shape for T in tables) and np.isfinite(xq).all() \
+    if xq.shape[1] > 1 and S and n.min() >= 1 and all(T.shape == X.shape for T in tables) and np.isfinite(xq).all() \
             and np.isfinite(X).all() and all(np.isfinite(T).all() for T in tables) \
             and np.all((X[:, 1:] > X[:, :-1]) | (np.arange(1, W)[None, :] >= n[:, None])):
         # finite rows, strictly increasing: numpy.interp itself, row by row (its search, and
