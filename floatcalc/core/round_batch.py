@@ -319,7 +319,8 @@ def device_table(D, F, Fst, n, d_lim, rc, points: int = TABLE_POINTS, min_contac
     n3 = np.where(cut, 1 + n2 - (z - 1), n2)
     W3 = D3.shape[1]
     c3 = np.arange(W3)[None, :]
-    expect = np.where(cut[:, None], (c3 == 0) | ((c3 >= z[:, None]) & (c3 <= n2[:, None])), (c3 >= 1) & (c3 <= n2[:, None]))
+    upto = c3 <= n2[:, None]
+    expect = np.where(cut[:, None], (c3 == 0) | ((c3 >= z[:, None]) & upto), (c3 >= 1) & upto)
     if np.array_equal(m3, expect):
         src = np.where(cut[:, None], np.where(c3 == 0, 0, c3 - 1 + z[:, None]), c3 + 1)
         src = np.minimum(src, n2[:, None])                   # padding: the last kept entry
