@@ -57,6 +57,47 @@ def _rand(seed, n, lo, hi):
     return np.exp(rng.uniform(np.log(lo), np.log(hi), n)), rng
 
 
+def test_row_interpolation_equals_numpy_interp_row_by_row():
+    """_interp_rows against numpy.interp on each row (the reference: numpy itself), on both of
+    its paths: finite rows (numpy.interp row by row) and rows with non-finite padding past
+    their length (the vectorised formula). Queries hit nodes exactly, fall between them and
+    outside the row; one row has a single node."""
+    rng = np.random.default_rng(11)
+    S, W, Q = 40, 30, 25
+    X = np.cumsum(rng.uniform(1e-3, 1.0, (S, W)), axis=1) - 5.0
+    n = rng.integers(2, W + 1, S)
+    n[0] = 1
+    T = (rng.normal(size=(S, W)) * 1e3, rng.normal(size=(S, W)))
+    xq = rng.uniform(-6.0, X[:, -1:] + 1.0, (S, Q))
+    for i in range(S):
+        xq[i, :4] = X[i, rng.integers(0, n[i], 4)]
+    xq = np.sort(xq, axis=1)
+    padded = X.copy()
+    padded[np.arange(W)[None, :] >= n[:, None]] = np.nan
+    for rows in (X, padded):
+        for q in (xq, xq[:, 5:6]):   # many queries a row, and one
+            got = B._interp_rows(q, rows, T, n)
+            for o, Ti in zip(got, T):
+                ref = np.array([np.interp(q[i], X[i, :n[i]], Ti[i, :n[i]]) for i in range(S)])
+                assert np.array_equal(o, ref)
+
+
+def test_compact_keeps_each_rows_entries_in_order_then_its_last():
+    """_compact against boolean selection row by row: the kept entries in their order, then
+    copies of the last kept entry (of the first entry when a row keeps none)."""
+    rng = np.random.default_rng(12)
+    for S, W, p in ((1, 1, 0.5), (7, 13, 0.0), (30, 50, 0.3), (30, 50, 0.9), (5, 40, 1.0)):
+        mask = rng.random((S, W)) < p
+        a, b = rng.normal(size=(S, W)), rng.integers(0, 9, (S, W))
+        n, ca, cb = B._compact(mask, a, b)
+        for i in range(S):
+            k = int(mask[i].sum())
+            assert n[i] == k
+            for src, out in ((a, ca), (b, cb)):
+                kept = src[i][mask[i]] if k else src[i][:1]
+                assert np.array_equal(out[i], np.concatenate([kept, np.repeat(kept[-1], W - kept.size)]))
+
+
 def test_ball_batch_equals_scalar_path_on_random_designs():
     R, rng = _rand(11, 40, 1e-3, 30.0)
     th = rng.uniform(0.0, math.pi, R.size)

@@ -82,7 +82,15 @@ def evaluate(rc, psi):
     """Contact-line height z_c [l_c] for arrays of r_c [l_c] and ψ [rad] (table + fallback)."""
     from scipy.special import k0e, k1e
 
-    rc, psi = np.broadcast_arrays(np.asarray(rc, dtype=float), np.asarray(psi, dtype=float))
+    rc, psi = np.asarray(rc, dtype=float), np.asarray(psi, dtype=float)
+    if np.all((rc >= R_MIN) & (rc <= R_MAX)) and np.all(np.abs(psi) <= PSI_TABLE):
+        # every point in the table: the factors of r_c on r_c's own shape (a row of points of
+        # one pad or pin shares one r_c: its Bessel functions once), the same arithmetic
+        shape = np.broadcast_shapes(rc.shape, psi.shape)
+        a = np.abs(psi)
+        q = _spline().ev(np.broadcast_to(np.log(rc), shape), np.broadcast_to(a, shape))
+        return np.asarray(-np.sign(psi) * q * 2.0 * np.sin(0.5 * a) * k0e(rc) / k1e(rc)).reshape(shape)
+    rc, psi = np.broadcast_arrays(rc, psi)
     shape = rc.shape
     rc, psi = rc.ravel(), psi.ravel()
     a = np.abs(psi)

@@ -127,20 +127,29 @@ class BatchSupport:
         With ``extend`` the force slope past the limit is that of the table's last segment
         (for steering Newton's method back from beyond the limit; F itself stays clamped).
         """
+        at = self._segment(e)
+        F, dF = self._read(self._FH[0], at, extend)
+        H, dH = self._read(self._FH[1], at, False)
+        return F, H, dF, dH
+
+    def _segment(self, e):
+        """Where the depths e (S, m) fall in each point's table: (fraction t, flat index of
+        the segment's first entry, touching, inside the table)."""
         u = (e - self.d0) / self.step
         u = np.minimum(np.maximum(np.where(u == u, u, -1.0), -1.0), self._nf)
         k = np.minimum(np.maximum(u.astype(np.int64), 0), self.n - 2)
         t = np.minimum(np.maximum(u - k, 0.0), 1.0)
-        flat = self._base + k
-        T0 = self._FH[:, flat]
-        T1 = self._FH[:, flat + 1]
         on = u >= 0.0
-        F, H = (T0 + t * (T1 - T0)) * on
-        inside = on & (u < self._nf - 1.0)
-        dF, dH = (T1 - T0) / self.step * inside
-        if extend:
-            dF = (T1[0] - T0[0]) / self.step * on
-        return F, H, dF, dH
+        return t, self._base + k, on, on & (u < self._nf - 1.0)
+
+    def _read(self, T, at, extend):
+        """One table (force or contact, flat) and its slope at the segments ``at`` of
+        :meth:`_segment`: the arithmetic of :meth:`lookup` (the coupling sweeps need only the
+        contact depth, so they read only that table)."""
+        t, flat, on, inside = at
+        T0 = T.take(flat)
+        T1 = T.take(flat + 1)
+        return (T0 + t * (T1 - T0)) * on, (T1 - T0) / self.step * (on if extend else inside)
 
     def _spread(self, h):
         """C · (mean of h over each element's points), for h of shape (S, m) or (S, m, k)."""
@@ -156,19 +165,19 @@ class BatchSupport:
         if derivatives:
             dd = np.stack([np.ones_like(self.x), self.x, self.y], axis=-1)
         if not self._coupled:
-            F, _, dF, _ = self.lookup(d, extend=derivatives)
+            F, dF = self._read(self._FH[0], self._segment(d), derivatives)
             if derivatives:
                 return d, d, F, dd, _floored(dF)[..., None] * dd
             return d, d, F
         s = np.zeros_like(d)
         ds = np.zeros(d.shape + (3,)) if derivatives else None
         for _ in range(self.coupling_iters):
-            _, h, _, dh = self.lookup(d - s)
+            h, dh = self._read(self._FH[1], self._segment(d - s), False)
             if derivatives:
                 ds = self._spread(dh[..., None] * (dd - ds))
             s = self._spread(h)
         e = d - s
-        F, _, dF, _ = self.lookup(e, extend=derivatives)
+        F, dF = self._read(self._FH[0], self._segment(e), derivatives)
         if derivatives:
             de = dd - ds
             return d, e, F, de, _floored(dF)[..., None] * de

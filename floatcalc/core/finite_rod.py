@@ -112,8 +112,16 @@ def end_force(phi, R, f_st):
     >>> float(end_force(np.pi / 2, 0.05, -2.0)) >= -2 * 0.05
     True
     """
-    w = np.asarray(R) * np.sin(phi)
-    return np.clip(end_length(w) * f_st, -2.0 * w, 0.0)
+    w, f_st = np.broadcast_arrays(np.asarray(R) * np.sin(phi), np.asarray(f_st, dtype=float))
+    out = np.zeros(w.shape)
+    # where f_st >= 0 the clipped term is 0 (ℓ_e ≥ 0): the Bessel functions only where it is not
+    need = ~(f_st >= 0.0)
+    if need.all():
+        return np.clip(end_length(w) * f_st, -2.0 * w, 0.0)
+    if need.any():
+        wn = w[need]
+        out[need] = np.clip(end_length(wn) * f_st[need], -2.0 * wn, 0.0)
+    return out
 
 
 def limit(R: float, theta: float, L: float, n: int = 4001):

@@ -87,16 +87,29 @@ def _depth_fn(edges: str):
 # Helpers on ragged rows stored as padded 2-D arrays
 
 
+def _compact_index(mask):
+    """Flat source indices of :func:`_compact`: (count per row, (S*W,) indices into the
+    row-major (S, W) arrays): kept entries in order, then the row's last kept entry (its first
+    entry when it keeps none)."""
+    S, W = mask.shape
+    cs = np.cumsum(mask, axis=1, dtype=np.int32)
+    n = cs[:, -1].astype(np.intp) if W else np.zeros(S, dtype=np.intp)
+    f = np.flatnonzero(mask)
+    rowstart = np.arange(S) * W
+    lastf = np.where(n > 0, f[np.maximum(np.cumsum(n) - 1, 0)] if f.size else 0, rowstart)
+    src = np.repeat(lastf, W)
+    src[np.repeat(rowstart, n) + (cs.ravel()[f] - 1)] = f
+    return n, src
+
+
 def _compact(mask, *arrays):
     """Move the entries where ``mask`` holds to the front of each row (order kept); pad each
     row with its last kept entry. Returns (count per row, *compacted arrays)."""
     S, W = mask.shape
-    order = np.argsort(~mask, axis=1, kind="stable")
-    n = mask.sum(axis=1)
-    col = np.arange(W)
-    src = np.where(col[None, :] < n[:, None], order, order[np.arange(S), np.maximum(n - 1, 0)][:, None])
-    r = np.arange(S)[:, None]
-    return (n, *(a[r, src] for a in arrays))
+    if mask.all():   # nothing moves
+        return (np.full(S, W, dtype=np.intp), *(np.array(np.broadcast_to(a, (S, W))) for a in arrays))
+    n, flat = _compact_index(mask)
+    return (n, *(np.take(np.broadcast_to(a, (S, W)).reshape(-1), flat).reshape(S, W) for a in arrays))
 
 
 def _rising(depth, n):
@@ -120,7 +133,20 @@ def _interp_rows(xq, X, Y, n):
     at xq (same rows); queries are clamped to the row's range, as numpy.interp does. ``Y`` may
     be a tuple of tables on the same X (one search serves them all; a tuple comes back)."""
     S, W = X.shape
-    r = np.arange(S)[:, None]
+    tables = Y if isinstance(Y, tuple) else (Y,)
+    if xq.shape[1] > 1 and S and n.min() >= 1 and all(T.shape == X.shape for T in tables) and np.isfinite(xq).all() \
+            and np.isfinite(X).all() and all(np.isfinite(T).all() for T in tables) \
+            and np.all((X[:, 1:] > X[:, :-1]) | (np.arange(1, W)[None, :] >= n[:, None])):
+        # finite rows, strictly increasing: numpy.interp itself, row by row (its search, and
+        # its arithmetic: slope (y1 - y0) / (x1 - x0) times (x - x0) plus y0, the end values
+        # outside and at the ends: the same numbers as the general path below, which repeated
+        # nodes or non-finite values take)
+        out = tuple(np.empty(xq.shape) for _ in tables)
+        for i in range(S):
+            k = n[i]
+            for o, T in zip(out, tables):
+                o[i] = np.interp(xq[i], X[i, :k], T[i, :k])
+        return out if isinstance(Y, tuple) else out[0]
     last = (n - 1)[:, None]
     if xq.shape[1] == 1:
         # one query a row: the count of nodes <= xq is np.searchsorted(side="right"), exactly
@@ -129,22 +155,28 @@ def _interp_rows(xq, X, Y, n):
         lo = np.where(np.isnan(xq), last, lo)
     else:
         lo = np.empty(xq.shape, dtype=np.intp)
-        for i in range(S):  # last node <= xq (np.searchsorted per row: exact, and cheap)
-            lo[i] = np.searchsorted(X[i, :n[i]], xq[i], side="right") - 1
+        for i in range(S):  # last node <= xq (np.searchsorted per row: exact, and cheaper than
+            lo[i] = np.searchsorted(X[i, :n[i]], xq[i], side="right") - 1   # a lockstep search)
     j = np.clip(lo, 0, np.maximum(last - 1, 0))
     j1 = np.minimum(j + 1, last)
-    x0, x1 = X[r, j], X[r, j1]
-    below = xq <= X[:, :1]
-    xl = X[np.arange(S), n - 1][:, None]
-    above = xq >= xl
+    base = (np.arange(S) * W)[:, None]
+    fj, fj1 = base + j, base + j1          # flat indices (as T[r, j], T[r, j1])
+    first, fl = base[:, 0], base[:, 0] + n - 1
+    Xf = np.ascontiguousarray(X).reshape(-1)
+    x0, x1 = Xf.take(fj), Xf.take(fj1)
+    below = xq <= Xf.take(first)[:, None]
+    above = xq >= Xf.take(fl)[:, None]
     out = []
     for T in (Y if isinstance(Y, tuple) else (Y,)):
-        y0, y1 = T[r, j], T[r, j1]
+        if T.shape != X.shape:   # a wider table: its own flat indices
+            T = T[:, :W]
+        Tf = np.ascontiguousarray(T).reshape(-1)
+        y0, y1 = Tf.take(fj), Tf.take(fj1)
         with np.errstate(divide="ignore", invalid="ignore"):
             slope = (y1 - y0) / (x1 - x0)
             o = slope * (xq - x0) + y0
-        o = np.where(below, T[:, :1], o)
-        o = np.where(above, T[np.arange(S), n - 1][:, None], o)
+        o = np.where(below, Tf.take(first)[:, None], o)
+        o = np.where(above, Tf.take(fl)[:, None], o)
         out.append(np.where(np.isfinite(o), o, y0))
     return tuple(out) if isinstance(Y, tuple) else out[0]
 
@@ -255,11 +287,21 @@ def device_table(D, F, Fst, n, d_lim, rc, points: int = TABLE_POINTS, min_contac
     valid = col < n[:, None]
     f_lim, s_lim = _interp_rows(d_lim, D, (F, Fst), n)
     keep = valid & (D < d_lim)
-    D2 = np.concatenate([D, np.broadcast_to(d_lim, (S, 1))], axis=1)
-    F2 = np.concatenate([F, f_lim], axis=1)
-    S2 = np.concatenate([Fst, s_lim], axis=1)
     m2 = np.concatenate([keep, np.ones((S, 1), dtype=bool)], axis=1)
-    n2, D2, F2, S2 = _compact(m2, D2, F2, S2)
+    p = keep.sum(axis=1)
+    if np.array_equal(keep, col < p[:, None]):
+        # D increasing: the kept depths are a prefix of each row, then the limit point (what
+        # _compact of m2 gives, without its sort and gathers)
+        n2 = p + 1
+        short = col < p[:, None]
+        D2 = np.concatenate([np.where(short, D, d_lim), d_lim], axis=1)
+        F2 = np.concatenate([np.where(short, F, f_lim), f_lim], axis=1)
+        S2 = np.concatenate([np.where(short, Fst, s_lim), s_lim], axis=1)
+    else:
+        D2 = np.concatenate([D, np.broadcast_to(d_lim, (S, 1))], axis=1)
+        F2 = np.concatenate([F, f_lim], axis=1)
+        S2 = np.concatenate([Fst, s_lim], axis=1)
+        n2, D2, F2, S2 = _compact(m2, D2, F2, S2)
     # from first contact
     first = D2[:, 0]
     lastd = D2[np.arange(S), n2 - 1]
@@ -271,7 +313,21 @@ def device_table(D, F, Fst, n, d_lim, rc, points: int = TABLE_POINTS, min_contac
     D3 = np.concatenate([zero, D2], axis=1)
     F3 = np.concatenate([f0, F2], axis=1)
     S3 = np.concatenate([s0, S2], axis=1)
-    n3, D3, F3, S3 = _compact(m3, D3, F3, S3)
+    # rows that cross the surface keep the prepended 0 and a suffix of their depths (> 0),
+    # the others their depths: with D increasing one gather per table does what _compact does
+    z = np.where(cut, n2 - m3[:, 1:].sum(axis=1) + 1, 1)    # first kept column of D3 after column 0
+    n3 = np.where(cut, 1 + n2 - (z - 1), n2)
+    W3 = D3.shape[1]
+    c3 = np.arange(W3)[None, :]
+    upto = c3 <= n2[:, None]
+    expect = np.where(cut[:, None], (c3 == 0) | ((c3 >= z[:, None]) & upto), (c3 >= 1) & upto)
+    if np.array_equal(m3, expect):
+        src = np.where(cut[:, None], np.where(c3 == 0, 0, c3 - 1 + z[:, None]), c3 + 1)
+        src = np.minimum(src, n2[:, None])                   # padding: the last kept entry
+        flat = (src + (np.arange(S) * W3)[:, None]).ravel()
+        D3, F3, S3 = (np.take(a.reshape(-1), flat).reshape(S, W3) for a in (D3, F3, S3))
+    else:
+        n3, D3, F3, S3 = _compact(m3, D3, F3, S3)
     d0, d1 = D3[:, :1], D3[np.arange(S), n3 - 1][:, None]
     grid = _linspace(d0[:, 0], d1[:, 0], points)  # np.linspace per row, as the adapter
     Fg, Sg = _interp_rows(grid, D3, (F3, S3), n3)
@@ -344,9 +400,14 @@ def ball_laws(radius, contact_angle, *, n: int = 241, points: int = TABLE_POINTS
     ok = inner & (R[:, None] * np.sin(phi) >= R_MIN)
     Rb, tb = np.broadcast_to(R[:, None], (S, n)), np.broadcast_to(th[:, None], (S, n))
     rc, psi, d, D, fst, fp = (np.zeros((S, n)) for _ in range(6))
-    out = _ball_parts(phi[ok], Rb[ok], tb[ok], dep)
-    for arr, val in zip((rc, psi, d, D, fst, fp), out):
-        arr[ok] = val
+    if ok[:, 1:-1].all():   # every inner point (the usual case): on the slice, no gathers
+        out = _ball_parts(phi[:, 1:-1], R[:, None], th[:, None], dep)
+        for arr, val in zip((rc, psi, d, D, fst, fp), out):
+            arr[:, 1:-1] = val
+    else:
+        out = _ball_parts(phi[ok], Rb[ok], tb[ok], dep)
+        for arr, val in zip((rc, psi, d, D, fst, fp), out):
+            arr[ok] = val
     # exact ends: φ = 0 (touching) and φ = π (fully under)
     v_all = 4.0 / 3.0 * PI * R**3
     psi[:, 0], psi[:, -1] = th - PI, th
@@ -355,20 +416,26 @@ def ball_laws(radius, contact_angle, *, n: int = 241, points: int = TABLE_POINTS
     keep = ok.copy()
     keep[:, 0] = keep[:, -1] = True
     F = fst + fp
-    cnt, phi_c, rc_c, psi_c, d_c, D_c, st_c, p_c, F_c = _compact(keep, phi, rc, psi, d, D, fst, fp, F)
-    i0, i1 = _rising(D_c, cnt)
-    # the branch: entries i0 .. i1-1 of each compacted row
-    W = D_c.shape[1]
+    # the kept points compacted, then the rising branch (entries i0 .. i1-1 of each compacted
+    # row) compacted again: one composed gather, and of rc, ψ, d and the pressure part only the
+    # entry at the maximum is needed
+    W = n
+    cnt, src = _compact_index(keep)
+    flat = lambda a: np.broadcast_to(a, (S, W)).reshape(-1)  # noqa: E731
+    i0, i1 = _rising(flat(D).take(src).reshape(S, W), cnt)
     col = np.arange(W)[None, :]
     onb = (col >= i0[:, None]) & (col < i1[:, None])
-    nb, phi_b, rc_b, psi_b, d_b, D_b, st_b, p_b, F_b = _compact(onb, phi_c, rc_c, psi_c, d_c, D_c, st_c, p_c, F_c)
+    nb, src2 = _compact_index(onb)
+    src = src.take(src2)
+    phi_b, D_b, st_b, F_b = (flat(a).take(src).reshape(S, W) for a in (phi, D, fst, F))
     Fm = np.where(col < nb[:, None], F_b, -np.inf)
     k = np.argmax(Fm, axis=1)
     rows = np.arange(S)
     last = nb - 1
+    at_k = src.reshape(S, W)[rows, k]
     best = {key: arr[rows, k].copy() for key, arr in
-            (("phi", phi_b), ("rc", rc_b), ("psi", psi_b), ("d", d_b), ("depth", D_b),
-             ("surface_tension", st_b), ("pressure", p_b), ("force", F_b))}
+            (("phi", phi_b), ("depth", D_b), ("surface_tension", st_b), ("force", F_b))}
+    best.update({key: flat(arr).take(at_k) for key, arr in (("rc", rc), ("psi", psi), ("d", d), ("pressure", fp))})
     refine = ((k > 0) & (k < last)) | ((k > 0) & (k == last) & (phi_b[rows, k] < PI - 1e-9))
     w = np.flatnonzero(refine)
     if w.size:
@@ -434,7 +501,7 @@ def _pad_curves(a, t, th, n, depth_max=None, dep=_depth):
         w = np.flatnonzero(has0)
         p = _linspace(np.zeros(w.size), psi_side[w], n)
         psi0[w] = p
-        D0[w] = dep(np.broadcast_to(a[w, None], p.shape), p)
+        D0[w] = dep(a[w, None], p)
     # stage 1: on the side, ψ = ψ_side
     finite = np.isfinite(t)
     D_top = t + d_side
@@ -459,7 +526,7 @@ def _pad_curves(a, t, th, n, depth_max=None, dep=_depth):
             start[v] = _psi_at_depth(a[w][v], -t[w][v], psi_side[w][v], th[w][v], dep)
         p = _linspace(start, th[w], n)
         psi2[w] = p
-        D2[w] = t[w, None] + dep(np.broadcast_to(a[w, None], p.shape), p)
+        D2[w] = t[w, None] + dep(a[w, None], p)
     psi = np.concatenate([psi0, psi1, psi2], axis=1)
     D = np.concatenate([D0, D1, D2], axis=1)
     stage = np.concatenate([np.zeros((S, n)), np.ones((S, n)), np.full((S, n), 2.0)], axis=1)
