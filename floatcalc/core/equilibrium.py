@@ -323,6 +323,7 @@ def newton_crossing(state, g0: float, s0, *, xtol: float, hi: float, probe, cap=
     """
     a, ga, b = 0.0, g0, None
     t, g, s = 0.0, g0, s0
+    b_bare = False   # the loaded end is a state without balance (costly to find again)
     for _ in range(max_iter):
         tn = t - g / s if (s is not None and s > 0) else None
         if b is None:
@@ -331,9 +332,13 @@ def newton_crossing(state, g0: float, s0, *, xtol: float, hi: float, probe, cap=
             tn = min(tn, hi) if cap is None else min(cap(a, tn), hi)
         elif tn is None or not (a < tn < b):
             tn = 0.5 * (a + b)
+        elif b_bare and t == a:
+            # from the unloaded side towards an end without balance: at most halfway (a convex
+            # margin's Newton step overshoots, and past the crossing there may be no balance)
+            tn = min(tn, 0.5 * (a + b))
         gn, sn = state(tn)
         if gn >= 0:
-            b = tn
+            b, b_bare = tn, sn is None
         else:
             a, ga = tn, gn
         if (b is not None and b - a <= xtol) or (sn is not None and sn > 0 and abs(gn) <= sn * xtol):
