@@ -95,3 +95,26 @@ def test_no_balance_under_a_far_off_load_is_found_in_few_evaluations(evaluations
     with pytest.raises(ConvergenceError):
         eq.solve(sup, W, -4.0, 0.0)
     assert evaluations[0] < 40, evaluations[0]
+
+
+@pytest.mark.parametrize("order", ["by element", "shuffled"])
+def test_factored_coupling_equals_the_full_product(order):
+    """Support.couple (C · per-element means, for points listed element by element) against the
+    plain product C · A · v with the averaging matrix A written out (linear algebra), for a
+    vector and for columns; shuffled points use the full product itself."""
+    rng = np.random.default_rng(3)
+    owner = np.repeat(np.arange(6), [1, 3, 5, 2, 4, 1])
+    if order == "shuffled":
+        owner = rng.permutation(owner)
+    m = owner.size
+    D = np.tile(np.linspace(0.0, 1.0, 9), (m, 1))
+    C = rng.uniform(0.0, 0.1, (m, 6))
+    sup = eq.Support(x=rng.normal(size=m), y=rng.normal(size=m), offset=np.zeros(m), depth=D, force=2 * D,
+                     contact=D, owner=owner, coupling=C)
+    assert (sup._runs is not None) == (order == "by element")
+    A = np.zeros((6, m))
+    for j, e in enumerate(owner):
+        A[e, j] = 1.0 / np.count_nonzero(owner == e)
+    v, V = rng.normal(size=m), rng.normal(size=(m, 3))
+    np.testing.assert_allclose(sup.couple(v), C @ (A @ v), rtol=1e-13, atol=1e-15)
+    np.testing.assert_allclose(sup.couple(V), C @ (A @ V), rtol=1e-13, atol=1e-15)
