@@ -112,6 +112,7 @@ FARTHER = 16.0  # ... farther than FARTHER panel lengths: 2-point rule
 VERY_FAR = 12.0  # [l_c] pairs farther than this plus the panel length: midpoint rule
 TWO_POINT_LC = 8.0  # [l_c] ... farther than this plus the panel length: 2-point rule at most
 _ASYMPTOTIC_TERMS = 8
+PAIRS_IN_HALVES = 50_000  # point–panel pairs from which the rows are split over two threads
 
 
 def k0_k1_large(r):
@@ -214,8 +215,12 @@ def panel_matrices(px, py, pnx, pny, ax, ay, bx, by, block: int = 256, skip=None
         gy = ay[:, None] + (by - ay)[:, None] * X
         rules.append((gx, gy, L[:, None] * Wt / TWO_PI))
     wm = L / TWO_PI
-    for i0 in range(0, m, block):
-        sl = slice(i0, min(m, i0 + block))
+
+    def rows(r0, r1):
+        for i0 in range(r0, r1, block):
+            _rows(slice(i0, min(r1, i0 + block)), i0)
+
+    def _rows(sl, i0):
         dxm = px[sl, None] - mx
         dym = py[sl, None] - my
         dist = np.hypot(dxm, dym)
@@ -257,6 +262,13 @@ def panel_matrices(px, py, pnx, pny, ax, ay, bx, by, block: int = 256, skip=None
             sn, kn = _near(px[gi], py[gi], pnx[gi], pny[gi], ax[jj], ay[jj], L[jj], ex[jj], ey[jj])
             Sb[ii, jj] = sn
             Kb[ii, jj] = kn
+    # two halves of the rows side by side on a large layout (:func:`floatcalc.core._threads.in_halves`)
+    from ._threads import in_halves
+
+    if m * n >= PAIRS_IN_HALVES:
+        in_halves(rows, m, at_least=2)
+    else:
+        rows(0, m)
     return S, K
 
 

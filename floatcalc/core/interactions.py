@@ -67,16 +67,23 @@ and kept between solves: chord steps with it while they contract the residual at
 a step; past that, exact Newton steps, on systems of 1000 unknowns and more by GMRES (Saad &
 Schultz [4]_) on the exact Jacobian applied without forming it, the kept factors as the
 preconditioner, and on smaller systems by a fresh factorisation. The factors are renewed
-when the GMRES work on them has cost as much as a factorisation (rent or buy). Every residual
+when the GMRES work on them has cost as much as a factorisation (rent or buy). From 1000
+unknowns the full factorisation is not formed at all while it can be avoided: GMRES is
+preconditioned by the inverses of the Jacobian's diagonal blocks, one per rod (block Jacobi,
+rebuilt at every Newton step in about a millisecond; the rods couple only through K₀ between
+them, so 4–5 iterations reach 1e-4 on the 48-rod benchmark ring), and a layout where that
+does not converge falls back to the full LU. Every residual
 is evaluated in double precision, so the precision of the factors affects only the number of
 steps, not the solution. The derivatives of the inner map are central differences (step
 1e-4 while far from the solution, 1e-7 close to it: the exact map has an E ln|E| term at the
 isolated state E = 0, whose log-singular slope would mislead Newton there). dF/dD follows from
 the implicit-function theorem on the same Jacobian (GMRES to 1e-9 for one direction).
 :func:`limit` raises a body's depth (or all depths together) until dF/dD turns negative, the
-steps aimed just past the root predicted by a parabola through the last slopes, then finds
-the root (Illinois regula falsi); a branch that folds (no solution deeper, as in narrow gaps)
-or a rod section that floods (φ → π) ends the search there.
+steps lengthened while the rods' sections are far from their own 2D limit states and aimed
+just past the root predicted by a parabola through the last slopes, then finds the root
+(secant steps inside the bracket, Illinois regula falsi where they leave it, stopped once a
+step could gain less than 1e-10 of the force); a branch that folds (no solution deeper, as in
+narrow gaps) or a rod section that floods (φ → π) ends the search there.
 
 Findings and accuracy (tests/core/test_interactions.py, tests/benchmarks):
 
@@ -147,6 +154,7 @@ _KRYLOV_MAX = 25    # GMRES iterations before the Jacobian is factorised afresh
 _KRYLOV_RENT = 1.0 / 60.0  # a factorisation costs about n/60 GMRES iterations (measured, n = 1344)
 _KRYLOV_MIN = 1000  # unknowns from which exact Newton steps use GMRES rather than a fresh LU
 #                     (below, a factorisation costs a few GMRES-Newton steps: benchmark script)
+_BLOCKS_MIN = 1000  # unknowns from which GMRES is preconditioned by the diagonal blocks (_Blocks)
 
 
 def _factor(J):
@@ -159,10 +167,51 @@ def _factor(J):
 
 
 def _psolve(lu, v):
-    """Solve with the single-precision factors of :func:`_factor` (double in, double out)."""
+    """Solve with the single-precision factors of :func:`_factor` (double in, double out), or
+    apply a :class:`_Blocks` preconditioner."""
+    if isinstance(lu, _Blocks):
+        return lu.apply(v)
     from scipy.linalg import lu_solve
 
     return lu_solve(lu, np.asarray(v, dtype=np.float32), check_finite=False).astype(np.float64)
+
+
+class _Blocks:
+    """Block-Jacobi preconditioner of a large layout's Jacobian: the inverses of its diagonal
+    blocks, one per rod (its panels among themselves) and one 1 × 1 block per round body.
+
+    The outer field couples the rods only through K₀ between them, so the blocks carry most of
+    the Jacobian: GMRES preconditioned by them reaches 1e-4 in 4–5 iterations and 1e-9 in
+    8–11 on the 48-rod ring (gaps 1.6 l_c), against 3–7 for an older full LU; built afresh at
+    every Newton step in about a millisecond, where the full single-precision LU costs about
+    40 ms at n = 1344 (measured, tests/benchmarks/bench_interactions.py). A layout whose blocks
+    do not precondition well enough (GMRES not converged) falls back to the full LU."""
+
+    def __init__(self, layout: "Layout", aux):
+        idx, Mb = layout._block_parts()
+        n, nb = layout.n_panels, layout.round_idx.size
+        gx = np.empty(n + nb + 1)
+        hx = np.zeros(n + nb + 1)
+        gx[:n] = aux["gv_x"]
+        hx[:n] = aux["hv_x"]
+        if nb:
+            gx[n:n + nb] = 1.0 + aux["dB"] * np.diag(layout.Z)
+        gx[-1] = 1.0   # padding: identity
+        Jb = Mb * (-hx[idx])[:, None, :]
+        k = np.arange(idx.shape[1])
+        Jb[:, k, k] += gx[idx]
+        self.inv = np.linalg.inv(Jb)   # LinAlgError on a singular block: the caller factorises
+        self.idx = idx
+        self.valid = idx < n + nb
+        self.size = n + nb
+
+    def apply(self, v):
+        ext = np.zeros(self.size + 1)
+        ext[:self.size] = v
+        y = np.matmul(self.inv, ext[self.idx][:, :, None])[:, :, 0]
+        out = np.empty(self.size)
+        out[self.idx[self.valid]] = y[self.valid]
+        return out
 
 
 def _gmres(matvec, psolve, b, rtol, maxit):
@@ -703,6 +752,8 @@ class Layout:
     def _prepare(self):
         self._lu = None
         self._krylov_work = 0.0
+        self._blocks = None      # see _block_parts
+        self._blocks_ok = True   # False once the blocks failed to precondition this layout
         n = self.px.size
         self.n_panels = n
         if n:
@@ -711,7 +762,19 @@ class Layout:
             from scipy.linalg import lu_factor, lu_solve
 
             self._S_lu = lu_factor(self.S, check_finite=False)
-            self.M = lu_solve(self._S_lu, self.N.T, trans=1, check_finite=False).T
+            NT = self.N.T
+            if n >= 256:
+                # the triangular solves for halves of M's rows side by side (two cores); each
+                # half with its own copy of the pivots: SciPy 1.17's lu_solve is not safe on one
+                # pivot array shared between threads (heap corruption, measured)
+                from ._threads import in_halves
+
+                lu, piv = self._S_lu
+                self.M = np.vstack([h.T for h in in_halves(
+                    lambda a, b: lu_solve((lu, piv.copy()), NT[:, a:b], trans=1, check_finite=False), n,
+                    at_least=2)])
+            else:
+                self.M = lu_solve(self._S_lu, NT, trans=1, check_finite=False).T
             self.Q = lu_solve(self._S_lu, self.Pbr.T, trans=1, check_finite=False).T
         else:
             self._S_lu = None
@@ -741,6 +804,23 @@ class Layout:
             phi = np.linspace(1e-9, PI, 2001)
             D = rod2d.force_parts(phi, key[0], key[1])[2]
             self._guess[key] = (D, phi)
+
+    def _block_parts(self):
+        """Index array (blocks × largest block, padded with the index n + n_round) and the
+        blocks of M, for :class:`_Blocks` (formed once per layout)."""
+        if getattr(self, "_blocks", None) is None:
+            n, nb = self.n_panels, self.round_idx.size
+            groups = [np.flatnonzero(self.owner == i) for i in range(self.n_bodies)]
+            groups = [g for g in groups if g.size] + [np.array([n + j]) for j in range(nb)]
+            smax = max(g.size for g in groups)
+            idx = np.full((len(groups), smax), n + nb, dtype=np.intp)
+            Mb = np.zeros((len(groups), smax, smax))
+            for k, g in enumerate(groups):
+                idx[k, :g.size] = g
+                if g[0] < n:
+                    Mb[k, :g.size, :g.size] = self.M[np.ix_(g, g)]
+            self._blocks = (idx, Mb)
+        return self._blocks
 
     # -- panel maps -----------------------------------------------------------------------------
     def _contact(self, xr, Dloc):
@@ -981,11 +1061,22 @@ class Layout:
         fresh = False    # the factorised Jacobian is this point's own
         big_system = x.size >= _KRYLOV_MIN
         krylov = False   # Newton steps by GMRES on the exact Jacobian, the older one preconditioning
+        blocks = x.size >= _BLOCKS_MIN and self._blocks_ok   # GMRES preconditioned by the diagonal blocks
+        if blocks:
+            lu = None
         for it in range(1, max_iter + 1):
             if nr < tol:
                 converged = True
                 break
             fd = _FD if nr > 1e-5 else _FD_FINE
+            auxj = None
+            if blocks:
+                _, auxj = self._residual(x, depth, Dloc, fd=fd)
+                try:
+                    lu = _Blocks(self, auxj)
+                    krylov = True
+                except np.linalg.LinAlgError:
+                    blocks, lu = False, None
             if lu is None:
                 _, auxj = self._residual(x, depth, Dloc, fd=fd, dense=True)
                 try:
@@ -998,10 +1089,13 @@ class Layout:
                 self._krylov_work = 0.0
                 dx = -_psolve(lu, r)
             elif krylov:
-                _, auxj = self._residual(x, depth, Dloc, fd=fd)
+                if auxj is None:
+                    _, auxj = self._residual(x, depth, Dloc, fd=fd)
                 dx, ok_k = _gmres(lambda v, a_=auxj: self._jmul(a_, v, low=True),
                                   lambda v, f_=lu: _psolve(f_, v), -r, _KRYLOV_RTOL, _KRYLOV_MAX)
                 if not ok_k:
+                    if blocks:   # the blocks do not precondition this layout: full LU from now on
+                        blocks = self._blocks_ok = False
                     lu = None  # the old Jacobian no longer preconditions: factorise afresh
                     continue
                 self._krylov_work += _gmres.last + 2   # + the Jacobian's diagonal parts
@@ -1026,6 +1120,8 @@ class Layout:
             if not ok:
                 if fresh:
                     break
+                if blocks:   # no descent along the inexact step: a full LU for the rest of this solve
+                    blocks = False
                 if krylov or not big_system:
                     lu = None  # refresh the Jacobian at the current point and retry
                 krylov = big_system
@@ -1174,7 +1270,7 @@ class Layout:
 
 @_one_thread
 def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: float = 1e-6,
-          start=None) -> dict:
+          ftol: float = 1e-10, start=None) -> dict:
     """Depth and force of body ``body`` at its limit (largest force over its own depth).
 
     The other bodies are held at ``depth``. With ``body="all"`` every depth moves together
@@ -1183,8 +1279,12 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
     The depth is raised from a shallow start in steps (warm-started solves) until the force's
     slope dF/dD (implicit-function theorem, :attr:`State.dforce_ddepth`) turns negative, or
     until no solution exists beyond a fold of the branch or a rod floods (φ → π); the limit is
-    then the root of the slope (Illinois regula falsi, to ``tol`` in depth; the force is
-    stationary there), or the last solvable depth at a fold (bisection).
+    then the root of the slope (secant steps inside the bracket, Illinois regula falsi where
+    they leave it, to ``tol`` in depth or until the next step could gain less than ``ftol`` of
+    the force: it is stationary there), or the last solvable depth at a fold (bisection). The
+    force returned is the largest of the solved points (never an extrapolation). While the
+    rods' sections are far from their own 2D limit states the steps grow towards them
+    (:func:`_next_step`): 5–7 solves for the benchmark layouts (before: 6–11).
 
     Returns
     -------
@@ -1256,7 +1356,7 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
     rising = [(d, g)]
     hi_pt = None
     while hi_pt is None:
-        d_new = lo_pt[0] + _next_step(rising, step)
+        d_new = lo_pt[0] + _next_step(rising, step, _phi_ahead(layout, lo_pt[2], dirn))
         s_new, ok = run(d_new, lo_pt[2])
         if not ok:  # fold or flooding: bisect the end of the branch
             good, bad, sg = lo_pt[0], d_new, lo_pt[2]
@@ -1285,13 +1385,25 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
             rising.append((d_new, g_new))
         if lo_pt[0] > d0 + 20.0:
             raise _conv_error("limit: force still rising 20 l_c below the start depth")
-    # Illinois regula falsi on dF/dD over the bracket [lo, hi] (slope + to −)
+    # the root of dF/dD in the bracket [lo, hi] (slope + to −): the secant through the last two
+    # points where it falls inside the bracket, else Illinois regula falsi; stopped when the
+    # next step could gain less than ftol of the force (stationary there: the gain is below
+    # |g Δd|), or the bracket is shorter than tol
     (xa, ga, sa), (xb, gb, sb) = lo_pt, hi_pt
+    latest = pts[-1][0]
+    last = sorted([(xa, ga, obj(sa)), (xb, gb, obj(sb))], key=lambda p: p[0] == latest)   # latest last
     side = 0
     x_prev = None
     for _ in range(60):
         xm = xb - gb * (xb - xa) / (gb - ga)
+        (x1, g1, _), (x2, g2, f2) = last[-2], last[-1]
+        if g1 != g2:
+            xs = x2 - g2 * (x2 - x1) / (g2 - g1)
+            if min(xa, xb) < xs < max(xa, xb):
+                xm = xs
         if x_prev is not None and abs(xm - x_prev) < tol:
+            break
+        if abs(g2 * (xm - x2)) <= ftol * abs(f2):
             break
         x_prev = xm
         sm, okm = run(xm, sa if abs(xm - xa) < abs(xm - xb) else sb)
@@ -1302,6 +1414,7 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
                 break
         gm = slope(sm)
         pts.append((xm, obj(sm), sm))
+        last.append((xm, gm, pts[-1][1]))
         if abs(xb - xa) < tol or gm == 0.0:
             break
         if gm > 0:
@@ -1319,18 +1432,28 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
     return _lim(max(pts, key=lambda p: p[1]), False)
 
 
-def _next_step(rising, step):
+def _next_step(rising, step, ahead_phi=None):
     """Depth step towards the root of the slope from the last rising points (d, dF/dD > 0).
 
     The slope falls ever faster towards the end of a branch (it tends to −∞ at a fold, which
     can lie just past the maximum: 0.02 l_c past it for 48 rods in a ring), so a full step
     often overshoots into no solution. Once the slope falls, the next point aims just beyond
     its root extrapolated by the parabola through the last three points (the secant through
-    two): that point usually brackets the root closely. Never more than ``step``, never less
-    than 5 % of it.
+    two): that point usually brackets the root closely. Never less than 5 % of ``step``.
+
+    ``ahead_phi`` (:func:`_phi_ahead`, the distance at which the rod sections reach their own
+    2D limit states) lengthens the steps while the limit is far, to at most four steps and
+    80 % of that distance, and shortens the secant's estimate: the secant through points on
+    a concave slope overshoots, the sections' estimate does not while the sections are far
+    apart (the mean section reaches the 2D limit state within 0.01 rad on the benchmark ring
+    and skimmer), and comes out too far when neighbours are close (gaps under ~1 l_c), where
+    the secant and the cap of one step decide.
     """
+    cap = step
+    if ahead_phi is not None and ahead_phi > 0.0:
+        cap = min(4.0 * step, max(step, 0.8 * ahead_phi))
     if len(rising) < 2 or not rising[-2][1] > rising[-1][1] > 0:
-        return step
+        return cap
     (d1, g1), (d2, g2) = rising[-2], rising[-1]
     ahead = g2 * (d2 - d1) / (g1 - g2)   # secant
     if len(rising) >= 3 and rising[-3][1] > g1:
@@ -1345,7 +1468,35 @@ def _next_step(rising, step):
             roots = [r for r in roots if r > 0.0]
             if roots:
                 ahead = min(ahead, min(roots))
-    return min(step, max(0.05 * step, 1.05 * ahead + 0.01 * step))
+    if ahead_phi is not None and ahead_phi > 0.0:
+        ahead = min(ahead, ahead_phi)
+    return min(cap, max(0.05 * step, 1.05 * ahead + 0.01 * step))
+
+
+def _phi_ahead(layout: Layout, st: State, dirn) -> float | None:
+    """Depth offset along ``dirn`` at which the length-weighted mean contact position of the
+    moving rods' side panels reaches their isolated 2D limit positions φ* (Vella, Lee & Kim's
+    2D law, :func:`floatcalc.core.rod2d.limit`), extrapolated linearly with dφ/dt from the
+    state's depth sensitivity; None without rod sides or before that sensitivity exists."""
+    n = layout.n_panels
+    if not n or st._dirs is None or st._dirs[2] is None:
+        return None
+    if not np.allclose(st._dirs[1], dirn, rtol=0, atol=1e-12):
+        return None
+    m = layout.side & (np.asarray(dirn)[layout.owner] != 0.0)
+    if not np.any(m):
+        return None
+    star = getattr(layout, "_phi_star", None)
+    if star is None:
+        from . import rod2d
+
+        star = np.asarray(rod2d.limit(layout.P["R"], layout.P["theta"]), dtype=float)
+        layout._phi_star = star
+    w = layout.plen[m]
+    rate = float(w @ st._dirs[2][:n][m])
+    if not rate > 0.0:
+        return None
+    return float(w @ (star[m] - st.x[:n][m])) / rate
 
 
 def _lim(p, fold):

@@ -496,3 +496,144 @@ def test_blas_limited_to_one_thread_once_unless_kept(keep):
     assert before and after, "no BLAS library reported"
     # (SciPy's own BLAS is loaded by the solve, so ``after`` lists more libraries than ``before``)
     assert after == ([before[0]] * len(after) if keep else [1] * len(after))
+
+
+def _skimmer_bodies():
+    lc = math.sqrt(0.07275 / (998.2 * 9.80665)) * 1e3
+    R, L, th = 0.15 / lc, 20.0 / lc, math.radians(115)
+    return [ia.RodBody(19 / lc * math.cos(math.radians(15 + 30 * k)), 19 / lc * math.sin(math.radians(15 + 30 * k)),
+                       math.radians(15 + 30 * k), L, R, th) for k in range(12)]
+
+
+def test_block_preconditioner_reaches_the_same_limit(monkeypatch):
+    """GMRES preconditioned by the per-rod diagonal blocks (core.interactions._Blocks, used from
+    1000 unknowns) changes the work, not the answer: with its threshold lowered below the
+    skimmer's 336 unknowns the level limit equals the full-LU path's to 1e-9, each rod's force
+    to 1e-8; and where the blocks do not precondition (GMRES cut to one iteration, so it never
+    converges) the solve falls back to the full LU, says so on the layout, and still agrees."""
+    bodies = _skimmer_bodies()
+    ref = ia.limit(ia.Layout(bodies), np.zeros(12), "all")
+    monkeypatch.setattr(ia, "_BLOCKS_MIN", 50)
+    monkeypatch.setattr(ia, "_KRYLOV_MIN", 50)
+    lay = ia.Layout(bodies)
+    built = []
+    real = ia._Blocks.__init__
+
+    def counting(self, layout, aux):
+        built.append(1)
+        real(self, layout, aux)
+
+    monkeypatch.setattr(ia._Blocks, "__init__", counting)
+    got = ia.limit(lay, np.zeros(12), "all")
+    assert built and lay._blocks_ok
+    assert got["force"] == pytest.approx(ref["force"], rel=1e-9)
+    np.testing.assert_allclose(got["forces"], ref["forces"], rtol=1e-8)
+    # the blocks applied to J v give back v on each block's own part (they invert its diagonal blocks)
+    st = got["state"]
+    Dloc = lay._local_depth(st.depth, None)
+    _, aux = lay._residual(st.x, st.depth, Dloc, dense=True)
+    P = ia._Blocks(lay, aux)
+    idx = np.flatnonzero(lay.owner == 3)
+    v = np.zeros(lay.n_panels)
+    v[idx] = np.linspace(1.0, 2.0, idx.size)
+    w = aux["J"][np.ix_(idx, idx)] @ v[idx]
+    y = np.zeros(lay.n_panels)
+    y[idx] = w
+    np.testing.assert_allclose(P.apply(y)[idx], v[idx], rtol=1e-10)
+    # fallback
+    monkeypatch.setattr(ia, "_KRYLOV_MAX", 1)
+    lay2 = ia.Layout(bodies)
+    got2 = ia.limit(lay2, np.zeros(12), "all")
+    assert not lay2._blocks_ok
+    assert got2["force"] == pytest.approx(ref["force"], rel=1e-9)
+
+
+def test_limit_search_takes_few_solves_and_reports_a_solved_maximum():
+    """core.interactions.limit: the steps grow towards the sections' 2D limit states
+    (_phi_ahead) and the root of dF/dD is taken by secant steps with a force-gain stop, so the
+    skimmer's level limit takes at most 5 solves (6 before; the 48-rod ring 9 before, 5 now,
+    measured); the force is a solved
+    point's (never extrapolated), not above a 1e-12-tolerance search, and within 1e-10 of it."""
+    bodies = _skimmer_bodies()
+    lay = ia.Layout(bodies)
+    calls = []
+    real = lay.solve
+
+    def counting(*a, **k):
+        calls.append(1)
+        return real(*a, **k)
+
+    lay.solve = counting
+    got = ia.limit(lay, np.zeros(12), "all")
+    assert len(calls) <= 5
+    assert got["force"] == pytest.approx(float(np.sum(got["state"].force)), rel=1e-15)
+    tight = ia.limit(ia.Layout(bodies), np.zeros(12), "all", tol=1e-12, ftol=0.0)
+    assert got["force"] <= tight["force"] * (1 + 1e-12)
+    assert got["force"] == pytest.approx(tight["force"], rel=1e-10)
+
+
+def test_layout_matrices_the_same_in_one_thread_or_two(monkeypatch):
+    """core._threads.in_halves: the boundary-element rows and the solve for M split over two
+    threads give the same matrices bit for bit as one thread (FLOATCALC_THREADS=1), for a
+    layout large enough to be split (24 rods, 672 panels)."""
+    from floatcalc.core import _threads
+
+    bodies = [b for cx in (0.0, 24.0) for b in
+              [ia.RodBody(b.cx + cx, b.cy, b.heading, b.length, b.radius, b.theta) for b in _skimmer_bodies()]]
+    monkeypatch.setattr(_threads, "_cores", lambda: 2)
+    two = ia.Layout(bodies)
+    monkeypatch.setenv("FLOATCALC_THREADS", "1")
+    one = ia.Layout(bodies)
+    assert np.array_equal(two.S, one.S) and np.array_equal(two.N, one.N) and np.array_equal(two.M, one.M)
+
+
+def test_in_halves_runs_both_halves_and_reraises(monkeypatch):
+    """core._threads.in_halves: the halves cover [0, n) once each, the second in another thread
+    when two cores are allowed; an error in either half reaches the caller."""
+    import threading
+
+    from floatcalc.core import _threads
+
+    monkeypatch.setattr(_threads, "_cores", lambda: 2)
+    seen = []
+    out = _threads.in_halves(lambda a, b: seen.append((a, b, threading.get_ident())) or (b - a), 11, at_least=2)
+    assert out == [5, 6] and sorted(s[:2] for s in seen) == [(0, 5), (5, 11)]
+    assert len({s[2] for s in seen}) == 2
+    assert _threads.in_halves(lambda a, b: (a, b), 3, at_least=4) == [(0, 3)]
+    monkeypatch.setenv("FLOATCALC_THREADS", "1")
+    assert _threads.in_halves(lambda a, b: (a, b), 11, at_least=2) == [(0, 11)]
+    monkeypatch.delenv("FLOATCALC_THREADS")
+
+    def bad(a, b):
+        if a > 0:
+            raise ValueError("second half")
+        return 0
+
+    with pytest.raises(ValueError, match="second half"):
+        _threads.in_halves(bad, 10, at_least=2)
+
+
+def test_concurrent_lu_solves_with_own_pivots_agree():
+    """The pattern Layout._prepare uses on two threads (core._threads docstring): scipy.linalg
+    lu_solve from four threads at once on one factorisation, each call with its own copy of the
+    pivots, gives the single-threaded solution bit for bit (200 solves). Run in a subprocess, so
+    that a heap corruption (seen with one shared pivot array) fails this test, not the run."""
+    import subprocess
+    import sys
+
+    code = ("import numpy as np\n"
+            "from concurrent.futures import ThreadPoolExecutor\n"
+            "from scipy.linalg import lu_factor, lu_solve\n"
+            "rng = np.random.default_rng(1)\n"
+            "S = rng.random((400, 400)) + 400 * np.eye(400); N = rng.random((400, 300))\n"
+            "lu, piv = lu_factor(S)\n"
+            "ref = lu_solve((lu, piv.copy()), N, trans=1)\n"
+            "bad = 0\n"
+            "with ThreadPoolExecutor(4) as ex:\n"
+            "    for _ in range(50):\n"
+            "        outs = list(ex.map(lambda k: lu_solve((lu, piv.copy()), N, trans=1), range(4)))\n"
+            "        bad += sum(not np.array_equal(o, ref) for o in outs)\n"
+            "print(bad)\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
+    assert out.returncode == 0, out.stderr[-400:]
+    assert out.stdout.strip().splitlines()[-1] == "0"
