@@ -94,8 +94,10 @@ def _type(page, label: str, value: str) -> float:
 
 
 def _current(page) -> None:
-    """Results are current again: the verdict is shown and nothing is marked not current."""
+    """Results are current again: the verdict is shown and nothing is marked not current (the
+    mark of the last results may still be on screen while the rerun finishes: waited for)."""
     page.get_by_text("Verdict:").first.wait_for(timeout=60_000)
+    page.get_by_text("Not current").first.wait_for(state="detached", timeout=60_000)
     assert page.get_by_text("Not current").count() == 0
 
 
