@@ -488,6 +488,7 @@ class State:
     _lazy: tuple = field(repr=False, default=None)
     _derivs: tuple = field(repr=False, default=None)
     _dirs: tuple = field(repr=False, default=None)
+    _aux: dict = field(repr=False, default=None)
 
     @property
     def dforce_ddepth(self) -> np.ndarray:
@@ -957,7 +958,7 @@ class Layout:
         if derivs:
             nb = self.round_idx.size
             dB = np.array([law("B", d, 1) for law, d in zip(self.laws, out["Deff"])]) if nb else np.zeros(0)
-            out.update(hv_x=hv_x, gv_x=gv_x, hv_D=hv_D, gv_D=gv_D, dB=dB)
+            out.update(hv_x=hv_x, gv_x=gv_x, hv_D=hv_D, gv_D=gv_D, dB=dB, fd=fd)
             if dense:
                 J = np.empty((n + nb, n + nb))
                 J[:n, :n] = -self.M * hv_x[None, :]
@@ -1069,9 +1070,11 @@ class Layout:
                 converged = True
                 break
             fd = _FD if nr > 1e-5 else _FD_FINE
-            auxj = None
+            # the Jacobian's parts at x: those of the accepted trial point when it carried them
+            auxj = aux if aux.get("fd") == fd else None
             if blocks:
-                _, auxj = self._residual(x, depth, Dloc, fd=fd)
+                if auxj is None:
+                    _, auxj = self._residual(x, depth, Dloc, fd=fd)
                 try:
                     lu = _Blocks(self, auxj)
                     krylov = True
@@ -1109,7 +1112,11 @@ class Layout:
             ok = False
             for _ in range(12 if newton else 1):
                 xn = np.clip(x + lam * dx, lo, hi)
-                rn, auxn = self._residual(xn, depth, Dloc, derivs=False)
+                # a full GMRES-Newton step is nearly always taken, and the next step needs the
+                # Jacobian's parts there: evaluated with the residual (the central values are
+                # the same numbers), at the difference step the next residual will likely ask for
+                ahead = krylov and lam == 1.0
+                rn, auxn = self._residual(xn, depth, Dloc, derivs=ahead, fd=_FD_FINE if nr <= 1e-3 else _FD)
                 nrn = float(np.max(np.abs(rn)))
                 n2n = float(rn @ rn)
                 # Newton step: Armijo on ½|r|²; chord step (older Jacobian): a clear contraction
@@ -1164,6 +1171,8 @@ class Layout:
                    iterations=it, layout=self, virtual_h=aux["hv"], virtual_slope=aux["gv"], B=B,
                    depth=depth.copy(), effective_depth=aux.get("Deff", np.zeros(0)))
         st._lazy = (Dloc, lu)
+        if "hv_x" in aux:
+            st._aux = aux   # the Jacobian's parts at x, for _derivatives
         return st
 
     @_one_thread
@@ -1177,7 +1186,10 @@ class Layout:
         if V is None:
             V = np.eye(nbod)
         k = V.shape[1]
-        _, aux = self._residual(x, depth, Dloc, fd=_FD_FINE)
+        if st._aux is not None and st._aux.get("fd") == _FD_FINE:
+            aux = dict(st._aux)
+        else:
+            _, aux = self._residual(x, depth, Dloc, fd=_FD_FINE)
         aux["_at"] = (x, depth, Dloc)
         _, _, _, fx, fD = self._forces(x[:n], Dloc, aux["h"], aux["psi"])
         own = self.owner
