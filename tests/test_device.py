@@ -297,3 +297,24 @@ def test_cli_demo_runs_the_invented_skimmer(capsys):
     code = main(["demo"])
     out = capsys.readouterr().out
     assert code == 0 and "Invented example" in out and "twelve-leg" in out and "leg 12" in out
+
+
+@pytest.mark.parametrize("name", ["skimmer", "robot"])
+def test_best_payload_is_carried_where_it_is_reported(name):
+    """The best payload and its position (equilibrium.best_capacity, Nelder–Mead over the tilt)
+    against statics, by a second solve with the payload placed there: the state that carries
+    the best payload is an admissible equilibrium for a load at that position, so the capacity
+    there is at least the best payload, and no more than the search's tolerance above it (a
+    larger capacity anywhere would be a better optimum); it is at least the capacity at the
+    centre of mass, and weight plus best payload stay under the sum of the element limits
+    (PHYSICS.md bound). Invented examples."""
+    dev = Device.from_design(example(name))
+    r = solve_device(dev)
+    best = r.best_payload.to("N").magnitude
+    assert best >= r.max_payload.to("N").magnitude * (1 - 1e-12)
+    x, y = r.best_payload_position.to("m").magnitude
+    there = solve_device(dev, payload="0 g", payload_position=(f"{float(x)!r} m", f"{float(y)!r} m")).max_payload.to("N").magnitude
+    assert there >= best * (1 - 1e-9)
+    assert there <= best * (1 + 1e-4)
+    limits = sum(e.limit_force.to("N").magnitude for e in r.elements)
+    assert best + dev.weight <= limits * (1 + 1e-12)
