@@ -1296,7 +1296,7 @@ def limit(layout: Layout, depth, body, tilt=None, *, step: float = 0.1, tol: flo
     the force: it is stationary there), or the last solvable depth at a fold (bisection). The
     force returned is the largest of the solved points (never an extrapolation). While the
     rods' sections are far from their own 2D limit states the steps grow towards them
-    (:func:`_next_step`): 5–7 solves for the benchmark layouts (before: 6–11).
+    (:func:`_next_step`): 4–6 solves on rows, pairs, the skimmer and the 48-rod ring (before: 5–11).
 
     Returns
     -------
@@ -1552,6 +1552,26 @@ def _common_start(layout: Layout) -> float:
     d0 = min(_start_depth(layout, i) for i in range(layout.n_bodies))
     floor = max([0.02] + [law.lo + 1e-6 for law in layout.laws])
     return max(d0, floor)
+
+
+def isolated_force(body: RodBody | RoundBody, panels_per_lc: float = 2.0) -> float:
+    """The limit force of :func:`isolated_limit` [σ l_c]; a rod's is kept per shape and mesh
+    (it does not depend on where the rod lies or which way it points), so that a device's
+    shielding factors do not re-solve a rod alone for every layout of the same legs.
+
+    >>> rod = RodBody(3.0, 1.0, 0.7, 10.0, 0.05, math.radians(115))
+    >>> f = isolated_force(rod, 1.0)
+    >>> bool(abs(f - isolated_limit(rod, 1.0)["force"]) < 1e-9 * f)
+    True
+    """
+    if isinstance(body, RodBody):
+        return _isolated_rod_force(float(body.length), float(body.radius), float(body.theta), float(panels_per_lc))
+    return float(isolated_limit(body, panels_per_lc)["force"])
+
+
+@functools.lru_cache(maxsize=64)
+def _isolated_rod_force(length: float, radius: float, theta: float, ppl: float) -> float:
+    return float(isolated_limit(RodBody(0.0, 0.0, 0.5 * PI, length, radius, theta), ppl)["force"])
 
 
 def isolated_limit(body: RodBody | RoundBody, panels_per_lc: float = 2.0) -> dict:

@@ -197,7 +197,7 @@ def shielding(models, kinds, liquid, names, groups_out: list | None = None) -> t
                                                 (b.length, b.radius, b.theta) if not isinstance(b, I.RoundBody))
                         if not isinstance(b, I.RoundBody) else b.key())
                 if akey not in alone:
-                    alone[akey] = I.isolated_limit(b, 1.0)["force"]   # the cluster's mesh: errors cancel in s
+                    alone[akey] = I.isolated_force(b, 1.0)   # the cluster's mesh: errors cancel in s
                 f = float(lim["forces"][solved.index(k)]) / alone[akey]
                 s[k] = min(1.0, f) if math.isfinite(f) and f > 0 else 1.0
         except (ConvergenceError, InputError, np.linalg.LinAlgError) as exc:
