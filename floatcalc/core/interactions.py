@@ -157,6 +157,31 @@ _KRYLOV_MIN = 1000  # unknowns from which exact Newton steps use GMRES rather th
 _BLOCKS_MIN = 1000  # unknowns from which GMRES is preconditioned by the diagonal blocks (_Blocks)
 
 
+_HALVES_ROWS = 1000    # matrix rows from which a product with M is split over two threads
+_HALVES_POINTS = 4000  # inner-map points from which their evaluation is split over two threads
+
+
+def _mul(A, v):
+    """A @ v, on a large layout by halves of A's rows side by side (:func:`_threads.in_halves`:
+    1.5 ms for M at n = 1344 in one thread, memory-bound; each half reads half of it)."""
+    if A.shape[0] < _HALVES_ROWS:
+        return A @ v
+    from ._threads import in_halves
+
+    return np.concatenate(in_halves(lambda a, b: A[a:b] @ v, A.shape[0], at_least=2))
+
+
+def _amplitudes(h, psi):
+    """inner2d.amplitudes at NODES, by halves side by side when there are many points (the
+    5n points of a large layout's difference quotients)."""
+    if h.size < _HALVES_POINTS:
+        return inner2d.amplitudes(h, psi, NODES)
+    from ._threads import in_halves
+
+    parts = in_halves(lambda a, b: inner2d.amplitudes(h[a:b], psi[a:b], NODES), h.size, at_least=2)
+    return np.concatenate([p[0] for p in parts]), np.concatenate([p[1] for p in parts])
+
+
 def _factor(J):
     """LU factors of a Jacobian in single precision: they serve as a preconditioner and for
     chord steps only (every residual is evaluated in double precision, so the solution is not
@@ -859,14 +884,14 @@ class Layout:
         h, psi, delta, hx, px, dx = self._contact(xr, Dloc)
         em, ep = np.exp(-delta), np.exp(delta)
         if not derivs:
-            a, b = inner2d.amplitudes(h, psi, NODES)
+            a, b = _amplitudes(h, psi)
             return a * em + b * ep, -a * em + b * ep, h, psi
         # central differences over a step that smooths the map's E ln|E| kink at E = 0 (the
         # isolated-meniscus state, where the exact derivative is log-singular): Newton then
         # sees the secant slope on that scale and converges robustly
         hh = np.concatenate([h, h + fd, h - fd, h, h])
         pp = np.concatenate([psi, psi, psi, psi + fd, psi - fd])
-        A, Bm = inner2d.amplitudes(hh, pp, NODES)
+        A, Bm = _amplitudes(hh, pp)
         n = h.size
         a, b = A[:n], Bm[:n]
         ah = (A[n:2 * n] - A[2 * n:3 * n]) / (2 * fd)
@@ -944,7 +969,7 @@ class Layout:
             hv, gv, h, psi, hv_x, gv_x, hv_D, gv_D = self._panel_map(xr, Dloc, fd=fd)
         else:
             hv, gv, h, psi = self._panel_map(xr, Dloc, derivs=False)
-        rr = gv - self.M @ hv - self.W @ B
+        rr = gv - _mul(self.M, hv) - self.W @ B
         out = {"hv": hv, "gv": gv, "h": h, "psi": psi}
         if self.round_idx.size:
             hin = self.Q @ hv + self.Z @ B
@@ -979,9 +1004,9 @@ class Layout:
         yr, yb = Y2[:n], Y2[n:]
         hy = aux["hv_x"][:, None] * yr
         if low:   # single-precision M: enough for an inexact Newton step (relative 1e-4)
-            top = aux["gv_x"][:, None] * yr - (self.M32 @ hy.astype(np.float32)).astype(np.float64)
+            top = aux["gv_x"][:, None] * yr - _mul(self.M32, hy.astype(np.float32)).astype(np.float64)
         else:
-            top = aux["gv_x"][:, None] * yr - self.M @ hy
+            top = aux["gv_x"][:, None] * yr - _mul(self.M, hy)
         if self.round_idx.size:
             top = top - self.W @ yb
             bot = yb + aux["dB"][:, None] * (self.Q @ hy + self.Z @ yb)

@@ -637,3 +637,24 @@ def test_concurrent_lu_solves_with_own_pivots_agree():
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
     assert out.returncode == 0, out.stderr[-400:]
     assert out.stdout.strip().splitlines()[-1] == "0"
+
+
+def test_solve_the_same_with_its_products_in_halves(monkeypatch):
+    """core.interactions._mul and _amplitudes (the products with M and the inner map split over
+    two threads on a large layout): with their thresholds lowered below the skimmer's size, a
+    solve and its depth slope come out the same bit for bit as in one thread."""
+    from floatcalc.core import _threads
+
+    monkeypatch.setattr(_threads, "_cores", lambda: 2)
+    monkeypatch.setattr(ia, "_HALVES_ROWS", 50)
+    monkeypatch.setattr(ia, "_HALVES_POINTS", 50)
+    bodies = _skimmer_bodies()
+    lay = ia.Layout(bodies)
+    two = lay.solve(np.full(12, 1.2))
+    g2 = two.dforce_along(np.ones(12))
+    monkeypatch.setenv("FLOATCALC_THREADS", "1")
+    lay1 = ia.Layout(bodies)
+    one = lay1.solve(np.full(12, 1.2))
+    g1 = one.dforce_along(np.ones(12))
+    assert two.converged and np.array_equal(two.x, one.x) and np.array_equal(two.force, one.force)
+    assert np.array_equal(g2, g1)
