@@ -78,6 +78,17 @@ _POOL = None
 _POOL_LOCK = threading.Lock()
 
 
+def _forget_pool() -> None:
+    """In a forked child the worker thread does not exist: a new pool is made on first use
+    (a copy of the parent's would queue the half forever)."""
+    global _POOL
+    _POOL = None
+
+
+if hasattr(os, "register_at_fork"):
+    os.register_at_fork(after_in_child=_forget_pool)
+
+
 def _cores() -> int:
     try:
         return len(os.sched_getaffinity(0))

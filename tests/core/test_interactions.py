@@ -658,3 +658,24 @@ def test_solve_the_same_with_its_products_in_halves(monkeypatch):
     g1 = one.dforce_along(np.ones(12))
     assert two.converged and np.array_equal(two.x, one.x) and np.array_equal(two.force, one.force)
     assert np.array_equal(g2, g1)
+
+
+def test_in_halves_works_in_a_forked_child(monkeypatch):
+    """core._threads: after os.fork the parent's worker thread does not exist in the child; the
+    child makes its own pool (a copied pool would wait for the second half for ever). Checked
+    in a fresh interpreter that uses the pool, forks, and uses it again in the child."""
+    import subprocess
+    import sys
+
+    code = ("import os, sys\n"
+            "from floatcalc.core import _threads\n"
+            "_threads._cores = lambda: 2\n"
+            "assert _threads.in_halves(lambda a, b: b - a, 10, at_least=2) == [5, 5]\n"
+            "pid = os.fork()\n"
+            "if pid == 0:\n"
+            "    os._exit(0 if _threads.in_halves(lambda a, b: b - a, 8, at_least=2) == [4, 4] else 3)\n"
+            "_, status = os.waitpid(pid, 0)\n"
+            "print(os.waitstatus_to_exitcode(status))\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
+    assert out.returncode == 0, out.stderr[-400:]
+    assert out.stdout.strip().splitlines()[-1] == "0"
