@@ -13,9 +13,10 @@ while another thread is inside a BLAS call is not safe. Set the environment vari
 ``FLOATCALC_BLAS_THREADS=keep`` to leave the BLAS thread count alone.
 
 The second core is used instead where one large job splits into independent halves
-(:func:`in_halves`: the boundary-element rows and the triangular solve for the outer map of a
-large layout), each half single-threaded in its own Python thread: the cold 48-leg layout's
-build went from 0.62 to 0.42 s on the 2-core benchmark machine. SciPy 1.17's ``lu_solve`` is
+(:func:`in_halves`: the boundary-element rows, the triangular solve for the outer map, the
+products with it and the inner map's points of a large layout), each half single-threaded in
+its own Python thread: the cold 48-leg layout's build went from 0.62 to 0.42 s and its limit
+search from 0.30 to 0.21 s on the 2-core benchmark machine. SciPy 1.17's ``lu_solve`` is
 not safe on one pivot array shared by two threads (measured here: four threads solving with one
 factorisation corrupted the heap within 20 tries); with its own copy of the pivots each,
 200 concurrent solves gave identical results (tests/core/test_interactions.py repeats that
@@ -81,8 +82,9 @@ _POOL_LOCK = threading.Lock()
 def _forget_pool() -> None:
     """In a forked child the worker thread does not exist: a new pool is made on first use
     (a copy of the parent's would queue the half forever)."""
-    global _POOL
+    global _POOL, _POOL_LOCK
     _POOL = None
+    _POOL_LOCK = threading.Lock()   # (it may have been held by another thread at the fork)
 
 
 if hasattr(os, "register_at_fork"):
