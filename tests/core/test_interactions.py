@@ -679,3 +679,40 @@ def test_in_halves_works_in_a_forked_child(monkeypatch):
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
     assert out.returncode == 0, out.stderr[-400:]
     assert out.stdout.strip().splitlines()[-1] == "0"
+
+
+def test_round_body_scattering_matches_a_nonlinear_axisymmetric_shot():
+    """core.interactions' mode-0 scattering factor W = I₀(r_c) + I₁K₀/K₁(r_c) (the contact-depth
+    response of a round body to an incoming wave α I₀(r) at a fixed contact state) against the
+    full nonlinear axisymmetric Young–Laplace equation shot outward from the ball's contact
+    (scipy solve_ivp), whose far field is fitted to K₀ and I₀: the contact heights with no
+    growing part and with −α I₀ differ by α W within 1 %. The isolated height is the table's."""
+    from scipy.integrate import solve_ivp
+    from scipy.optimize import brentq
+    from scipy.special import i0, i1, k0, k1
+
+    from floatcalc.core import round_bodies as rb
+
+    a, th, De = 0.4, math.radians(120), 0.365
+    phi = brentq(lambda p: float(rb.ball_state(np.array([p]), a, th)["depth"][0]) - De, 0.3, 3.0)
+    s = rb.ball_state(np.array([phi]), a, th)
+    rc, psi = float(s["rc"][0]), float(s["psi"][0])
+
+    def rhs(r, y):
+        z, zp = y
+        w = 1 + zp * zp
+        return [zp, w ** 1.5 * (z - zp / (r * math.sqrt(w)))]
+
+    def growing(zc):
+        sol = solve_ivp(rhs, (rc, 4.0), [zc, math.tan(psi)], rtol=1e-11, atol=1e-13, dense_output=True)
+        r = np.linspace(2.0, 3.5, 40)
+        return np.linalg.lstsq(np.stack([k0(r), i0(r)], 1), sol.sol(r)[0], rcond=None)[0][1]
+
+    alpha = 1e-3
+    z_iso = brentq(growing, -1.0, 0.0)
+    z_in = brentq(lambda z: growing(z) + alpha, -1.0, 0.0)
+    assert z_iso == pytest.approx(-float(s["d"][0]), abs=1e-6)
+    W = i0(rc) + i1(rc) * k0(rc) / k1(rc)
+    assert -(z_in - z_iso) / alpha == pytest.approx(W, rel=0.01)
+    law = ia.Layout([ia.RoundBody(0.0, 0.0, "ball", {"radius": a, "theta": th})]).laws[0]
+    assert float(law("kappa", De)) * i0(a) == pytest.approx(W, rel=2e-3)

@@ -87,11 +87,11 @@ def test_rod_beside_a_ball_against_the_fem_reference():
     moderate depth, nonlinear reference (fem3d.ball_body: the sphere's own contact-angle law on
     the contact radius the model finds; alone it reproduces the axisymmetric ball to 3e-7).
 
-    Measured: the rod's force within 0.9 %; the ball's 4.4 % ABOVE the reference (2.0 % with the
-    ball 1.6 l_c from the axis, 3.8 % at 0.4/0.6 l_c depths): the mode-0 coupling of round bodies
-    takes the rod's field as a level change over the ball's contact circle and leaves out its
-    gradient across the ball (core.interactions; the device warns of this blind spot). The
-    issue's 3 % is not met for the ball; asserted at 5 % so that a change is noticed.
+    Measured: the rod's force within 0.7 %; the ball's 0.35 % below the reference (0.19 % with
+    the ball 1.6 l_c from the axis, 0.02 % at 0.4/0.6 l_c depths), with the mode-0 scattering of
+    core.interactions (the incoming mean h_in moves the ball's contact depth by κ h_in,
+    κ = W(r_c)/I₀(ρ)); taking it as a plain level (κ = 1) put the ball 4.4 / 2.0 / 3.8 % above.
+    Asserted at 1.5 % (rod) and 1 % (ball); the issue asks 3 %.
     """
     a, thb, Db = 0.4, math.radians(120), 0.45
     R, th, L, Dr, yb = 0.1, math.radians(120), 6.0, 0.3, 1.0
@@ -104,7 +104,7 @@ def test_rod_beside_a_ball_against_the_fem_reference():
     f, err = ref["flux"], ref["err_flux"]
     assert np.all(err < 1e-3 * np.abs(f))
     assert st.surface_tension[0] == pytest.approx(f[0], rel=0.015)
-    assert st.surface_tension[1] == pytest.approx(f[1], rel=0.05)
+    assert st.surface_tension[1] == pytest.approx(f[1], rel=0.01)
 
 
 @pytest.mark.slow
