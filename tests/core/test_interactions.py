@@ -465,6 +465,17 @@ def test_krylov_and_direct_newton_reach_the_same_limit(monkeypatch):
     np.testing.assert_allclose(got["forces"], ref["forces"], rtol=1e-8)
 
 
+def _fresh_python(code: str, *, env=None, timeout: float = 120) -> str:
+    """Run ``code`` in a fresh interpreter; it must exit 0 (a crash fails the test, not the
+    run). Returns the last line it printed."""
+    import subprocess
+    import sys
+
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, timeout=timeout)
+    assert out.returncode == 0, out.stderr[-400:]
+    return out.stdout.strip().splitlines()[-1]
+
+
 @pytest.mark.parametrize("keep", [False, True])
 def test_blas_limited_to_one_thread_once_unless_kept(keep):
     """core._threads: the first solve sets the process's BLAS to one thread for good (the dense
@@ -473,8 +484,6 @@ def test_blas_limited_to_one_thread_once_unless_kept(keep):
     threadpoolctl's own report."""
     import json
     import os
-    import subprocess
-    import sys
 
     code = ("from threadpoolctl import threadpool_info\n"
             "import numpy as np\n"
@@ -490,9 +499,7 @@ def test_blas_limited_to_one_thread_once_unless_kept(keep):
         env["FLOATCALC_BLAS_THREADS"] = "keep"
     else:
         env.pop("FLOATCALC_BLAS_THREADS", None)
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, timeout=120)
-    assert out.returncode == 0, out.stderr
-    before, after = json.loads(out.stdout.strip().splitlines()[-1])
+    before, after = json.loads(_fresh_python(code, env=env))
     assert before and after, "no BLAS library reported"
     # (SciPy's own BLAS is loaded by the solve, so ``after`` lists more libraries than ``before``)
     assert after == ([before[0]] * len(after) if keep else [1] * len(after))
@@ -618,8 +625,6 @@ def test_concurrent_lu_solves_with_own_pivots_agree():
     lu_solve from four threads at once on one factorisation, each call with its own copy of the
     pivots, gives the single-threaded solution bit for bit (200 solves). Run in a subprocess, so
     that a heap corruption (seen with one shared pivot array) fails this test, not the run."""
-    import subprocess
-    import sys
 
     code = ("import numpy as np\n"
             "from concurrent.futures import ThreadPoolExecutor\n"
@@ -634,9 +639,7 @@ def test_concurrent_lu_solves_with_own_pivots_agree():
             "        outs = list(ex.map(lambda k: lu_solve((lu, piv.copy()), N, trans=1), range(4)))\n"
             "        bad += sum(not np.array_equal(o, ref) for o in outs)\n"
             "print(bad)\n")
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
-    assert out.returncode == 0, out.stderr[-400:]
-    assert out.stdout.strip().splitlines()[-1] == "0"
+    assert _fresh_python(code) == "0"
 
 
 def test_solve_the_same_with_its_products_in_halves(monkeypatch):
@@ -660,12 +663,10 @@ def test_solve_the_same_with_its_products_in_halves(monkeypatch):
     assert np.array_equal(g2, g1)
 
 
-def test_in_halves_works_in_a_forked_child(monkeypatch):
+def test_in_halves_works_in_a_forked_child():
     """core._threads: after os.fork the parent's worker thread does not exist in the child; the
     child makes its own pool (a copied pool would wait for the second half for ever). Checked
     in a fresh interpreter that uses the pool, forks, and uses it again in the child."""
-    import subprocess
-    import sys
 
     code = ("import os, sys\n"
             "from floatcalc.core import _threads\n"
@@ -676,9 +677,7 @@ def test_in_halves_works_in_a_forked_child(monkeypatch):
             "    os._exit(0 if _threads.in_halves(lambda a, b: b - a, 8, at_least=2) == [4, 4] else 3)\n"
             "_, status = os.waitpid(pid, 0)\n"
             "print(os.waitstatus_to_exitcode(status))\n")
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60)
-    assert out.returncode == 0, out.stderr[-400:]
-    assert out.stdout.strip().splitlines()[-1] == "0"
+    assert _fresh_python(code, timeout=60) == "0"
 
 
 def test_round_body_scattering_matches_a_nonlinear_axisymmetric_shot():
